@@ -1,0 +1,95 @@
+"""Schedule: validation, piecewise-linear values, exact integrals, joining."""
+import numpy as np
+import pytest
+from hypothesis import given, settings, strategies as st
+from scipy.integrate import quad
+
+from thermo.errors import ModelError
+from thermo.network.schedule import Schedule
+
+
+def ramp():
+    return Schedule(np.array([0.0, 1.0, 3.0]), {"q": np.array([0.0, 10.0, 10.0]), "v": np.array([1.0, 2.0, 4.0])})
+
+
+def test_value_is_linear_between_samples():
+    s = ramp()
+    # piecewise linear interpolation by hand: halfway along the first piece is 5
+    assert s.value("q", 0.5) == pytest.approx(5.0)
+    assert s.value("v", 2.0) == pytest.approx(3.0)
+    np.testing.assert_allclose(s.value("q", [0.0, 0.25, 2.0, 3.0]), [0.0, 2.5, 10.0, 10.0])
+    assert s.values_at(0.5) == pytest.approx({"q": 5.0, "v": 1.5})
+
+
+def test_integral_exact_against_hand_and_quad():
+    s = ramp()
+    # by hand: triangle 0..1 gives 5, rectangle 1..3 gives 20
+    assert s.integral("q", 0.0, 3.0) == pytest.approx(25.0, rel=1e-14)
+    # partial pieces: from 0.5 to 2: trapezoid (5+10)/2*0.5 + 10*1 = 13.75
+    assert s.integral("q", 0.5, 2.0) == pytest.approx(13.75, rel=1e-14)
+    assert s.integral("q", 2.0, 0.5) == pytest.approx(-13.75, rel=1e-14)
+    np.testing.assert_allclose(s.integral("q", np.array([0.0, 0.5]), np.array([1.0, 2.0])), [5.0, 13.75])
+
+
+@settings(max_examples=30, deadline=None)
+@given(st.lists(st.floats(-1e3, 1e3), min_size=3, max_size=12), st.floats(0, 1), st.floats(0, 1))
+def test_integral_matches_scipy_quad(values, a, b):
+    # reference: adaptive quadrature (scipy.integrate.quad, QUADPACK) of the interpolant
+    t = np.cumsum(np.linspace(0.5, 1.5, len(values)))
+    s = Schedule(t, {"x": np.array(values)})
+    t0, t1 = t[0] + a * (t[-1] - t[0]), t[0] + b * (t[-1] - t[0])
+    ref, _ = quad(lambda x: np.interp(x, t, values), t0, t1, points=t, limit=200)
+    assert s.integral("x", t0, t1) == pytest.approx(ref, rel=1e-9, abs=1e-9)
+
+
+@pytest.mark.parametrize("time, signals, words", [
+    ([0.0, 1.0, 1.0], {"q": [0, 1, 2]}, "strictly increasing"),
+    ([0.0, 2.0, 1.0], {"q": [0, 1, 2]}, "sample 2"),
+    ([0.0, 1.0], {"q": [0, 1, 2]}, "signal 'q' has shape"),
+    ([0.0, 1.0], {"speed": [0, np.nan]}, "signal 'speed' has a non-finite"),
+    ([0.0], {"q": [0]}, "at least two"),
+])
+def test_validation_names_the_problem(time, signals, words):
+    with pytest.raises(ModelError, match=words):
+        Schedule(np.array(time), {k: np.array(v, dtype=float) for k, v in signals.items()})
+
+
+def test_unknown_signal_and_outside_times():
+    s = ramp()
+    with pytest.raises(ModelError, match="no signal named 'qq'.*did you mean q"):
+        s.value("qq", 0.5)
+    with pytest.raises(ModelError, match="outside the schedule"):
+        s.value("q", 3.5)
+    with pytest.raises(ModelError, match="outside the schedule"):
+        s.integral("q", -1.0, 1.0)
+
+
+def test_arrays_are_read_only():
+    s = ramp()
+    with pytest.raises(ValueError):
+        s.signals["q"][0] = 3.0
+    with pytest.raises(ValueError):
+        s.time_s[0] = 3.0
+
+
+def test_shift_and_concatenate():
+    a = ramp()
+    # the join at t = 3 carries q = 10 from the first and q = 0 from the second: a jump, refused
+    with pytest.raises(ModelError, match="signal 'q' jumps"):
+        ramp().concatenate(ramp().shifted(3.0))
+    # a gap is linear: integral over the joined schedule is the sum plus the gap's trapezoid
+    gap = a.concatenate(ramp().shifted(5.0))
+    np.testing.assert_allclose(gap.time_s, [0, 1, 3, 5, 6, 8])
+    assert gap.integral("q", 0.0, 8.0) == pytest.approx(25.0 + 0.5 * (10 + 0) * 2 + 25.0)
+    with pytest.raises(ModelError, match="before the first ends"):
+        a.concatenate(ramp().shifted(1.0))
+    with pytest.raises(ModelError, match="different signals"):
+        a.concatenate(Schedule.constant(4.0, 5.0, {"q": 1.0}))
+
+
+def test_concatenate_merges_equal_shared_sample():
+    a = Schedule.constant(0.0, 2.0, {"q": 3.0})
+    b = Schedule.constant(2.0, 5.0, {"q": 3.0})
+    joined = a.concatenate(b)
+    np.testing.assert_allclose(joined.time_s, [0.0, 2.0, 5.0])
+    assert joined.integral("q", 0.0, 5.0) == pytest.approx(15.0)
