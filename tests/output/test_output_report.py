@@ -1,0 +1,102 @@
+"""The terminal report: what it must say, and the soak marking."""
+import dataclasses
+
+import pytest
+
+from thermo import CAUTION
+from thermo.output import format_run_report
+from thermo.output.report import AFTER_STOP_MARK
+
+
+def _section(text, title):
+    """Lines of the first table that follows a line starting with title, up to the next blank line."""
+    lines = text.splitlines()
+    start = next(i for i, line in enumerate(lines) if line.startswith(title))
+    end = next((i for i in range(start, len(lines)) if not lines[i].strip()), len(lines))
+    return lines[start:end]
+
+
+def test_report_basics(results):
+    text = format_run_report(results)
+    assert text.rstrip().endswith(CAUTION)
+    assert text.isascii()
+    for name in ("front_left", "rear_left", "invented_car_at_invented_circuit", "LSODA", "FMVSS No. 116"):
+        assert name in text
+    assert "! duct flow outside correlation range at lap 3" in text
+    for header in ("peak [degC]", "limit [degC]", "margin [K]", "after stop [s]", "braking [kJ]"):
+        assert header in text
+
+
+def test_check_rows(results):
+    rows = _section(format_run_report(results), "Limit checks")
+    row = {line.split()[0]: line.split() for line in rows[3:]}
+    # fluid peak 170 degC (30 degC ambient + 140 K bump); FMVSS 116 DOT 4 limits 230 dry, 155 wet
+    assert row["fluid_boiling_dry"][1:6] == ["fluid", "230.0", "170.0", "+60.0", "ok"]
+    assert row["fluid_boiling_wet"][1:6] == ["fluid", "155.0", "170.0", "-15.0", "EXCEEDED"]
+    assert row["bearing_grease"][5] == "CAUTION"
+
+
+def test_peak_rows(results, factory):
+    rows = _section(format_run_report(results), "Peak temperatures")
+    peaks = {line.split()[0]: line.split() for line in rows[3:]}
+    assert set(peaks) == set(factory.NODES)
+    rise, t0, _ = factory.BUMPS["disc"]
+    assert peaks["disc"][1:4] == [f"{30 + rise:.1f}", f"{t0:.1f}", "5:00"]
+
+
+def test_soak_marks_nodes_whose_worst_came_after_stop(results):
+    rows = _section(format_run_report(results), "Soak after the stop at 900.0 s (15:00)")
+    by_node = {line.split()[0]: line for line in rows[3:-1]}
+    for node in ("fluid", "piston", "hub", "upright", "bearing"):
+        assert AFTER_STOP_MARK in by_node[node]
+    for node in ("disc", "pad", "caliper"):
+        assert AFTER_STOP_MARK not in by_node[node]
+    assert by_node["fluid"].split()[1:4] == ["170.0", "100.0", "1:40"]
+    assert rows[-1].strip() == "Peak of the whole run came after the stop for: fluid, piston, hub, upright, bearing"
+
+
+def test_no_stop_says_so(factory):
+    text = format_run_report(factory.results(stop=False))
+    assert "Soak: the run has no stop" in text
+    assert AFTER_STOP_MARK not in text
+
+
+def test_short_run_shows_every_lap(results):
+    rows = _section(format_run_report(results), "Per-lap maxima")
+    assert rows[0] == "Per-lap maxima [degC], 10 laps"
+    assert [r.split()[0] for r in rows[3:]] == [str(i) for i in range(1, 11)]
+
+
+def test_long_run_shows_every_nth_plus_worst(factory):
+    r = factory.results(n_race_laps=60)
+    corner = r.corners[0]
+    # make lap 30 the hottest for the fluid (smallest-margin check watches the fluid)
+    laps = list(corner.laps)
+    laps[29] = dataclasses.replace(laps[29], max_k={**laps[29].max_k, "fluid": 480.0})
+    r = dataclasses.replace(r, corners=(dataclasses.replace(corner, laps=tuple(laps)),))
+    rows = _section(format_run_report(r), "Per-lap maxima")
+    assert rows[0] == "Per-lap maxima [degC], 62 laps (every 4th lap shown, plus the last and the worst, lap 30)"
+    shown = [int(line.split()[0]) for line in rows[3:]]
+    assert shown == sorted(set(range(1, 63, 4)) | {30, 62})
+    assert len(shown) < 40
+
+
+def test_pad_thickness_lines(factory):
+    assert "Pad thickness [mm]: start 25.0, end 19.5" in format_run_report(factory.results())
+    per_stint = format_run_report(factory.results(extras={"pad_thickness_m": [0.024, 0.021]}))
+    assert "Pad thickness [mm]: stint 1 24.0, stint 2 21.0" in per_stint
+    assert "Pad thickness" not in format_run_report(factory.results(extras={"other": 1}))
+    # the shape the run chain writes: a list of {"when", "thickness_mm"} and a minimum in mm
+    chain = format_run_report(factory.results(extras={
+        "pad_thickness_mm": [{"when": "race", "thickness_mm": 22.0}, {"when": "end of run", "thickness_mm": 18.25}],
+        "pad_minimum_thickness_mm": 6.0}))
+    assert "Pad thickness [mm]: race 22.0, end of run 18.2" in chain
+    assert "Pad minimum thickness [mm]: 6.0" in chain
+
+
+def test_bad_pad_thickness_raises(factory):
+    from thermo.output import OutputError
+    with pytest.raises(OutputError, match="pad_thickness_m"):
+        format_run_report(factory.results(extras={"pad_thickness_m": {"start": "thick"}}))
+    with pytest.raises(OutputError, match="pad_thickness_mm"):
+        format_run_report(factory.results(extras={"pad_thickness_mm": [{"when": "race", "mm": 22.0}]}))

@@ -1,0 +1,194 @@
+"""The plain-text run report for the terminal: what the engineer reads before signing off.
+
+Per corner: node peaks, limit checks with margins, the energy balance, heat paths, the soak
+after the stop, a compact lap table and pad thickness. Warnings and references, then the
+caution. Temperatures in degC, margins in K, times in s (and min:s), as the headers say.
+"""
+from __future__ import annotations
+
+import math
+
+from lapdata.units import MM, kelvin_to_celsius
+from thermo import CAUTION
+from thermo.output.analysis import heat_path_shares, laps_to_show, node_peaks, soak_rows, worst_lap
+from thermo.output.errors import OutputError
+from thermo.results import CornerResult, Results
+
+RULE = "-" * 78
+# extras keys with pad thickness, and the factor to mm: a number, a list per stint, a dict label: value,
+# or a list of {"when": label, "thickness_mm" (or "thickness_m"): value}
+PAD_THICKNESS_KEYS = {"pad_thickness_m": 1.0 / MM, "pad_thickness_mm": 1.0}
+PAD_MINIMUM_KEYS = {"pad_minimum_thickness_m": 1.0 / MM, "pad_minimum_thickness_mm": 1.0}
+STATUS_WORDS = {"ok": "ok", "caution": "CAUTION", "exceeded": "EXCEEDED"}
+AFTER_STOP_MARK = "<< worst of the run came AFTER the stop"
+
+
+def _c(kelvin) -> str:
+    return "-" if kelvin is None or not math.isfinite(kelvin) else f"{kelvin_to_celsius(kelvin):.1f}"
+
+
+def _num(value, fmt: str = ".1f") -> str:
+    return "-" if value is None or not math.isfinite(value) else format(value, fmt)
+
+
+def _clock(seconds) -> str:
+    """Seconds as m:ss (h:mm:ss past an hour)."""
+    if seconds is None or not math.isfinite(seconds):
+        return "-"
+    sign, total = ("-" if seconds < 0 else ""), int(round(abs(seconds)))
+    hours, rest = divmod(total, 3600)
+    minutes, secs = divmod(rest, 60)
+    return f"{sign}{hours}:{minutes:02d}:{secs:02d}" if hours else f"{sign}{minutes}:{secs:02d}"
+
+
+def _is_number(cell: str) -> bool:
+    try:
+        float(cell)
+    except ValueError:
+        return cell in ("", "-") or ":" in cell and cell.replace(":", "").lstrip("-").isdigit()
+    return True
+
+
+def _table(headers: list[str], rows: list[list[str]], indent: str = "  ") -> list[str]:
+    """Numbers right-aligned, text left-aligned, two spaces between columns."""
+    widths = [max([len(h)] + [len(r[i]) for r in rows]) for i, h in enumerate(headers)]
+    right = [i > 0 and all(_is_number(r[i]) for r in rows) for i in range(len(headers))]
+
+    def line(cells):
+        parts = [c.rjust(w) if r else c.ljust(w) for c, w, r in zip(cells, widths, right)]
+        return (indent + "  ".join(parts)).rstrip()
+    return [line(headers), indent + "  ".join("-" * w for w in widths)] + [line(r) for r in rows]
+
+
+def _ordinal(n: int) -> str:
+    suffix = "th" if 10 <= n % 100 <= 20 else {1: "st", 2: "nd", 3: "rd"}.get(n % 10, "th")
+    return f"{n}{suffix}"
+
+
+def _peaks_section(corner: CornerResult) -> list[str]:
+    rows = [[node, _c(k), _num(t), _clock(t)] for node, (k, t) in node_peaks(corner).items()]
+    return ["Peak temperatures", *_table(["node", "peak [degC]", "at [s]", "at [m:s]"], rows)]
+
+
+def _checks_section(corner: CornerResult) -> list[str]:
+    if not corner.checks:
+        return ["Limit checks: none were set for this corner"]
+    rows = [[c.name, c.node, _c(c.limit_k), _c(c.peak_k), _num(c.margin_k, "+.1f"),
+             STATUS_WORDS.get(c.status, c.status.upper()), _num(c.peak_time_s), c.source] for c in corner.checks]
+    headers = ["check", "node", "limit [degC]", "peak [degC]", "margin [K]", "status", "peak at [s]", "source"]
+    return ["Limit checks (margin = limit - peak)", *_table(headers, rows)]
+
+
+def _energy_lines(corner: CornerResult) -> list[str]:
+    e = corner.energy
+    lines = [f"Energy balance [kJ]: heat in {e.heat_in_j / 1e3:.1f} = stored {e.stored_j / 1e3:.1f} "
+             f"+ lost {e.lost_j / 1e3:.1f}; relative error {e.balance_rel_error:.2e}"]
+    shares = heat_path_shares(corner)
+    if shares:
+        ranked = sorted(shares.items(), key=lambda item: -item[1])
+        lines.append("Heat out of the corner by path [%]: " +
+                     ", ".join(f"{g} {100 * s:.1f}" for g, s in ranked))
+    return lines
+
+
+def _soak_section(corner: CornerResult) -> list[str]:
+    rows = soak_rows(corner)
+    if rows is None:
+        return ["Soak: the run has no stop"]
+    stop = float(corner.stop_time_s)
+    table = [[r.node, _c(r.peak_k), _num(r.after_stop_s), _clock(r.after_stop_s), _c(r.run_peak_k),
+              AFTER_STOP_MARK if r.worst_after_stop else ""] for r in rows]
+    headers = ["node", "peak after stop [degC]", "after stop [s]", "[m:s]", "run peak [degC]", "note"]
+    worst = [r.node for r in rows if r.worst_after_stop]
+    summary = (f"  Peak of the whole run came after the stop for: {', '.join(worst)}" if worst
+               else "  No node reached its run peak after the stop.")
+    return [f"Soak after the stop at {stop:.1f} s ({_clock(stop)})", *_table(headers, table), summary]
+
+
+def _laps_section(corner: CornerResult) -> list[str]:
+    if not corner.laps:
+        return ["Laps: none recorded"]
+    shown, stride = laps_to_show(corner.laps, corner)
+    lap_nodes = [n for n in corner.node_names if n in corner.laps[0].max_k]
+    lap_nodes += [n for n in corner.laps[0].max_k if n not in lap_nodes]
+    title = f"Per-lap maxima [degC], {len(corner.laps)} laps"
+    if stride > 1:
+        worst = worst_lap(corner.laps, corner)
+        title += f" (every {_ordinal(stride)} lap shown, plus the last and the worst, lap {worst.index})"
+    rows = [[str(lap.index), lap.phase] + [_c(lap.max_k.get(n)) for n in lap_nodes] +
+            [_num(lap.braking_energy_j / 1e3)] for lap in shown]
+    return [title, *_table(["lap", "phase"] + lap_nodes + ["braking [kJ]"], rows)]
+
+
+def _thickness_items(corner: CornerResult, key: str, per_mm: float) -> list[tuple[str, float]]:
+    """(label, thickness [mm]) pairs from an extras entry in one of the accepted shapes."""
+    value = corner.extras[key]
+    bad = OutputError(f"corner {corner.name} extras '{key}': expected a number, a list of numbers, a dict "
+                      f"label: number, or a list of {{'when': label, 'thickness_{'mm' if per_mm == 1 else 'm'}': "
+                      f"number}}, got {value!r}")
+    if isinstance(value, dict):
+        items = list(value.items())
+    elif isinstance(value, (list, tuple)):
+        items = []
+        for i, item in enumerate(value):
+            if isinstance(item, dict):
+                unit_key = "thickness_mm" if per_mm == 1 else "thickness_m"
+                if unit_key not in item:
+                    raise bad
+                items.append((str(item.get("when", f"stint {i + 1}")), item[unit_key]))
+            else:
+                items.append((f"stint {i + 1}", item))
+    else:
+        items = [("", value)]
+    try:
+        return [(str(label), float(number) * per_mm) for label, number in items]
+    except (TypeError, ValueError):
+        raise bad from None
+
+
+def _pad_lines(corner: CornerResult) -> list[str]:
+    """Pad thickness lines from extras: ``pad_thickness_m`` / ``pad_thickness_mm`` and their minimum."""
+    lines = []
+    for key, per_mm in PAD_THICKNESS_KEYS.items():
+        if key in corner.extras:
+            text = ", ".join(f"{label} {mm:.1f}".strip() for label, mm in _thickness_items(corner, key, per_mm))
+            lines.append(f"Pad thickness [mm]: {text}")
+    for key, per_mm in PAD_MINIMUM_KEYS.items():
+        if key in corner.extras:
+            items = _thickness_items(corner, key, per_mm)
+            if len(items) != 1:
+                raise OutputError(f"corner {corner.name} extras '{key}': expected one number, got {corner.extras[key]!r}")
+            lines.append(f"Pad minimum thickness [mm]: {items[0][1]:.1f}")
+    return lines
+
+
+def format_corner_report(corner: CornerResult) -> str:
+    """The report section of one corner."""
+    parts = [RULE, f"Corner {corner.name}", RULE, *_peaks_section(corner), "", *_checks_section(corner), "",
+             *_energy_lines(corner), "", *_soak_section(corner), "", *_laps_section(corner)]
+    pad = _pad_lines(corner)
+    if pad:
+        parts += ["", *pad]
+    return "\n".join(parts)
+
+
+def format_run_report(results: Results) -> str:
+    """The whole run as plain ASCII text, ending with the caution.
+
+    Parameters
+    ----------
+    results : Results  A finished run [-]
+
+    Returns
+    -------
+    str  The report, lines separated by newlines [-]
+    """
+    head = [f"brakeheat run report: {results.scenario_name}",
+            f"brakeheat {results.version}, solver {results.solver}: {results.solver_status}"]
+    if results.warnings:
+        head += ["Warnings:"] + [f"  ! {w}" for w in results.warnings]
+    body = [format_corner_report(c) for c in results.corners]
+    tail = [RULE, "References"] + [f"  - {ref}" for ref in results.references]
+    tail += [RULE, results.caution or CAUTION]
+    text = "\n".join(head + [""] + ["\n\n".join(body)] + tail) + "\n"
+    return text.encode("ascii", "replace").decode("ascii")
