@@ -18,6 +18,7 @@ from thermo.errors import ModelError
 from thermo.network.capacity import CapacityTable
 from thermo.network.elements import Conduction, Convection, Network, Radiation
 from thermo.network.schedule import Schedule
+from thermo.network.tabulate import TabulatedConductance, lookup
 
 
 @dataclass(frozen=True)
@@ -85,6 +86,14 @@ class CompiledNetwork:
             (int(i), network.links[i].conductance,
              -1 if network.links[i].driver is None else self.driver_names.index(network.links[i].driver))
             for i in self.conv_idx)
+        fns = [fn for _, fn, _ in self._conv]
+        # every convection link tabulated on one grid: look them all up in one gather
+        self.conv_tables = None
+        if fns and all(isinstance(fn, TabulatedConductance) for fn in fns) and len({fn.grid for fn in fns}) == 1:
+            self.conv_grid = fns[0].grid
+            self.conv_tables = np.stack([fn.table for fn in fns])
+            self.conv_driver_index = np.array([di for _, _, di in self._conv], dtype=int)
+            self._conv_exact = tuple(fn.function for fn in fns)
         signals = []
         for s in network.sources:
             if s.signal not in signals:
@@ -151,10 +160,15 @@ class CompiledNetwork:
         """G [W/K] of each convection link (in ``conv_idx`` order), shape (..., n_convection)."""
         Ta, Tb = self._ends(T_nodes, boundary_k)
         drv = np.asarray(driver_values, dtype=float)
-        out = np.empty(Ta.shape[:-1] + (len(self._conv),))
-        for k, (li, fn, di) in enumerate(self._conv):
-            g = fn(None if di < 0 else drv[..., di], Ta[..., li], Tb[..., li])
-            out[..., k] = g
+        if self.conv_tables is not None:
+            li = self.conv_idx
+            dv = np.where(self.conv_driver_index >= 0, drv[..., np.maximum(self.conv_driver_index, 0)], 0.0) \
+                if drv.shape[-1:] != (0,) else np.zeros(Ta.shape[:-1] + (li.size,))
+            out = lookup(self.conv_grid, self.conv_tables, dv, Ta[..., li], Tb[..., li], self._conv_exact)
+        else:
+            out = np.empty(Ta.shape[:-1] + (len(self._conv),))
+            for k, (li, fn, di) in enumerate(self._conv):
+                out[..., k] = fn(None if di < 0 else drv[..., di], Ta[..., li], Tb[..., li])
         ok = np.isfinite(out) & (out >= 0)
         if not np.all(ok):
             bad = int(np.argmax(~ok.reshape(-1, len(self._conv)).all(axis=0)))

@@ -1,0 +1,222 @@
+"""Run a scenario: heat per corner for each segment, the corner network solved across the plan."""
+from __future__ import annotations
+
+import warnings
+from dataclasses import dataclass, replace
+
+import numpy as np
+
+import thermo
+from thermo.chain.plan import PlanSegment, expand_plan
+from thermo.corner.build import (
+    SIGNAL_AMBIENT, SIGNAL_DISC_HEAT, SIGNAL_DUCT_AIR, SIGNAL_PAD_HEAT, SIGNAL_SPEED, CornerModel, build_corner,
+)
+from thermo.corner.geometry import CornerDesign
+from thermo.correlations import correlation_reference
+from thermo.duty.corner_duty import CornerBrake, corner_heat_inputs
+from thermo.errors import SolveError
+from thermo.limits import check_specs, evaluate_check
+from thermo.materials import get_material
+from thermo.network.assemble import compile_network
+from thermo.network.schedule import Schedule
+from thermo.network.tabulate import ConductanceGrid
+from thermo.results import CornerResult, EnergyBalance, LapSpan, PhaseSpan, Results
+from thermo.scenario.model import Scenario
+from thermo.solver.scipy_solve import solve_network
+from thermo.solver.settings import SolverSettings
+
+MIN_PAD_THICKNESS_M = 0.5e-3   # a pad worn this far is held here (and the run warns)
+
+
+@dataclass(frozen=True)
+class SegmentDuty:
+    """Heat into one corner during one segment, on the segment's own time axis from 0."""
+
+    time_s: np.ndarray
+    disc_heat_w: np.ndarray
+    pad_heat_w: np.ndarray
+    speed_m_s: np.ndarray
+
+
+def corner_brakes(scenario: Scenario, models: dict[str, CornerModel]) -> list[CornerBrake]:
+    """The duty step's view of each corner (an axle corner stands for its left wheel)."""
+    brakes = []
+    for design in scenario.corners:
+        side = design.name.split("_")[1] if "_" in design.name else "left"
+        brakes.append(CornerBrake(
+            name=design.name, axle=design.axle, side=side, partition=models[design.name].heat_partition,
+            piston_area_one_side_m2=design.piston.area_one_side_m2, pad_mu=design.pad_mu,
+            effective_radius_m=design.effective_radius_m, rolling_radius_m=design.rolling_radius_m))
+    return brakes
+
+
+def corner_duties(scenario: Scenario, segment: PlanSegment, brakes: list[CornerBrake]) -> dict[str, SegmentDuty]:
+    """Heat into each corner's disc and pad during one segment [W]."""
+    trace = segment.trace
+    if not segment.moving:
+        zeros = np.zeros_like(trace.time_s)
+        return {b.name: SegmentDuty(trace.time_s, zeros, zeros, zeros) for b in brakes}
+    vehicle = scenario.vehicle.with_fuel(segment.fuel_kg)
+    if scenario.power_method == "pressure":
+        duties = corner_heat_inputs(trace.time_s, trace.speed_mps, vehicle, None, brakes, method="pressure",
+                                    pressure_front_pa=trace.pressure_front_pa, pressure_rear_pa=trace.pressure_rear_pa)
+    else:
+        duties = corner_heat_inputs(trace.time_s, trace.speed_mps, vehicle, scenario.bias, brakes,
+                                    left_share_front=scenario.left_share_front, left_share_rear=scenario.left_share_rear)
+    return {name: SegmentDuty(d.time_s, np.asarray(d.disc_heat_w), np.asarray(d.pad_heat_w), np.asarray(d.vehicle_speed_mps))
+            for name, d in duties.items()}
+
+
+def _schedule(scenario: Scenario, design: CornerDesign, segment: PlanSegment, duty: SegmentDuty) -> Schedule:
+    t = segment.t_start_s + duty.time_s
+    ambient = scenario.ambient.temperature_at(t)
+    rise = design.ducts[0].air_rise_k if design.ducts else 0.0
+    return Schedule(t, {SIGNAL_DISC_HEAT: duty.disc_heat_w, SIGNAL_PAD_HEAT: duty.pad_heat_w,
+                        SIGNAL_SPEED: duty.speed_m_s, SIGNAL_AMBIENT: ambient, SIGNAL_DUCT_AIR: ambient + rise})
+
+
+def conductance_grid(scenario: Scenario) -> ConductanceGrid:
+    """The tabulation grid spanning this scenario's air temperatures (ambient and duct air)."""
+    if scenario.ambient.profile_s_k:
+        temps = [t for _, t in scenario.ambient.profile_s_k]
+        lo, hi = min(temps), max(temps)
+    else:
+        lo = hi = scenario.ambient.temperature_k
+    rise = max((d.air_rise_k for c in scenario.corners for d in c.ducts), default=0.0)
+    lo, hi = np.floor(lo - 5.0), np.ceil(hi + rise + 5.0)
+    return ConductanceGrid(boundary_min_k=float(lo), boundary_max_k=float(max(hi, lo + 10.0)), boundary_step_k=5.0)
+
+
+def _wear_factor(scenario: Scenario, pad_k: float) -> float:
+    w = scenario.pad_wear
+    return float(np.exp(max(pad_k - w.reference_temperature_k, 0.0) / w.temperature_scale_k))
+
+
+def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_segment, settings: SolverSettings,
+                 progress=None) -> CornerResult:
+    """Solve one corner across all segments, carrying its state, with pad wear and pad changes."""
+    model = build_corner(design, scenario.ambient.pressure_pa, conductance_grid(scenario))
+    compiled = compile_network(model.network)
+    names = model.network.node_names
+    i_pad, i_back = names.index("pad"), names.index("backing_plate")
+    T = np.full(len(names), float(scenario.ambient.temperature_at(0.0)))
+    T_initial = T.copy()
+    thickness = design.pad.thickness_m
+    h0 = sum(n.heat_capacity.enthalpy(T[k]) for k, n in enumerate(model.network.nodes))
+    times, temps, flows, link_energy = [], [], [], np.zeros(len(model.network.links))
+    heat_in = lost = removed = 0.0
+    laps, stint_thickness, warns = [], [], []
+    for segment, duties in zip(segments, duties_by_segment):
+        duty = duties[design.name]
+        if segment.phase.kind == "pit_stop" and segment.phase.pad_change:
+            stint_thickness.append((segment.phase.name, thickness))
+            old = [model.network.nodes[k].heat_capacity.enthalpy(T[k]) for k in (i_pad, i_back)]
+            thickness = design.pad.thickness_m
+            model = build_corner(replace(design, pad=replace(design.pad, thickness_m=thickness)), scenario.ambient.pressure_pa, conductance_grid(scenario))
+            compiled = compile_network(model.network)
+            T[[i_pad, i_back]] = float(scenario.ambient.temperature_at(segment.t_start_s))
+            new = [model.network.nodes[k].heat_capacity.enthalpy(T[k]) for k in (i_pad, i_back)]
+            removed += sum(old) - sum(new)
+        schedule = _schedule(scenario, design, segment, duty)
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            sol = solve_network(compiled, schedule, T, settings, phase=f"corner {design.name}, {segment.phase.name}"
+                                + (f" lap {segment.lap_index}" if segment.lap_index else ""))
+        if sol.status != "success":
+            raise SolveError(f"corner {design.name}, {segment.phase.name}: {sol.status}")
+        skip = 1 if times else 0
+        out = model.outputs(sol.temperatures_k)
+        times.append(sol.time_s[skip:])
+        temps.append(out[skip:])
+        flows.append(sol.link_flows_w[skip:])
+        link_energy += sol.link_energy_j
+        heat_in += sol.heat_in_j
+        lost += sol.lost_j
+        T = sol.final_k.copy()
+        energy_lap = float(np.trapezoid(duty.disc_heat_w + duty.pad_heat_w, duty.time_s))
+        if segment.lap_index:
+            laps.append(LapSpan(segment.lap_index, segment.phase.name, float(sol.time_s[0]), float(sol.time_s[-1]),
+                                dict(zip(model.output_nodes, map(float, out.min(axis=0)))),
+                                dict(zip(model.output_nodes, map(float, out.max(axis=0)))), energy_lap))
+        if scenario.pad_wear.enabled and segment.moving and energy_lap > 0:
+            pad_series = sol.temperature("pad")
+            weight = np.interp(sol.time_s, schedule.time_s, duty.pad_heat_w)
+            pad_k = float(np.sum(weight * pad_series) / max(np.sum(weight), 1e-12))
+            wear = (scenario.pad_wear.wear_coefficient_m3_per_j * energy_lap / (2 * design.pad.area_m2)
+                    * _wear_factor(scenario, pad_k))
+            new_thickness = max(thickness - wear, MIN_PAD_THICKNESS_M)
+            if new_thickness < thickness:
+                old_h = model.network.nodes[i_pad].heat_capacity.enthalpy(T[i_pad])
+                model = build_corner(replace(design, pad=replace(design.pad, thickness_m=new_thickness)), scenario.ambient.pressure_pa, conductance_grid(scenario))
+                compiled = compile_network(model.network)
+                removed += old_h - model.network.nodes[i_pad].heat_capacity.enthalpy(T[i_pad])
+                if new_thickness - design.pad.minimum_thickness_m < scenario.pad_wear.warn_margin_m and \
+                        thickness - design.pad.minimum_thickness_m >= scenario.pad_wear.warn_margin_m:
+                    warns.append(f"corner {design.name}: pad down to {new_thickness * 1e3:.1f} mm on lap "
+                                 f"{segment.lap_index}, within {scenario.pad_wear.warn_margin_m * 1e3:.1f} mm of its "
+                                 f"minimum {design.pad.minimum_thickness_m * 1e3:.1f} mm")
+                thickness = new_thickness
+        if progress is not None:
+            progress(design.name, segment)
+    stint_thickness.append(("end of run", thickness))
+    h1 = sum(n.heat_capacity.enthalpy(T[k]) for k, n in enumerate(model.network.nodes))
+    time_s = np.concatenate(times)
+    stored = h1 - h0
+    energy = EnergyBalance(heat_in, stored, lost + removed)
+    specs = check_specs(scenario.fluid, scenario.limits, model.disc_check_node)
+    temps_all = np.concatenate(temps)
+    node_index = {n: i for i, n in enumerate(model.output_nodes)}
+    checks = tuple(evaluate_check(s, time_s, temps_all[:, node_index[s.node]]) for s in specs)
+    phases = _phase_spans(segments)
+    stop = next((s.t_start_s for s in segments if s.phase.kind == "soak"), None)
+    extras = {"pad_thickness_m": [{"when": w, "thickness_m": th} for w, th in stint_thickness],
+              "pad_minimum_thickness_m": design.pad.minimum_thickness_m,
+              "link_to_boundary": [link.b in model.network.boundary_names for link in model.network.links],
+              "heat_partition_disc": model.heat_partition,
+              "removed_with_pad_material_j": removed,
+              "initial_temperature_k": float(T_initial[0]),
+              "warnings": warns}
+    links = model.network.links
+    return CornerResult(
+        name=design.name, node_names=model.output_nodes, time_s=time_s, temperatures_k=temps_all,
+        link_names=tuple(link.name for link in links), link_groups=tuple(link.group for link in links),
+        link_flows_w=np.concatenate(flows), link_energy_j=link_energy, energy=energy, checks=checks,
+        laps=tuple(laps), phases=phases, stop_time_s=stop, extras=extras)
+
+
+def _phase_spans(segments) -> tuple[PhaseSpan, ...]:
+    spans: list[PhaseSpan] = []
+    for seg in segments:
+        if spans and spans[-1].name == seg.phase.name and seg.phase_index == getattr(spans[-1], "_index", seg.phase_index):
+            last = spans[-1]
+            spans[-1] = PhaseSpan(last.name, last.kind, last.t_start_s, seg.t_end_s)
+        else:
+            spans.append(PhaseSpan(seg.phase.name, seg.phase.kind, seg.t_start_s, seg.t_end_s))
+    return tuple(spans)
+
+
+def references_for(scenario: Scenario, models) -> tuple[str, ...]:
+    """Sources of the correlations and materials a run used, for the engineer who signs off."""
+    from thermo.correlations import REGISTRY
+    refs = [f"correlation {name}: {correlation_reference(name)}" for name in sorted(REGISTRY)]
+    materials = sorted({m for model in models.values() for m in model.materials_used})
+    for name in materials:
+        mat = get_material(name)
+        refs.append(f"material {name}: " + "; ".join(f"{k}: {v}" for k, v in sorted(mat.sources.items())))
+    refs.append(f"fluid {scenario.fluid.name}: {scenario.fluid.source}")
+    return tuple(refs)
+
+
+def run_scenario(scenario: Scenario, *, progress=None, segments=None) -> Results:
+    """The whole chain for every corner of a scenario."""
+    segments = expand_plan(scenario) if segments is None else segments
+    models = {d.name: build_corner(d, scenario.ambient.pressure_pa, conductance_grid(scenario)) for d in scenario.corners}
+    brakes = corner_brakes(scenario, models)
+    duties = [corner_duties(scenario, seg, brakes) for seg in segments]
+    settings = SolverSettings(method=scenario.solver.method, rtol=scenario.solver.rtol, atol_k=scenario.solver.atol_k)
+    corners = tuple(solve_corner(scenario, d, segments, duties, settings, progress) for d in scenario.corners)
+    run_warnings = tuple(w for c in corners for w in c.extras.get("warnings", []))
+    return Results(
+        scenario_name=scenario.name, scenario_text=scenario.text, version=thermo.__version__,
+        solver=settings.method, solver_status="success", references=references_for(scenario, models),
+        corners=corners, caution=thermo.CAUTION, warnings=run_warnings)

@@ -1,0 +1,109 @@
+"""`brakeheat run SCENARIO.toml` and `brakeheat demo`."""
+from __future__ import annotations
+
+import json
+import sys
+from pathlib import Path
+
+from thermo.errors import ScenarioError
+
+DEMO_SCENARIO = "demo.toml"
+
+
+def add_run_options(p) -> None:
+    p.add_argument("--json", action="store_true", help="print one JSON object on stdout instead of the report")
+    p.add_argument("--out", metavar="DIR", help="write results.h5, summary.json and PNG plots into DIR")
+    p.add_argument("--set", metavar="KEY=VALUE", action="append", default=[], dest="overrides",
+                   help="override one scenario key, e.g. --set corners.front.piston.type=vented (repeatable)")
+    p.add_argument("--solver", metavar="METHOD", help="override [solver] method (LSODA, BDF, Radau, fast)")
+    p.add_argument("--fail-on-exceeded", action="store_true", help="exit 3 when any check is exceeded")
+    p.add_argument("--quiet", action="store_true", help="no progress indication")
+
+
+def add_run_parsers(sub) -> None:
+    p = sub.add_parser("run", help="run a scenario: temperatures, margins, results file, plots")
+    p.add_argument("scenario", help="scenario TOML file")
+    add_run_options(p)
+    p.set_defaults(handler=run_command)
+    d = sub.add_parser("demo", help="run the bundled invented demo scenario (same options as run)")
+    add_run_options(d)
+    d.add_argument("--print-scenario", action="store_true", help="print where the demo scenario lives and stop")
+    d.set_defaults(handler=demo_command)
+
+
+def demo_scenario_path() -> Path:
+    """The bundled demo scenario, installed with the package (or the repo's scenarios/ folder)."""
+    try:
+        from importlib.resources import files
+        path = Path(str(files("brakeheat_scenarios") / DEMO_SCENARIO))
+        if path.is_file():
+            return path
+    except ModuleNotFoundError:
+        pass
+    path = Path(__file__).resolve().parents[2] / "scenarios" / DEMO_SCENARIO
+    if not path.is_file():
+        raise ScenarioError(f"{path}: the bundled demo scenario is missing; reinstall brakeheat")
+    return path
+
+
+def collect_overrides(texts) -> list:
+    from thermo.scenario.overrides import parse_override
+    return [parse_override(t) for t in texts]
+
+
+def overrides_with_solver(args) -> list:
+    overrides = collect_overrides(args.overrides)
+    if args.solver:
+        overrides.append(("solver.method", args.solver))
+    return overrides
+
+
+def run_and_report(path: Path, args) -> int:
+    from thermo.chain import expand_plan, run_scenario
+    from thermo.cli.progress import Progress
+    from thermo.output.summary import summary_dict
+    from thermo.scenario import load_scenario
+
+    scenario = load_scenario(path, overrides_with_solver(args))
+    segments = expand_plan(scenario)
+    progress = Progress(len(segments) * len(scenario.corners), enabled=not (args.json or args.quiet))
+    try:
+        results = run_scenario(scenario, progress=progress, segments=segments)
+    finally:
+        progress.close()
+    if args.out:
+        write_outputs(results, Path(args.out))
+    if args.json:
+        json.dump(summary_dict(results), sys.stdout, indent=2, allow_nan=False)
+        sys.stdout.write("\n")
+    else:
+        from thermo.output.report import format_run_report
+        print(format_run_report(results))
+        if args.out:
+            print(f"\nWrote results.h5, summary.json and plots to {args.out}")
+    exceeded = any(c.status == "exceeded" for corner in results.corners for c in corner.checks)
+    from thermo.cli.main import EXIT_EXCEEDED, EXIT_OK
+    return EXIT_EXCEEDED if (args.fail_on_exceeded and exceeded) else EXIT_OK
+
+
+def write_outputs(results, out_dir: Path) -> None:
+    """results.h5, summary.json and the plots, each written atomically."""
+    from thermo.output.hdf5 import write_results_hdf5
+    from thermo.output.plots import plot_run
+    from thermo.output.summary import write_summary_json
+    out_dir.mkdir(parents=True, exist_ok=True)
+    write_results_hdf5(results, out_dir / "results.h5")
+    write_summary_json(results, out_dir / "summary.json")
+    plot_run(results, out_dir)
+
+
+def run_command(args) -> int:
+    return run_and_report(Path(args.scenario), args)
+
+
+def demo_command(args) -> int:
+    path = demo_scenario_path()
+    if args.print_scenario:
+        print(path)
+        return 0
+    return run_and_report(path, args)

@@ -1,0 +1,91 @@
+"""Check one TOML table against its schema and convert it to SI (unknown keys are errors)."""
+from __future__ import annotations
+
+import difflib
+
+from thermo.errors import ScenarioError
+from thermo.scenario.schema import REQUIRED, Field, is_finite_number
+
+
+def suggestion(key: str, known) -> str:
+    close = difflib.get_close_matches(key, list(known), n=1, cutoff=0.6)
+    return f" (did you mean '{close[0]}'?)" if close else ""
+
+
+def reject_unknown(where: str, table: dict, known, source: str) -> None:
+    for key in table:
+        if key not in known:
+            raise ScenarioError(
+                f"{source}: unknown key '{key}' in [{where}]{suggestion(key, known)}; "
+                f"expected one of: {', '.join(sorted(known))}")
+
+
+def convert_value(where: str, key: str, field: Field, value, source: str):
+    at = f"{source}: [{where}] {key}"
+    if field.kind is bool:
+        if not isinstance(value, bool):
+            raise ScenarioError(f"{at} must be true or false, got {value!r}")
+        return value
+    if field.kind is str:
+        if not isinstance(value, str):
+            raise ScenarioError(f"{at} must be a text string, got {value!r}")
+        if field.choices and value not in field.choices:
+            raise ScenarioError(f"{at} = '{value}' is not allowed{suggestion(value, field.choices)}; "
+                                f"expected one of: {', '.join(field.choices)}")
+        return value
+    if field.kind is list:
+        if not isinstance(value, list):
+            raise ScenarioError(f"{at} must be a list, got {value!r}")
+        return _convert_list(at, value, field)
+    if field.kind is int:
+        if isinstance(value, bool) or not isinstance(value, int):
+            raise ScenarioError(f"{at} must be a whole number, got {value!r}")
+    elif not is_finite_number(value):
+        raise ScenarioError(f"{at} must be a finite number, got {value!r}")
+    if field.minimum is not None and value < field.minimum:
+        raise ScenarioError(f"{at} must be at least {field.minimum:g}, got {value!r}")
+    if field.maximum is not None and value > field.maximum:
+        raise ScenarioError(f"{at} must be at most {field.maximum:g}, got {value!r}")
+    if field.kind is int:
+        return value
+    return float(value) * field.factor + field.offset
+
+
+def _convert_list(at, value, field):
+    def number(x):
+        if not is_finite_number(x):
+            raise ScenarioError(f"{at} must hold finite numbers, got {x!r}")
+        return float(x)
+
+    out = []
+    for item in value:
+        if isinstance(item, list):
+            out.append(tuple(number(x) for x in item))
+        else:
+            x = number(item)
+            if x <= 0:
+                raise ScenarioError(f"{at} must hold positive numbers, got {item!r}")
+            out.append(x * field.factor)
+    return tuple(out)
+
+
+def convert_table(where: str, table, schema: dict, source: str) -> dict:
+    """SI values keyed by each field's SI name; defaults filled in; REQUIRED keys enforced."""
+    if not isinstance(table, dict):
+        raise ScenarioError(f"{source}: [{where}] must be a table")
+    reject_unknown(where, table, schema, source)
+    out = {}
+    for key, field in schema.items():
+        if key in table:
+            out[field.si_name] = convert_value(where, key, field, table[key], source)
+        elif field.default is REQUIRED:
+            raise ScenarioError(f"{source}: missing key '{key}' in [{where}]" + (f" ({field.doc})" if field.doc else ""))
+        elif field.default is None:
+            out[field.si_name] = None
+        elif field.kind in (float,) and isinstance(field.default, (int, float)):
+            out[field.si_name] = float(field.default) * field.factor + field.offset
+        elif field.kind is list:
+            out[field.si_name] = tuple(field.default)
+        else:
+            out[field.si_name] = field.default
+    return out

@@ -1,0 +1,244 @@
+"""Read a scenario TOML file into a Scenario (SI inside), with overrides applied first."""
+from __future__ import annotations
+
+import copy
+import math
+import tomllib
+from pathlib import Path
+
+from lapdata.track import CarEnvelope
+from thermo.corner.geometry import (
+    AirflowSettings, CaliperGeometry, CornerDesign, DiscGeometry, DuctGeometry, HubGeometry, PadGeometry,
+    PistonGeometry,
+)
+from thermo.correlations.air import air_density, pressure_at_altitude
+from thermo.duty.bias import FixedBias, HydraulicBias
+from thermo.duty.vehicle import VehicleParameters
+from thermo.errors import BrakeheatError, ScenarioError
+from thermo.limits import FluidSpec, Limits
+from thermo.scenario import schema as S
+from thermo.scenario.convert import convert_table, reject_unknown
+from thermo.scenario.model import (
+    PHASE_KINDS, Ambient, Phase, Plan, PadWear, Scenario, SolverChoice,
+)
+from thermo.scenario.overrides import apply_overrides
+
+
+def load_scenario(path, overrides=()) -> Scenario:
+    """Read and check a scenario file; ``overrides`` is a sequence of (dotted key, value) pairs."""
+    path = Path(path)
+    source = str(path)
+    try:
+        text = path.read_text(encoding="utf-8")
+    except FileNotFoundError:
+        raise ScenarioError(f"{source}: no such scenario file") from None
+    except (OSError, UnicodeDecodeError) as error:
+        raise ScenarioError(f"{source}: cannot read the scenario file ({error})") from None
+    try:
+        raw = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as error:
+        raise ScenarioError(f"{source}: not valid TOML: {error}") from None
+    return scenario_from_dict(raw, path=path, text=text, overrides=overrides)
+
+
+def scenario_from_dict(raw: dict, *, path: Path, text: str = "", overrides=()) -> Scenario:
+    """Build a Scenario from parsed TOML (a deep copy is modified by the overrides)."""
+    source = str(path)
+    data = apply_overrides(copy.deepcopy(raw), overrides, source)
+    reject_unknown("top level", data, S.TOP_LEVEL, source)
+    for name in ("car", "corners", "plan"):
+        if name not in data:
+            raise ScenarioError(f"{source}: missing section [{name}]")
+    sec = {name: convert_table(name, _without(data.get(name, {}), "phases" if name == "plan" else None), schema, source)
+           for name, schema in S.SECTIONS.items()}
+
+    ambient = _ambient(sec["ambient"], source)
+    car = sec["car"]
+    vehicle = VehicleParameters(
+        mass_kg=car["mass_kg"], fuel_kg=car["fuel_kg"], drag_cd_a_m2=car["drag_cd_a_m2"],
+        downforce_cl_a_m2=car["downforce_cl_a_m2"],
+        rolling_resistance_coefficient=car["rolling_resistance_coefficient"],
+        rolling_radius_front_m=car["rolling_radius_front_m"], rolling_radius_rear_m=car["rolling_radius_rear_m"],
+        air_density_kg_m3=float(air_density(ambient.pressure_pa, ambient.temperature_k)),
+        rotating_inertia_factor=car["rotating_inertia_factor"], engine_braking_force_n=car["engine_braking_force_n"])
+    try:
+        envelope = CarEnvelope(
+            mass_kg=car["mass_kg"] + car["fuel_kg"], braking_decel_g=car["braking_decel_g"],
+            lateral_grip_g=car["lateral_grip_g"], power_w=car["power_w"], traction_accel_g=car["traction_accel_g"],
+            downforce_cl_a_m2=max(car["downforce_cl_a_m2"], 0.0), drag_cd_a_m2=car["drag_cd_a_m2"],
+            air_density_kg_m3=vehicle.air_density_kg_m3,
+            top_speed_kmh=car["top_speed_kmh"] if car["top_speed_kmh"] > 0 else None)
+    except BrakeheatError as error:
+        raise ScenarioError(f"{source}: [car] {error}") from None
+    except ValueError as error:
+        raise ScenarioError(f"{source}: [car] {error}") from None
+
+    corners = _corners(data["corners"], sec, vehicle, source)
+    bias = _bias(sec["brakes"], corners, source)
+    fluid = _fluid(sec["fluid"], source)
+    limits = Limits(**sec["limits"])
+    plan = _plan(sec["plan"], data["plan"], path, source)
+    pad_wear = PadWear(**sec["pad_wear"])
+    solver = SolverChoice(**sec["solver"])
+    variants = data.get("variants", {})
+    if not isinstance(variants, dict) or not all(isinstance(v, dict) for v in variants.values()):
+        raise ScenarioError(f"{source}: [variants.NAME] tables must hold \"dotted.key\" = value overrides")
+    return Scenario(
+        name=sec["scenario"]["name"], description=sec["scenario"]["description"], path=path, text=text, raw=raw,
+        vehicle=vehicle, envelope=envelope, bias=bias, power_method=sec["brakes"]["power_method"],
+        left_share_front=sec["brakes"]["left_share_front"], left_share_rear=sec["brakes"]["left_share_rear"],
+        fuel_consumption_kg_per_lap=car["fuel_consumption_kg_per_lap"], fuel_capacity_kg=car["fuel_capacity_kg"],
+        ambient=ambient, fluid=fluid, limits=limits, corners=corners, plan=plan, pad_wear=pad_wear,
+        solver=solver, variants=variants, overrides=tuple(overrides))
+
+
+def _without(table, key):
+    if isinstance(table, dict) and key in table:
+        return {k: v for k, v in table.items() if k != key}
+    return table
+
+
+def _ambient(a: dict, source: str) -> Ambient:
+    pressure = a["pressure_pa"] if a["pressure_mode"] == "pressure" else float(pressure_at_altitude(a["altitude_m"]))
+    profile = ()
+    if a["temperature_profile_h_c"]:
+        rows = a["temperature_profile_h_c"]
+        if any(len(r) != 2 for r in rows if isinstance(r, tuple)) or not all(isinstance(r, tuple) for r in rows):
+            raise ScenarioError(f"{source}: [ambient] temperature_profile_h_c must be a list of [hours, degC] pairs")
+        hours = [r[0] for r in rows]
+        if any(b <= a_ for a_, b in zip(hours, hours[1:])) or hours[0] < 0:
+            raise ScenarioError(f"{source}: [ambient] temperature_profile_h_c hours must start at >= 0 and increase")
+        profile = tuple((h * 3600.0, c + 273.15) for h, c in rows)
+    return Ambient(a["temperature_k"], pressure, profile)
+
+
+def _fluid(fl: dict, source: str) -> FluidSpec:
+    try:
+        if fl["grade"].lower() == "custom":
+            if fl["dry_boiling_c"] <= 0 or fl["wet_boiling_c"] <= 0:
+                raise ScenarioError("grade = \"custom\" needs dry_boiling_c and wet_boiling_c (the maker's figures)")
+            table = tuple(fl["boiling_table_pct_c"])
+            if any(len(r) != 2 for r in table):
+                raise ScenarioError("boiling_table_pct_c must be a list of [water %, degC] pairs")
+            return FluidSpec("custom fluid", fl["dry_boiling_c"], fl["wet_boiling_c"], fl["water_content_pct"],
+                             table, source="fluid maker's figures (user input)")
+        if fl["dry_boiling_c"] or fl["wet_boiling_c"] or fl["boiling_table_pct_c"]:
+            raise ScenarioError("dry_boiling_c, wet_boiling_c and boiling_table_pct_c need grade = \"custom\"")
+        return FluidSpec.from_grade(fl["grade"], fl["water_content_pct"])
+    except ScenarioError as error:
+        message = str(error).removeprefix("[fluid] ")
+        raise ScenarioError(f"{source}: [fluid] {message}") from None
+
+
+def _merge(base: dict, over: dict) -> dict:
+    out = copy.deepcopy(base)
+    for key, value in over.items():
+        if isinstance(value, dict) and isinstance(out.get(key), dict):
+            out[key] = _merge(out[key], value)
+        else:
+            out[key] = copy.deepcopy(value)
+    return out
+
+
+def _corners(table: dict, sec: dict, vehicle: VehicleParameters, source: str) -> tuple[CornerDesign, ...]:
+    if not isinstance(table, dict):
+        raise ScenarioError(f"{source}: [corners] must hold tables such as [corners.front]")
+    reject_unknown("corners", table, S.CORNER_NAMES, source)
+    out = []
+    for axle in ("front", "rear"):
+        share = sec["brakes"][f"left_share_{axle}"]
+        sides = [s for s in ("left", "right") if f"{axle}_{s}" in table]
+        if axle not in table and len(sides) < 2:
+            raise ScenarioError(f"{source}: missing [corners.{axle}] (or both [corners.{axle}_left] and [corners.{axle}_right])")
+        if not sides and math.isclose(share, 0.5):
+            out.append(_corner(axle, axle, table[axle], vehicle, source))
+            continue
+        for side in ("left", "right"):
+            name = f"{axle}_{side}"
+            merged = _merge(table.get(axle, {}), table.get(name, {}))
+            out.append(_corner(name, axle, merged, vehicle, source))
+    return tuple(out)
+
+
+def _corner(name: str, axle: str, t: dict, vehicle: VehicleParameters, source: str) -> CornerDesign:
+    where = f"corners.{name}"
+    if not isinstance(t, dict):
+        raise ScenarioError(f"{source}: [{where}] must be a table")
+    reject_unknown(where, t, tuple(S.CORNER) + tuple(S.CORNER_SECTIONS) + ("ducts",), source)
+    for part in ("disc", "pad", "piston", "caliper"):
+        if part not in t:
+            raise ScenarioError(f"{source}: missing section [{where}.{part}]")
+    top = convert_table(where, {k: v for k, v in t.items() if k in S.CORNER}, S.CORNER, source)
+    parts = {part: convert_table(f"{where}.{part}", t.get(part, {}), schema, source)
+             for part, schema in S.CORNER_SECTIONS.items()}
+    ducts_raw = t.get("ducts", {})
+    if not isinstance(ducts_raw, dict) or not all(isinstance(v, dict) for v in ducts_raw.values()):
+        raise ScenarioError(f"{source}: ducts go in named tables, e.g. [{where}.ducts.main]")
+    try:
+        ducts = tuple(DuctGeometry(**convert_table(f"{where}.ducts.{dn}", dt, S.DUCT, source), section=f"{where}.ducts.{dn}")
+                      for dn, dt in ducts_raw.items())
+        if parts["pad"]["thickness_m"] <= parts["pad"]["minimum_thickness_m"]:
+            raise ScenarioError(f"[{where}.pad] thickness_mm must be more than minimum_thickness_mm")
+        piston = dict(parts["piston"])
+        piston["diameters_m"] = tuple(piston["diameters_m"])
+        return CornerDesign(
+            name=name, axle=axle,
+            disc=DiscGeometry(**parts["disc"], section=f"{where}.disc"),
+            pad=PadGeometry(**parts["pad"], section=f"{where}.pad"),
+            piston=PistonGeometry(**piston, section=f"{where}.piston"),
+            caliper=CaliperGeometry(**parts["caliper"], section=f"{where}.caliper"),
+            hub=HubGeometry(**parts["hub"], section=f"{where}.hub"),
+            ducts=ducts, airflow=AirflowSettings(**parts["airflow"], section=f"{where}.airflow"),
+            fluid_material="brake_fluid_glycol", pad_mu=top["pad_mu"],
+            rolling_radius_m=vehicle.rolling_radius_m(axle))
+    except ScenarioError as error:
+        raise ScenarioError(f"{source}: {error}") from None
+
+
+def _bias(b: dict, corners, source: str):
+    if b["bias"] == "fixed":
+        return FixedBias(b["front_share"])
+    if b["master_cylinder_front_diameter_m"] <= 0 or b["master_cylinder_rear_diameter_m"] <= 0:
+        raise ScenarioError(f"{source}: [brakes] bias = \"hydraulic\" needs master_cylinder_front_mm and master_cylinder_rear_mm")
+    front = next(c for c in corners if c.axle == "front")
+    rear = next(c for c in corners if c.axle == "rear")
+    area = lambda d: math.pi / 4 * d ** 2  # noqa: E731
+    try:
+        return HydraulicBias(
+            master_cylinder_front_m2=area(b["master_cylinder_front_diameter_m"]),
+            master_cylinder_rear_m2=area(b["master_cylinder_rear_diameter_m"]),
+            balance_bar_front_share=b["balance_bar_front_share"],
+            piston_area_front_m2=front.piston.area_one_side_m2, piston_area_rear_m2=rear.piston.area_one_side_m2,
+            pad_mu_front=front.pad_mu, pad_mu_rear=rear.pad_mu,
+            effective_radius_front_m=front.effective_radius_m, effective_radius_rear_m=rear.effective_radius_m)
+    except BrakeheatError as error:
+        raise ScenarioError(f"{source}: [brakes] {error}") from None
+
+
+def _plan(p: dict, raw_plan: dict, path: Path, source: str) -> Plan:
+    key = p["lap_source"]
+    name = p[key]
+    if not name:
+        raise ScenarioError(f"{source}: [plan] lap_source = \"{key}\" needs {key} = \"FILE\"")
+    lap_path = (path.parent / name) if not Path(name).is_absolute() else Path(name)
+    phases_raw = raw_plan.get("phases")
+    if not isinstance(phases_raw, list) or not phases_raw:
+        raise ScenarioError(f"{source}: [plan] needs at least one [[plan.phases]] entry")
+    phases = []
+    for i, ph in enumerate(phases_raw, start=1):
+        where = f"plan.phases #{i}"
+        if not isinstance(ph, dict) or "type" not in ph:
+            raise ScenarioError(f"{source}: [{where}] needs a type ({', '.join(PHASE_KINDS)})")
+        kind = ph["type"]
+        if kind not in S.PHASES:
+            from thermo.scenario.convert import suggestion
+            raise ScenarioError(f"{source}: [{where}] unknown phase type '{kind}'{suggestion(str(kind), S.PHASES)}; "
+                                f"expected one of: {', '.join(PHASE_KINDS)}")
+        values = convert_table(where, ph, {**S.PHASE_COMMON, **S.PHASES[kind]}, source)
+        values["name"] = values["name"] or f"{kind} {i}"
+        phases.append(Phase(**values))
+    if phases[0].kind in ("pit_stop",) and len(phases) == 1:
+        raise ScenarioError(f"{source}: [plan] has only a pit stop: add laps")
+    if sum(1 for ph in phases if ph.kind == "soak") > 1 or (any(ph.kind == "soak" for ph in phases) and phases[-1].kind != "soak"):
+        raise ScenarioError(f"{source}: [plan] the soak must be the last phase, and there can be only one")
+    return Plan(key, lap_path, p["sample_hz"], p["soak_sample_s"], tuple(phases), p["repair_trace"])
