@@ -8,6 +8,7 @@ import numpy as np
 
 import thermo
 from thermo.chain.plan import PlanSegment, expand_plan
+from thermo.chain.validity import check_validity
 from thermo.corner.build import (
     SIGNAL_AMBIENT, SIGNAL_DISC_HEAT, SIGNAL_DUCT_AIR, SIGNAL_PAD_HEAT, SIGNAL_SPEED, CornerModel, build_corner,
 )
@@ -26,6 +27,7 @@ from thermo.solver.scipy_solve import solve_network
 from thermo.solver.settings import SolverSettings
 
 MIN_PAD_THICKNESS_M = 0.5e-3   # a pad worn this far is held here (and the run warns)
+VALIDITY_SAMPLE_EVERY = 10     # every n-th output sample is checked against the correlations' ranges
 
 
 @dataclass(frozen=True)
@@ -105,7 +107,7 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
     h0 = sum(n.heat_capacity.enthalpy(T[k]) for k, n in enumerate(model.network.nodes))
     times, temps, flows, link_energy = [], [], [], np.zeros(len(model.network.links))
     heat_in = lost = removed = 0.0
-    laps, stint_thickness, warns = [], [], []
+    laps, stint_thickness, warns, states = [], [], [], []
     for segment, duties in zip(segments, duties_by_segment):
         duty = duties[design.name]
         if segment.phase.kind == "pit_stop" and segment.phase.pad_change:
@@ -133,6 +135,10 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
         heat_in += sol.heat_in_j
         lost += sol.lost_j
         T = sol.final_k.copy()
+        picks = slice(None, None, VALIDITY_SAMPLE_EVERY)
+        boundary_k, drivers = compiled.inputs_series(sol.time_s[picks], schedule)
+        states.append((drivers[:, 0] if drivers.shape[1] else np.zeros(len(boundary_k)),
+                       sol.temperatures_k[picks], boundary_k))
         energy_lap = float(np.trapezoid(duty.disc_heat_w + duty.pad_heat_w, duty.time_s))
         if segment.lap_index:
             laps.append(LapSpan(segment.lap_index, segment.phase.name, float(sol.time_s[0]), float(sol.time_s[-1]),
@@ -159,6 +165,8 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
         if progress is not None:
             progress(design.name, segment)
     stint_thickness.append(("end of run", thickness))
+    validity_lines, used = check_validity(model.network, states, design.name)
+    warns += validity_lines
     h1 = sum(n.heat_capacity.enthalpy(T[k]) for k, n in enumerate(model.network.nodes))
     time_s = np.concatenate(times)
     stored = h1 - h0
@@ -175,7 +183,8 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
               "heat_partition_disc": model.heat_partition,
               "removed_with_pad_material_j": removed,
               "initial_temperature_k": float(T_initial[0]),
-              "warnings": warns}
+              "warnings": warns,
+              "correlations_used": sorted(used)}
     links = model.network.links
     return CornerResult(
         name=design.name, node_names=model.output_nodes, time_s=time_s, temperatures_k=temps_all,
@@ -195,10 +204,11 @@ def _phase_spans(segments) -> tuple[PhaseSpan, ...]:
     return tuple(spans)
 
 
-def references_for(scenario: Scenario, models) -> tuple[str, ...]:
+def references_for(scenario: Scenario, models, correlations_used) -> tuple[str, ...]:
     """Sources of the correlations and materials a run used, for the engineer who signs off."""
-    from thermo.correlations import REGISTRY
-    refs = [f"correlation {name}: {correlation_reference(name)}" for name in sorted(REGISTRY)]
+    names = set(correlations_used) | {"heat_partition_area_weighted", "effusivity",
+                                      "radiation_coefficient_grey_two_surface", "radiation_coefficient_to_surroundings"}
+    refs = [f"correlation {name}: {correlation_reference(name)}" for name in sorted(names)]
     materials = sorted({m for model in models.values() for m in model.materials_used})
     for name in materials:
         mat = get_material(name)
@@ -218,5 +228,5 @@ def run_scenario(scenario: Scenario, *, progress=None, segments=None) -> Results
     run_warnings = tuple(w for c in corners for w in c.extras.get("warnings", []))
     return Results(
         scenario_name=scenario.name, scenario_text=scenario.text, version=thermo.__version__,
-        solver=settings.method, solver_status="success", references=references_for(scenario, models),
+        solver=settings.method, solver_status="success", references=references_for(scenario, models, {n for c in corners for n in c.extras["correlations_used"]}),
         corners=corners, caution=thermo.CAUTION, warnings=run_warnings)

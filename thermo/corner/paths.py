@@ -32,7 +32,7 @@ def _natural_nusselt_vertical(length_m, surface_k, air_k, pressure_pa):
     alpha = air.air_thermal_diffusivity(pressure_pa, film)
     dt = np.abs(np.asarray(surface_k, float) - np.asarray(air_k, float))
     rayleigh = STANDARD_GRAVITY * air.air_thermal_expansion(film) * dt * length_m ** 3 / (nu * alpha)
-    return natural.nusselt_vertical_plate_churchill_chu(np.maximum(rayleigh, 1e-6), air.air_prandtl(film))
+    return natural.nusselt_vertical_plate_churchill_chu(np.maximum(rayleigh, 0.1), air.air_prandtl(film))
 
 
 def _effectiveness_conductance(h_area_w_k, mass_flow_kg_s, cp_j_kgk):

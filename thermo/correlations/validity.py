@@ -37,6 +37,23 @@ POLICIES = ("warn", "raise", "ignore")
 VALIDITY: dict[str, dict[str, tuple[float, float]]] = {}
 
 _policy: contextvars.ContextVar[str] = contextvars.ContextVar("validity_policy", default="warn")
+_recorder: contextvars.ContextVar[set | None] = contextvars.ContextVar("correlation_recorder", default=None)
+
+
+class recording_calls:
+    """Context manager collecting the names of the correlations called inside it (``.names``).
+
+    A run uses it to list the references of exactly the correlations it used.
+    """
+
+    def __enter__(self):
+        self.names: set[str] = set()
+        self._token = _recorder.set(self.names)
+        return self
+
+    def __exit__(self, *exc):
+        _recorder.reset(self._token)
+        return False
 
 
 class CorrelationWarning(UserWarning):
@@ -145,6 +162,9 @@ def correlation(derived: dict | None = None, **ranges: tuple[float, float]) -> C
 
         @functools.wraps(func)
         def wrapper(*args, **kwargs):
+            calls = _recorder.get()
+            if calls is not None:
+                calls.add(func.__name__)
             if _policy.get() != "ignore" and table:
                 values = dict(defaults)
                 values.update(zip(signature.parameters, args))

@@ -44,7 +44,12 @@ def load_scenario(path, overrides=()) -> Scenario:
 def scenario_from_dict(raw: dict, *, path: Path, text: str = "", overrides=()) -> Scenario:
     """Build a Scenario from parsed TOML (a deep copy is modified by the overrides)."""
     source = str(path)
-    data = apply_overrides(copy.deepcopy(raw), overrides, source)
+    data = copy.deepcopy(raw)
+    calibrated = data.pop("calibrated", {})
+    if not isinstance(calibrated, dict) or any(isinstance(v, dict) for v in calibrated.values()):
+        raise ScenarioError(f"{source}: [calibrated] must hold \"dotted.key\" = value pairs")
+    data = apply_overrides(data, list(calibrated.items()) + list(overrides), source)
+    data.pop("calibrated", None)
     reject_unknown("top level", data, S.TOP_LEVEL, source)
     for name in ("car", "corners", "plan"):
         if name not in data:

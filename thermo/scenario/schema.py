@@ -252,7 +252,9 @@ SECTIONS = {
 CORNER_SECTIONS = {"disc": DISC, "pad": PAD, "piston": PISTON, "caliper": CALIPER, "hub": HUB,
                    "airflow": AIRFLOW}
 CORNER_NAMES = ("front", "rear", "front_left", "front_right", "rear_left", "rear_right")
-TOP_LEVEL = tuple(SECTIONS) + ("corners", "variants")
+TOP_LEVEL = tuple(SECTIONS) + ("corners", "variants", "calibrated", "calibration")
+# [calibrated]: "dotted.key" = value pairs written by `brakeheat fit`, applied before any override.
+# [calibration]: what `brakeheat fit` fits and against which measurements (read by thermo.fit).
 
 
 def is_finite_number(value) -> bool:
