@@ -1,6 +1,6 @@
 """Regenerate scenarios/demo_lap.csv: one synthetic, invented lap "logged" at 20 Hz.
 
-Run from the repository root: ``/work/venv/bin/python tests/lapdata/make_demo_lap.py``.
+Run from the repository root: ``/work/venv/bin/python tests/lapdata_tests/make_demo_lap.py``.
 The lap comes from the quasi-steady builder on the invented Kestrel Valley Raceway with the
 invented car below, plus small seeded noise. Brake pressures are made up from the braking part of
 the deceleration (total minus aerodynamic drag): front 35 bar per g, rear 0.7 of the front.
@@ -47,7 +47,7 @@ def write_demo_lap(path: Path = OUTPUT) -> None:
     """Write the CSV with its comment line."""
     rows = make_demo_rows()
     lines = ["# SYNTHETIC lap, invented car on the invented Kestrel Valley Raceway; made by "
-             "tests/lapdata/make_demo_lap.py (quasi-steady builder plus noise), not a measurement",
+             "tests/lapdata_tests/make_demo_lap.py (quasi-steady builder plus noise), not a measurement",
              "time [s],distance [m],speed [km/h],pressure_front [bar],pressure_rear [bar],accel_long [g]"]
     lines += [f"{t:.2f},{d:.2f},{s:.2f},{pf:.2f},{pr:.2f},{a:.3f}" for t, d, s, pf, pr, a in rows]
     path.write_text("\n".join(lines) + "\n", encoding="utf-8")

@@ -128,7 +128,7 @@ def test_demo_circuit_meets_its_brief():
 
 
 def test_demo_lap_csv_reads_clean_and_matches_its_generator():
-    import make_demo_lap   # tests/lapdata/make_demo_lap.py
+    import make_demo_lap   # tests/lapdata_tests/make_demo_lap.py
     trace = read_trace_csv(ROOT / "scenarios" / "demo_lap.csv")
     assert trace.repairs == () and trace.has_pressure
     assert np.diff(trace.time_s) == pytest.approx(np.full(trace.time_s.size - 1, 0.05), abs=1e-9)

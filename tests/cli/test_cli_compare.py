@@ -1,0 +1,64 @@
+"""`brakeheat compare`: baseline first, a no-op variant reproduces it exactly, a real change moves peaks."""
+from __future__ import annotations
+
+import json
+
+import pytest
+
+from thermo.cli.compare_cmd import variant_overrides
+from thermo.scenario.overrides import parse_override
+from conftest import SHRINK, SMALL, cli
+
+
+def test_variants_listed_baseline_first(comparison):
+    assert [v["name"] for v in comparison["variants"]] == ["baseline", "same", "bigger_duct"]
+    assert [c["name"] for c in comparison["changes"]] == ["same", "bigger_duct"]
+    for variant in comparison["variants"]:
+        assert [c["name"] for c in variant["corners"]] == ["front", "rear"]
+        for corner in variant["corners"]:
+            assert {"peak_c", "peak_time_s", "checks", "energy"} <= set(corner)   # as in run --json
+            assert abs(corner["energy"]["balance_rel_error"]) < 1e-5
+
+
+def test_variant_equal_to_baseline_reproduces_it_exactly(comparison):
+    base, same = comparison["variants"][0], comparison["variants"][1]
+    # small.toml has pad_mu = 0.50 for the front: the override changes nothing, so nothing may change
+    assert same["corners"] == base["corners"]
+    for corner in comparison["changes"][0]["corners"]:
+        assert set(corner["peak_change_k"].values()) == {0.0}
+        assert set(corner["margin_change_k"].values()) == {0.0}
+
+
+def test_bigger_front_duct_cools_the_front_only(comparison):
+    base, duct = comparison["variants"][0], comparison["variants"][2]
+    front_b, front_d = base["corners"][0], duct["corners"][0]
+    # physical invariant (CONVENTIONS.md): more cooling never raises a peak
+    for node in ("disc", "pad", "fluid", "caliper", "bearing"):
+        assert front_d["peak_c"][node] <= front_b["peak_c"][node] + 0.01, node
+    assert front_d["peak_c"]["disc"] < front_b["peak_c"]["disc"] - 1.0     # and twice the duct does something
+    assert duct["corners"][1] == base["corners"][1]                         # the rear corner is untouched
+    change = comparison["changes"][1]["corners"][0]
+    for node, delta in change["peak_change_k"].items():
+        assert delta == pytest.approx(front_d["peak_c"][node] - front_b["peak_c"][node], abs=0.011)
+    for check_b, check_d in zip(front_b["checks"], front_d["checks"]):
+        assert change["margin_change_k"][check_b["name"]] == pytest.approx(check_d["margin_k"] - check_b["margin_k"], abs=0.011)
+
+
+def test_variant_selection_and_replacement():
+    raw = {"variants": {"vented": {"corners.front.piston.type": "vented"}, "ti": {"corners.front.piston.material": "x"}}}
+    cli_variants = [["ti", "corners.front.piston.material=titanium_6al_4v"], ["duct", "corners.front.ducts.main.inlet_area_mm2=1"]]
+    all_ = variant_overrides(raw, cli_variants, None, "s.toml")
+    assert [n for n, _ in all_] == ["vented", "ti", "duct"]       # scenario ones first; the CLI 'ti' replaces the file's
+    assert dict(all_)["ti"] == [parse_override("corners.front.piston.material=titanium_6al_4v")]
+    only = variant_overrides(raw, cli_variants, ["duct", "vented"], "s.toml")
+    assert [n for n, _ in only] == ["vented", "duct"]
+
+
+def test_only_selects_through_the_cli():
+    code, out, err = cli(["compare", SMALL, "--json", "--quiet", *SHRINK, "--set", "plan.phases.5.duration_s=5",
+                          "--variant", "a", "corners.rear.pad_mu=0.4", "--variant", "b", "corners.rear.pad_mu=0.45",
+                          "--only", "b"])
+    assert code == 0, err
+    data = json.loads(out)
+    assert [v["name"] for v in data["variants"]] == ["baseline", "b"]
+    assert data["variants"][0]["corners"][0]["name"] == "front"

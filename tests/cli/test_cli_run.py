@@ -1,0 +1,150 @@
+"""`brakeheat run` end to end on the shrunk small scenario: report, JSON contract, files in --out DIR.
+
+The JSON and HDF5 contracts are README's ("What a run produces", "The results file results.h5").
+"""
+from __future__ import annotations
+
+import json
+
+import h5py
+import numpy as np
+import pytest
+
+import thermo
+from thermo.output.hdf5 import read_results_hdf5
+from thermo.output.summary import summary_dict
+from conftest import cli
+
+NODES = ("disc", "pad", "piston", "fluid", "caliper", "upright", "bearing", "hub")
+CHECKS = ("fluid_boiling_dry", "fluid_boiling_wet", "fluid_boiling_at_water_content", "bearing_grease",
+          "piston_seal", "caliper_body", "disc_max", "pad_max")
+PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"   # PNG specification (ISO/IEC 15948:2004), section 5.2
+KELVIN_AT_0C = 273.15                  # SI Brochure, 9th ed.: T/K = t/degC + 273.15
+
+
+def test_first_run_exits_0_although_a_limit_is_exceeded(small_runs):
+    code, out, err = small_runs["first"]
+    assert code == 0, err
+    statuses = {c["name"]: c["status"] for corner in small_runs["json"]["corners"] for c in corner["checks"]}
+    assert statuses["bearing_grease"] == "exceeded"
+
+
+def test_fail_on_exceeded_exits_3_and_still_reports(small_runs):
+    code, out, err = small_runs["second"]
+    assert code == 3, err
+    assert "bearing_grease" in out and thermo.CAUTION in out
+
+
+def test_text_report_names_corners_checks_and_caution(small_runs):
+    report = small_runs["second"][1]
+    for corner in ("front", "rear"):
+        assert corner in report
+    for check in CHECKS:
+        assert check in report, check
+    assert thermo.CAUTION in report
+    assert "EXCEEDED" in report            # the exceeded bearing check stands out
+
+
+def test_json_contract(small_runs):
+    data = small_runs["json"]
+    assert data["scenario"] == "small test scenario"
+    assert data["caution"] == thermo.CAUTION
+    assert [c["name"] for c in data["corners"]] == ["front", "rear"]
+    for corner in data["corners"]:
+        assert set(NODES) <= set(corner["peak_c"]) and set(NODES) <= set(corner["peak_time_s"])
+        assert set(corner["peak_c"]) == set(corner["peak_time_s"])
+        assert [c["name"] for c in corner["checks"]] == list(CHECKS)
+        for check in corner["checks"]:
+            assert {"name", "limit_c", "peak_c", "margin_k", "status"} <= set(check)
+            assert check["margin_k"] == pytest.approx(check["limit_c"] - check["peak_c"], abs=0.011)
+            assert check["peak_c"] == pytest.approx(corner["peak_c"][check["node"]], abs=0.006)
+            band = "exceeded" if check["margin_k"] < 0 else None
+            assert band is None or check["status"] == band
+        energy = corner["energy"]
+        # first law: heat in = stored + lost (CONVENTIONS.md physical invariant)
+        assert energy["heat_in_j"] == pytest.approx(energy["stored_j"] + energy["lost_j"], rel=1e-5)
+        assert abs(energy["balance_rel_error"]) < 1e-5
+        assert energy["heat_in_j"] > 1e5
+        soak = corner["soak"]
+        assert set(soak) >= {"peak_c", "peak_after_stop_s"}
+        for node, after in soak["peak_after_stop_s"].items():
+            assert 0.0 <= after <= 60.0 + 1e-9, node          # the soak lasts 60 s
+            assert soak["peak_c"][node] <= corner["peak_c"][node] + 0.006
+        # limits in the JSON are the scenario's (degC), with the override
+        limits = {c["name"]: c["limit_c"] for c in corner["checks"]}
+        assert limits["bearing_grease"] == 30.0 and limits["fluid_boiling_dry"] == 312.0
+        assert limits["fluid_boiling_wet"] == 204.0
+        # linear between dry (0 %) and wet (3.7 % water, FMVSS 116 S7.2 humidification), at 0.5 %
+        assert limits["fluid_boiling_at_water_content"] == pytest.approx(312 - (312 - 204) * 0.5 / 3.7, abs=0.01)
+
+
+def test_out_dir_files(small_runs):
+    folder = small_runs["folder"]
+    names = sorted(p.name for p in folder.iterdir())
+    assert "results.h5" in names and "summary.json" in names
+    pngs = sorted(folder.glob("*.png"))
+    assert len(pngs) >= 3                     # temperatures per corner, lap peaks, heat paths
+    for png in pngs:
+        data = png.read_bytes()
+        assert data[:8] == PNG_SIGNATURE and len(data) > 2000, png.name
+    assert not [n for n in names if n.endswith(".tmp") or n.startswith(".")], names
+
+
+def test_summary_json_equals_json_output(small_runs):
+    summary_bytes = small_runs["after_first"]["summary.json"][2]
+    assert json.loads(summary_bytes) == small_runs["json"]
+
+
+def test_hdf5_with_plain_h5py_agrees_with_summary(small_runs):
+    data = small_runs["json"]
+    with h5py.File(small_runs["folder"] / "results.h5", "r") as f:
+        assert f.attrs["format"] == "brakeheat-results" and int(f.attrs["format_version"]) == 1
+        assert [str(n) for n in f.attrs["corners"]] == ["front", "rear"]
+        for corner in data["corners"]:
+            g = f[f"corners/{corner['name']}"]
+            time_s = g["time_s"][()]
+            assert g["time_s"].attrs["units"] == "s"
+            for node in NODES:
+                series = g[f"temperature/{node}"][()]
+                assert g[f"temperature/{node}"].attrs["units"] == "K"
+                assert series.max() - KELVIN_AT_0C == pytest.approx(corner["peak_c"][node], abs=0.006)
+                assert time_s[np.argmax(series)] == pytest.approx(corner["peak_time_s"][node], abs=0.006)
+            for check in corner["checks"]:
+                attrs = g[f"checks/{check['name']}"].attrs
+                assert attrs["margin_k"] == pytest.approx(check["margin_k"], abs=0.006)
+                assert attrs["limit_k"] - KELVIN_AT_0C == pytest.approx(check["limit_c"], abs=0.006)
+            e = g["energy"].attrs
+            assert e["heat_in_j"] == pytest.approx(corner["energy"]["heat_in_j"], abs=0.06)
+
+
+def test_hdf5_round_trip_gives_the_same_summary(small_runs):
+    results = read_results_hdf5(small_runs["folder"] / "results.h5")
+    assert summary_dict(results) == small_runs["json"]
+    with h5py.File(small_runs["folder"] / "results.h5", "r") as f:
+        for corner in results.corners:
+            np.testing.assert_array_equal(corner.temperatures_k, f[f"corners/{corner.name}/temperature_k"][()])
+
+
+def test_second_run_replaces_files_atomically(small_runs):
+    first, second = small_runs["after_first"], small_runs["after_second"]
+    assert set(first) == set(second)          # same files, no temporary file left over
+    for name in ("results.h5", "summary.json"):
+        inode_1, mtime_1, _ = first[name]
+        inode_2, mtime_2, _ = second[name]
+        assert (inode_1, mtime_1) != (inode_2, mtime_2), name   # a new file renamed into place
+    assert second["summary.json"][2] == first["summary.json"][2]  # same scenario, same results
+    assert not [n for n in second if n.endswith(".tmp")]
+
+
+def test_demo_print_scenario(tmp_path):
+    from pathlib import Path
+    code, out, err = cli(["demo", "--print-scenario"])
+    assert code == 0 and err == ""
+    path = Path(out.strip())
+    assert path.is_file() and path.name == "demo.toml"
+    assert "[corners.front]" in path.read_text(encoding="utf-8")
+
+
+def test_version():
+    code, out, err = cli(["--version"])
+    assert code == 0 and out.strip() == f"brakeheat {thermo.__version__}"

@@ -1,0 +1,111 @@
+"""The layering rules of CONVENTIONS.md ("Imports run one way"), checked on the source with ast."""
+from __future__ import annotations
+
+import ast
+import re
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parents[1]
+SOURCES = sorted(p for pkg in ("thermo", "lapdata") for p in (ROOT / pkg).rglob("*.py"))
+BRAKE_WORDS = ("disc", "pad", "piston", "caliper", "fluid", "bearing", "brake")
+
+
+def module_of(path: Path) -> str:
+    return ".".join(path.relative_to(ROOT).with_suffix("").parts).removesuffix(".__init__")
+
+
+def imported(path: Path) -> set[str]:
+    """Absolute names of every module imported anywhere in the file (also inside functions)."""
+    tree = ast.parse(path.read_text(encoding="utf-8"))
+    package = module_of(path) if path.name == "__init__.py" else module_of(path).rpartition(".")[0]
+    names = set()
+    for node in ast.walk(tree):
+        if isinstance(node, ast.Import):
+            names.update(alias.name for alias in node.names)
+        elif isinstance(node, ast.ImportFrom):
+            base = node.module or ""
+            if node.level:
+                parts = package.split(".")
+                base = ".".join(parts[: len(parts) - node.level + 1] + ([base] if base else []))
+            names.add(base)
+            names.update(f"{base}.{alias.name}" for alias in node.names)
+    return names
+
+
+def files_in(*packages: str) -> list[Path]:
+    return [p for p in SOURCES if any(under(module_of(p), pkg) for pkg in packages)]
+
+
+def under(name: str, package: str) -> bool:
+    return name == package or name.startswith(package + ".")
+
+
+def test_sources_found():
+    assert len(files_in("lapdata")) >= 5 and len(files_in("thermo.network")) >= 3 and len(files_in("thermo.solver")) >= 3
+
+
+@pytest.mark.parametrize("path", files_in("lapdata"), ids=lambda p: p.name)
+def test_lapdata_never_imports_thermo(path):
+    assert not [n for n in imported(path) if under(n, "thermo")]
+
+
+GENERIC_FORBIDDEN = ("thermo.corner", "thermo.duty", "thermo.scenario", "thermo.chain", "thermo.cli", "thermo.output")
+
+
+@pytest.mark.parametrize("path", files_in("thermo.network", "thermo.solver"), ids=lambda p: p.name)
+def test_generic_layers_know_nothing_of_brakes(path):
+    bad = [n for n in imported(path) if any(under(n, f) for f in GENERIC_FORBIDDEN)]
+    assert not bad, bad
+    tree = ast.parse(path.read_text(encoding="utf-8"))
+    identifiers = set()
+    for node in ast.walk(tree):
+        if isinstance(node, ast.Name):
+            identifiers.add(node.id)
+        elif isinstance(node, ast.Attribute):
+            identifiers.add(node.attr)
+        elif isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
+            identifiers.add(node.name)
+        elif isinstance(node, ast.arg):
+            identifiers.add(node.arg)
+        elif isinstance(node, ast.alias):
+            identifiers.add(node.asname or node.name)
+    pattern = re.compile("|".join(BRAKE_WORDS), re.IGNORECASE)
+    assert not sorted(i for i in identifiers if pattern.search(i))
+
+
+@pytest.mark.parametrize("path", files_in("thermo.output"), ids=lambda p: p.name)
+def test_output_reads_results_only(path):
+    forbidden = ("thermo.solver", "thermo.network", "thermo.corner", "thermo.chain", "thermo.cli")
+    assert not [n for n in imported(path) if any(under(n, f) for f in forbidden)]
+
+
+def _prints_or_exits(path: Path) -> list[str]:
+    found = []
+    for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+        if isinstance(node, ast.Call):
+            f = node.func
+            if isinstance(f, ast.Name) and f.id in ("print", "exit", "quit"):
+                found.append(f"{f.id}() line {node.lineno}")
+            elif isinstance(f, ast.Attribute) and f.attr == "exit" and isinstance(f.value, ast.Name) and f.value.id in ("sys", "os"):
+                found.append(f"{f.value.id}.exit() line {node.lineno}")
+    return found
+
+
+@pytest.mark.parametrize("path", [p for p in SOURCES if not under(module_of(p), "thermo.cli")
+                                  and module_of(p) != "thermo.bench"], ids=lambda p: str(p.relative_to(ROOT)))
+def test_only_the_cli_prints_or_exits(path):
+    assert not _prints_or_exits(path)
+
+
+def test_the_print_check_can_fail(tmp_path):
+    sample = tmp_path / "x.py"
+    sample.write_text("import sys\ndef f():\n    print('x')\n    sys.exit(1)\n", encoding="utf-8")
+    assert _prints_or_exits(sample) == ["print() line 3", "sys.exit() line 4"]
+    assert under("thermo.corner.build", "thermo.corner") and not under("thermo.cornerstone", "thermo.corner")
+
+
+@pytest.mark.parametrize("path", SOURCES, ids=lambda p: str(p.relative_to(ROOT)))
+def test_files_stay_under_600_lines(path):
+    assert len(path.read_text(encoding="utf-8").splitlines()) < 600
