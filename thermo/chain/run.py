@@ -10,7 +10,7 @@ import thermo
 from thermo.chain.plan import PlanSegment, expand_plan
 from thermo.chain.validity import check_validity
 from thermo.corner.build import (
-    SIGNAL_AMBIENT, SIGNAL_DISC_HEAT, SIGNAL_DUCT_AIR, SIGNAL_PAD_HEAT, SIGNAL_SPEED, CornerModel, build_corner,
+    SIGNAL_AMBIENT, SIGNAL_DISC_HEAT, SIGNAL_DUCT_AIR, SIGNAL_PAD_HEAT, SIGNAL_SPEED, CornerModel, build_corner, duct_air_signals,
 )
 from thermo.corner.geometry import CornerDesign
 from thermo.correlations import correlation_reference
@@ -72,9 +72,11 @@ def corner_duties(scenario: Scenario, segment: PlanSegment, brakes: list[CornerB
 def _schedule(scenario: Scenario, design: CornerDesign, segment: PlanSegment, duty: SegmentDuty) -> Schedule:
     t = segment.t_start_s + duty.time_s
     ambient = scenario.ambient.temperature_at(t)
-    rise = design.ducts[0].air_rise_k if design.ducts else 0.0
-    return Schedule(t, {SIGNAL_DISC_HEAT: duty.disc_heat_w, SIGNAL_PAD_HEAT: duty.pad_heat_w,
-                        SIGNAL_SPEED: duty.speed_m_s, SIGNAL_AMBIENT: ambient, SIGNAL_DUCT_AIR: ambient + rise})
+    signals = {SIGNAL_DISC_HEAT: duty.disc_heat_w, SIGNAL_PAD_HEAT: duty.pad_heat_w,
+               SIGNAL_SPEED: duty.speed_m_s, SIGNAL_AMBIENT: ambient, SIGNAL_DUCT_AIR: ambient}
+    for signal, rise in duct_air_signals(design):
+        signals[signal] = ambient + rise
+    return Schedule(t, signals)
 
 
 def conductance_grid(scenario: Scenario) -> ConductanceGrid:
@@ -107,7 +109,8 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
     h0 = sum(n.heat_capacity.enthalpy(T[k]) for k, n in enumerate(model.network.nodes))
     times, temps, flows, link_energy = [], [], [], np.zeros(len(model.network.links))
     heat_in = lost = removed = 0.0
-    laps, stint_thickness, warns, states = [], [], [], []
+    laps, stint_thickness, warns, states, lap_thickness = [], [], [], [], []
+    warned = set()     # pad warnings given this stint ('near', 'below'); a pad change starts a new stint
     for segment, duties in zip(segments, duties_by_segment):
         duty = duties[design.name]
         if segment.phase.kind == "pit_stop" and segment.phase.pad_change:
@@ -119,6 +122,7 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
             T[[i_pad, i_back]] = float(scenario.ambient.temperature_at(segment.t_start_s))
             new = [model.network.nodes[k].heat_capacity.enthalpy(T[k]) for k in (i_pad, i_back)]
             removed += sum(old) - sum(new)
+            warned.clear()
         schedule = _schedule(scenario, design, segment, duty)
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")
@@ -156,12 +160,10 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
                 model = build_corner(replace(design, pad=replace(design.pad, thickness_m=new_thickness)), scenario.ambient.pressure_pa, conductance_grid(scenario))
                 compiled = compile_network(model.network)
                 removed += old_h - model.network.nodes[i_pad].heat_capacity.enthalpy(T[i_pad])
-                if new_thickness - design.pad.minimum_thickness_m < scenario.pad_wear.warn_margin_m and \
-                        thickness - design.pad.minimum_thickness_m >= scenario.pad_wear.warn_margin_m:
-                    warns.append(f"corner {design.name}: pad down to {new_thickness * 1e3:.1f} mm on lap "
-                                 f"{segment.lap_index}, within {scenario.pad_wear.warn_margin_m * 1e3:.1f} mm of its "
-                                 f"minimum {design.pad.minimum_thickness_m * 1e3:.1f} mm")
+                warns += _pad_warnings(design, scenario.pad_wear.warn_margin_m, new_thickness, segment.lap_index, warned)
                 thickness = new_thickness
+        if segment.lap_index:
+            lap_thickness.append({"lap": segment.lap_index, "thickness_m": thickness})
         if progress is not None:
             progress(design.name, segment)
     stint_thickness.append(("end of run", thickness))
@@ -178,6 +180,7 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
     phases = _phase_spans(segments)
     stop = next((s.t_start_s for s in segments if s.phase.kind == "soak"), None)
     extras = {"pad_thickness_m": [{"when": w, "thickness_m": th} for w, th in stint_thickness],
+              "pad_thickness_by_lap_m": lap_thickness,
               "pad_minimum_thickness_m": design.pad.minimum_thickness_m,
               "link_to_boundary": [link.b in model.network.boundary_names for link in model.network.links],
               "heat_partition_disc": model.heat_partition,
@@ -191,6 +194,22 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
         link_names=tuple(link.name for link in links), link_groups=tuple(link.group for link in links),
         link_flows_w=np.concatenate(flows), link_energy_j=link_energy, energy=energy, checks=checks,
         laps=tuple(laps), phases=phases, stop_time_s=stop, extras=extras)
+
+
+def _pad_warnings(design: CornerDesign, margin_m: float, thickness_m: float, lap: int, warned: set) -> list[str]:
+    """Warnings, each once per stint, when a worn pad comes within ``margin_m`` of its minimum and when below it."""
+    minimum = design.pad.minimum_thickness_m
+    out = []
+    if thickness_m - minimum < margin_m and "near" not in warned:
+        warned.add("near")
+        out.append(f"corner {design.name}: pad down to {thickness_m * 1e3:.1f} mm on lap {lap}, within "
+                   f"{margin_m * 1e3:.1f} mm of its minimum {minimum * 1e3:.1f} mm")
+    if thickness_m < minimum and "below" not in warned:
+        warned.add("below")
+        held = " (held there)" if thickness_m <= MIN_PAD_THICKNESS_M else ""
+        out.append(f"corner {design.name}: pad worn to {thickness_m * 1e3:.1f} mm{held} on lap {lap}, below its "
+                   f"minimum {minimum * 1e3:.1f} mm")
+    return out
 
 
 def _phase_spans(segments) -> tuple[PhaseSpan, ...]:

@@ -2,7 +2,8 @@
 
 Nodes (network names): disc (or disc_layer_1 ... disc_layer_N through each cheek), disc_bell,
 pad (both pads), backing_plate, piston (all pistons), fluid (the fluid in the caliper), caliper,
-hub, bearing, upright. Boundaries: ambient (wheel-well air) and duct_air.
+hub, bearing, upright. Boundaries: ambient (wheel-well air) and duct_air (the first duct's air;
+further ducts get duct_air_2, duct_air_3 ...).
 Schedule signals the network reads: disc_heat_w, pad_heat_w [W], vehicle_speed_m_s [m/s],
 ambient_k and duct_air_k [K].
 
@@ -65,6 +66,20 @@ def layer_thicknesses(total_m: float, layers: int, growth: float = LAYER_GROWTH)
     """Graded layer thicknesses from the friction face inwards, summing to total_m [m]."""
     weights = growth ** np.arange(layers)
     return total_m * weights / weights.sum()
+
+
+def duct_air_boundary(index: int) -> str:
+    """Boundary of the air delivered by the corner's duct number index (0-based)."""
+    return "duct_air" if index == 0 else f"duct_air_{index + 1}"
+
+
+def duct_air_signals(design: CornerDesign) -> list[tuple[str, float]]:
+    """(schedule signal, rise above ambient [K]) of each duct's air, in duct order.
+
+    The first duct's air is signal ``duct_air_k`` (boundary ``duct_air``, present even without a
+    duct); further ducts get ``duct_air_2_k``, ``duct_air_3_k`` ... each with its own ``air_rise_k``.
+    """
+    return [(SIGNAL_DUCT_AIR if i == 0 else f"duct_air_{i + 1}_k", duct.air_rise_k) for i, duct in enumerate(design.ducts)]
 
 
 def heat_partition(design: CornerDesign) -> float:
@@ -135,7 +150,8 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
         Node("bearing", mat["bearing"].heat_capacity(hub.bearing_mass_kg)),
         Node("upright", mat["upright"].heat_capacity(hub.upright_mass_kg)),
     ]
-    boundaries = (Boundary("ambient", SIGNAL_AMBIENT), Boundary("duct_air", SIGNAL_DUCT_AIR))
+    boundaries = (Boundary("ambient", SIGNAL_AMBIENT), Boundary("duct_air", SIGNAL_DUCT_AIR)) + tuple(
+        Boundary(duct_air_boundary(i), signal) for i, (signal, _) in enumerate(duct_air_signals(design)) if i > 0)
 
     # --- conduction: pad -> backing plate -> (shim, insert, crown contact) -> piston -> fluid -> caliper
     pad_area2 = 2 * p.area_m2
@@ -193,7 +209,7 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
         else:
             fn = paths.DuctJetOnSurface(duct, duct.face_area_share * cal.area_m2, math.sqrt(cal.area_m2), mult, pressure_pa)
             node = "caliper"
-        links.append(Convection(tag, node, "duct_air", SIGNAL_SPEED, fn, "duct"))
+        links.append(Convection(tag, node, duct_air_boundary(i), SIGNAL_SPEED, fn, "duct"))
 
     def plate(area, mult):
         return paths.PlateInAirflow(area, math.sqrt(area), factor, mult, pressure_pa)

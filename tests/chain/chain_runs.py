@@ -1,0 +1,56 @@
+"""Short runs of the small test scenario for the chain tests: one corner solved, plans replaced.
+
+``small_scenario(phases, overrides)`` reads tests/data/small.toml with its [[plan.phases]]
+replaced by ``phases`` (so a test runs only the laps it needs) and dotted-key overrides applied;
+``solve_one(scenario, corner)`` runs the whole chain (plan, duty, network, solver) for ONE corner,
+which is what the chain's run_scenario does per corner, at half the cost of solving both.
+"""
+from __future__ import annotations
+
+import copy
+import tomllib
+from pathlib import Path
+
+from thermo.chain.plan import expand_plan
+from thermo.chain.run import conductance_grid, corner_brakes, corner_duties, solve_corner
+from thermo.corner.build import build_corner
+from thermo.scenario.reader import scenario_from_dict
+from thermo.solver.settings import SolverSettings
+
+DATA = Path(__file__).resolve().parents[1] / "data"
+SMALL = DATA / "small.toml"
+SMALL_TEXT = SMALL.read_text(encoding="utf-8")
+SMALL_RAW = tomllib.loads(SMALL_TEXT)
+
+# two race laps and a short soak: enough to heat every node, a few seconds per corner
+SHORT_PLAN = [{"type": "laps", "count": 2}, {"type": "soak", "duration_s": 120}]
+# a multi-lap stint with an in-lap, a pit stop with a pad change, one more lap and a short soak
+STINT_PLAN = [{"type": "laps", "count": 2},
+              {"type": "in_lap", "pace": 0.8, "pit_lane_speed_kmh": 60, "pit_lane_length_m": 200},
+              {"type": "pit_stop", "duration_s": 30, "pad_change": True, "refuel_kg": 10},
+              {"type": "laps", "count": 1},
+              {"type": "soak", "duration_s": 60}]
+NO_WEAR = [("pad_wear.enabled", False)]
+
+
+def small_scenario(phases=None, overrides=(), soak_sample_s=None):
+    """The small scenario with its phases replaced (None keeps them) and overrides applied."""
+    raw = copy.deepcopy(SMALL_RAW)
+    if phases is not None:
+        raw["plan"]["phases"] = copy.deepcopy(list(phases))
+    if soak_sample_s is not None:
+        raw["plan"]["soak_sample_s"] = soak_sample_s
+    return scenario_from_dict(raw, path=SMALL, text=SMALL_TEXT, overrides=list(overrides))
+
+
+def solve_one(scenario, corner="front", method=None, segments=None):
+    """CornerResult of one corner over the scenario's plan (the chain's own functions)."""
+    segments = expand_plan(scenario) if segments is None else segments
+    grid = conductance_grid(scenario)
+    models = {d.name: build_corner(d, scenario.ambient.pressure_pa, grid) for d in scenario.corners}
+    brakes = corner_brakes(scenario, models)
+    duties = [corner_duties(scenario, seg, brakes) for seg in segments]
+    settings = SolverSettings(method=method or scenario.solver.method, rtol=scenario.solver.rtol,
+                              atol_k=scenario.solver.atol_k)
+    design = next(d for d in scenario.corners if d.name == corner)
+    return solve_corner(scenario, design, segments, duties, settings)
