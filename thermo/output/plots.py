@@ -43,8 +43,10 @@ def _safe(name: str) -> str:
 
 def _node_colours(nodes) -> dict[str, tuple]:
     from matplotlib import colormaps
-    cmap = colormaps["tab10"]
-    return {node: cmap(i % 10) for i, node in enumerate(nodes)}
+    cmap = colormaps["tab20"]
+    # even entries of tab20 first (the strong colours), then the light ones: 20 distinct nodes
+    order = [2 * i for i in range(10)] + [2 * i + 1 for i in range(10)]
+    return {node: cmap(order[i % 20]) for i, node in enumerate(nodes)}
 
 
 def _shade_phases(axes, corner: CornerResult) -> None:
