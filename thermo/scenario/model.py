@@ -115,3 +115,4 @@ class Scenario:
     solver: SolverChoice
     variants: dict = field(default_factory=dict)
     overrides: tuple[tuple[str, object], ...] = ()
+    calibration: object = None      # thermo.scenario.calibration.Calibration, or None without [calibration]

@@ -18,6 +18,7 @@ from thermo.errors import BrakeheatError, ScenarioError
 from thermo.limits import FluidSpec, Limits
 from thermo.scenario import schema as S
 from thermo.scenario.convert import convert_table, reject_unknown
+from thermo.scenario.calibration import parse_calibration
 from thermo.scenario.model import (
     PHASE_KINDS, Ambient, Phase, Plan, PadWear, Scenario, SolverChoice,
 )
@@ -94,7 +95,8 @@ def scenario_from_dict(raw: dict, *, path: Path, text: str = "", overrides=()) -
         left_share_front=sec["brakes"]["left_share_front"], left_share_rear=sec["brakes"]["left_share_rear"],
         fuel_consumption_kg_per_lap=car["fuel_consumption_kg_per_lap"], fuel_capacity_kg=car["fuel_capacity_kg"],
         ambient=ambient, fluid=fluid, limits=limits, corners=corners, plan=plan, pad_wear=pad_wear,
-        solver=solver, variants=variants, overrides=tuple(overrides))
+        solver=solver, variants=variants, overrides=tuple(overrides),
+        calibration=parse_calibration(data.get("calibration"), corners, source))
 
 
 def _without(table, key):
@@ -149,6 +151,8 @@ def _corners(table: dict, sec: dict, vehicle: VehicleParameters, source: str) ->
     if not isinstance(table, dict):
         raise ScenarioError(f"{source}: [corners] must hold tables such as [corners.front]")
     reject_unknown("corners", table, S.CORNER_NAMES, source)
+    fluid_material = sec["fluid"]["material"]
+    _check_material("fluid", "material", fluid_material, source)
     out = []
     for axle in ("front", "rear"):
         share = sec["brakes"][f"left_share_{axle}"]
@@ -156,16 +160,27 @@ def _corners(table: dict, sec: dict, vehicle: VehicleParameters, source: str) ->
         if axle not in table and len(sides) < 2:
             raise ScenarioError(f"{source}: missing [corners.{axle}] (or both [corners.{axle}_left] and [corners.{axle}_right])")
         if not sides and math.isclose(share, 0.5):
-            out.append(_corner(axle, axle, table[axle], vehicle, source))
+            out.append(_corner(axle, axle, table[axle], vehicle, fluid_material, source))
             continue
         for side in ("left", "right"):
             name = f"{axle}_{side}"
             merged = _merge(table.get(axle, {}), table.get(name, {}))
-            out.append(_corner(name, axle, merged, vehicle, source))
+            out.append(_corner(name, axle, merged, vehicle, fluid_material, source))
     return tuple(out)
 
 
-def _corner(name: str, axle: str, t: dict, vehicle: VehicleParameters, source: str) -> CornerDesign:
+def _check_material(where: str, key: str, name: str, source: str) -> None:
+    """A material key must name a packaged material (checked as the file is read, naming the key)."""
+    from thermo.materials import material_names
+    from thermo.scenario.convert import suggestion
+    known = material_names()
+    if name not in known:
+        raise ScenarioError(f"{source}: [{where}] {key} = '{name}' is not a known material{suggestion(name, known)}; "
+                            f"expected one of: {', '.join(known)}")
+
+
+def _corner(name: str, axle: str, t: dict, vehicle: VehicleParameters, fluid_material: str,
+            source: str) -> CornerDesign:
     where = f"corners.{name}"
     if not isinstance(t, dict):
         raise ScenarioError(f"{source}: [{where}] must be a table")
@@ -176,6 +191,10 @@ def _corner(name: str, axle: str, t: dict, vehicle: VehicleParameters, source: s
     top = convert_table(where, {k: v for k, v in t.items() if k in S.CORNER}, S.CORNER, source)
     parts = {part: convert_table(f"{where}.{part}", t.get(part, {}), schema, source)
              for part, schema in S.CORNER_SECTIONS.items()}
+    for part, values in parts.items():
+        for key in S.CORNER_SECTIONS[part]:
+            if key == "material" or key.endswith("_material"):
+                _check_material(f"{where}.{part}", key, values[S.CORNER_SECTIONS[part][key].si_name], source)
     ducts_raw = t.get("ducts", {})
     if not isinstance(ducts_raw, dict) or not all(isinstance(v, dict) for v in ducts_raw.values()):
         raise ScenarioError(f"{source}: ducts go in named tables, e.g. [{where}.ducts.main]")
@@ -194,10 +213,11 @@ def _corner(name: str, axle: str, t: dict, vehicle: VehicleParameters, source: s
             caliper=CaliperGeometry(**parts["caliper"], section=f"{where}.caliper"),
             hub=HubGeometry(**parts["hub"], section=f"{where}.hub"),
             ducts=ducts, airflow=AirflowSettings(**parts["airflow"], section=f"{where}.airflow"),
-            fluid_material="brake_fluid_glycol", pad_mu=top["pad_mu"],
+            fluid_material=fluid_material, pad_mu=top["pad_mu"],
             rolling_radius_m=vehicle.rolling_radius_m(axle))
     except ScenarioError as error:
-        raise ScenarioError(f"{source}: {error}") from None
+        message = str(error)  # convert_table's messages already start with the file
+        raise ScenarioError(message if message.startswith(f"{source}: ") else f"{source}: {message}") from None
 
 
 def _bias(b: dict, corners, source: str):

@@ -12,6 +12,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from lapdata.units import BAR, KELVIN_AT_0C, KMH, KPA, MM, MM2, CM3
+from thermo.solver.settings import METHODS as SOLVER_METHODS
 
 REQUIRED = object()
 
@@ -239,7 +240,7 @@ PAD_WEAR = {
 }
 
 SOLVER = {
-    "method": f("method", "LSODA", kind=str),
+    "method": f("method", "LSODA", kind=str, choices=SOLVER_METHODS),
     "rtol": f("rtol", 1.0e-6, minimum=1e-12, maximum=0.1),
     "atol_k": f("atol_k", 1.0e-4, minimum=1e-12, maximum=10.0),
     "output_hz": f("output_hz", 0.0, minimum=0.0, doc="0 = every input sample"),

@@ -1,0 +1,54 @@
+"""`brakeheat fit SCENARIO.toml --measured LOG.csv`: calibrate, print the fit, write the calibrated scenario."""
+from __future__ import annotations
+
+import datetime
+import json
+import sys
+from pathlib import Path
+
+
+def add_parser(sub) -> None:
+    p = sub.add_parser("fit", help="fit the scenario's [calibration] parameters to a logged stint")
+    p.add_argument("scenario", help="scenario TOML file with a [calibration] table")
+    p.add_argument("--measured", metavar="LOG.csv", required=True, help="logged stint: speed, distance, temp_* channels")
+    p.add_argument("--out", metavar="DIR", help="write fit.json and fit_<channel>.png plots into DIR")
+    p.add_argument("--calibrated", metavar="FILE",
+                   help="where to write the calibrated scenario (default: SCENARIO_calibrated.toml beside it)")
+    p.add_argument("--set", metavar="KEY=VALUE", action="append", default=[], dest="overrides",
+                   help="override one scenario key before fitting (repeatable)")
+    p.add_argument("--json", action="store_true", help="print one JSON object on stdout instead of the table")
+    p.set_defaults(handler=fit_command)
+
+
+def fit_command(args) -> int:
+    from thermo.cli.run_cmd import collect_overrides
+    from thermo.fit import fit_scenario
+    from thermo.fit.calibrated import calibrated_text, pinned_plan_files
+    from thermo.fit.report import fit_dict, format_fit
+    from thermo.output.atomic import atomic_write
+    from thermo.scenario import load_scenario
+
+    path = Path(args.scenario)
+    scenario = load_scenario(path, collect_overrides(args.overrides))
+    result = fit_scenario(scenario, args.measured)
+    target = Path(args.calibrated) if args.calibrated else path.with_name(f"{path.stem}_calibrated.toml")
+    today = datetime.date.today().isoformat()
+    text = calibrated_text(scenario.text, result, today, measured=str(args.measured),
+                           pinned=pinned_plan_files(scenario, target))
+    target.parent.mkdir(parents=True, exist_ok=True)
+    with atomic_write(target, "w") as handle:
+        handle.write(text)
+    summary = fit_dict(result, scenario=str(path), measured=str(args.measured), calibrated=str(target))
+    if args.out:
+        from thermo.fit.plots import plot_fit
+        out = Path(args.out)
+        plot_fit(result, out)
+        with atomic_write(out / "fit.json", "w") as handle:
+            json.dump(summary, handle, indent=2, allow_nan=False)
+    if args.json:
+        json.dump(summary, sys.stdout, indent=2, allow_nan=False)
+        sys.stdout.write("\n")
+    else:
+        print(format_fit(result))
+        print(f"\nWrote the calibrated scenario {target}" + (f"; fit.json and plots in {args.out}" if args.out else ""))
+    return 0
