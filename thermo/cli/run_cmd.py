@@ -28,7 +28,9 @@ def add_run_parsers(sub) -> None:
     d = sub.add_parser("demo", help="run the bundled invented demo scenario (same options as run)")
     add_run_options(d)
     d.add_argument("--print-scenario", action="store_true", help="print where the demo scenario lives and stop")
-    d.set_defaults(handler=demo_command)
+    d.add_argument("--compare", action="store_true",
+                   help="compare the demo's variants (pistons, shim, ducts) instead of one run, as `brakeheat compare`")
+    d.set_defaults(handler=demo_command, variant=[], only=None)
 
 
 def demo_scenario_path() -> Path:
@@ -106,4 +108,8 @@ def demo_command(args) -> int:
     if args.print_scenario:
         print(path)
         return 0
+    if args.compare:
+        from thermo.cli.compare_cmd import compare_command
+        args.scenario = str(path)
+        return compare_command(args)
     return run_and_report(path, args)
