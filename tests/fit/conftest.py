@@ -40,16 +40,17 @@ noise_k = 0.2
 
 [calibration.parameters.disc_convection]
 key = "airflow.disc_convection_multiplier"
-prior = 1.5
+prior = 2.0
 lower = 0.3
 upper = 4.0
 '''
 
 
 def small_text() -> str:
-    """tests/data/small.toml made quicker for fitting: looser tolerances, no pad wear."""
+    """tests/data/small.toml without pad wear (the fast solver at its default tolerances: a looser
+    Newton tolerance would make the finite-difference Jacobian of the fit noisy)."""
     text = (DATA / "small.toml").read_text(encoding="utf-8")
-    for old, new in (("rtol = 1e-6", "rtol = 1e-4"), ("atol_k = 1e-4", "atol_k = 1e-3"), ("enabled = true", "enabled = false")):
+    for old, new in (("enabled = true", "enabled = false"),):
         assert old in text, old
         text = text.replace(old, new)
     return text
@@ -68,7 +69,7 @@ def stint(tmp_path_factory):
     """(scenario path, logged CSV path) of a 2-lap synthetic stint with known parameters TRUTH."""
     folder = tmp_path_factory.mktemp("fit")
     scenario = make_folder(folder)
-    log = synthesize_stint(scenario, folder / "log.csv", CHANNELS, TRUTH, laps=2, sample_hz=5.0, seed=11)
+    log = synthesize_stint(scenario, folder / "log.csv", CHANNELS, TRUTH, laps=2, sample_hz=20.0, seed=11)
     return scenario, log
 
 

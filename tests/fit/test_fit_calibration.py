@@ -26,7 +26,7 @@ def test_no_calibration_table_is_none():
     (("lag_s = 0.3", "lagg_s = 0.3"), "unknown key 'lagg_s'.*did you mean 'lag_s'"),
     (('node = "disc"', 'node = "disc_surface"'), "disc_surface.*layered disc"),
     (('corner = "front"\nnode = "caliper"', 'corner = "middle"\nnode = "caliper"'), "unknown corner 'middle'"),
-    (("prior = 1.5", "prior = 5.0"), "prior 5 must lie within"),
+    (("prior = 2.0", "prior = 5.0"), "prior 5 must lie within"),
     (('key = "airflow.disc_convection_multiplier"', 'key = "airflow.disc_convection"'), "is not allowed"),
     (("holdout_laps = [2]", "holdout_laps = [0]"), "holdout_laps must be a list of lap numbers"),
 ])

@@ -20,7 +20,7 @@ def test_known_parameters_recovered_within_their_std_error(cli_fit):
     offset = _param(summary, "temp_caliper_front.offset_k")
     assert 0 < disc["std_error"] < 0.3
     assert abs(disc["value"] - TRUTH[0][1]) < 3 * disc["std_error"]
-    assert abs(disc["value"] - 1.5) > 3 * disc["std_error"]      # it moved off its prior of 1.5
+    assert abs(disc["value"] - 2.0) > 3 * disc["std_error"]      # it moved off its prior of 2.0
     assert abs(offset["value"] - TRUE_CALIPER_OFFSET_K) < 3 * offset["std_error"]
 
 

@@ -110,7 +110,7 @@ def format_comparison(data: dict) -> str:
              "against the baseline in brackets (a positive margin change is margin gained).", ""]
     for ci, corner in enumerate(variants[0]["corners"]):
         lines.append(f"Corner {corner['name']}")
-        lines.append("  " + f"{'':<28}" + "".join(f"{n:>{width}}" for n in names))
+        lines.append("  " + f"{'':<34}" + "".join(f"{n:>{width}}" for n in names))
         nodes = [n for n in COMPARE_NODES if n in corner["peak_c"]]
         for node in nodes:
             base = corner["peak_c"][node]
@@ -118,14 +118,14 @@ def format_comparison(data: dict) -> str:
             for v in variants[1:]:
                 value = v["corners"][ci]["peak_c"][node]
                 cells.append(f"{f'{value:.1f} ({value - base:+.1f})':>{width}}")
-            lines.append("  " + f"{'peak ' + node:<28}" + "".join(cells))
+            lines.append("  " + f"{'peak ' + node:<34}" + "".join(cells))
         for k, check in enumerate(corner["checks"]):
             base = check["margin_k"]
             cells = [f"{base:>{width}.1f}"]
             for v in variants[1:]:
                 value = v["corners"][ci]["checks"][k]["margin_k"]
                 cells.append(f"{f'{value:.1f} ({value - base:+.1f})':>{width}}")
-            lines.append("  " + f"{'margin ' + check['name']:<28}" + "".join(cells))
+            lines.append("  " + f"{'margin ' + check['name']:<34}" + "".join(cells))
         lines.append("")
     lines.append(data["caution"])
     return "\n".join(lines)

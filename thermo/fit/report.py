@@ -1,6 +1,8 @@
 """A fit as a printed table and as one JSON-ready object (degrees Celsius only in labels)."""
 from __future__ import annotations
 
+from thermo import CAUTION
+
 import math
 
 from lapdata.units import KELVIN_AT_0C
@@ -57,4 +59,5 @@ def format_fit(result) -> str:
                          f"{'honoured' if p.honoured else 'NOT honoured'}")
     lines += ["", f"{result.evaluations} model runs; {result.message}"]
     lines += [f"warning: {w}" for w in result.warnings]
+    lines += ["", CAUTION]
     return "\n".join(lines)

@@ -10,6 +10,7 @@ Temperatures of the links' second ends are looked up in the extended vector [nod
 """
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass
 
 import numpy as np
@@ -19,6 +20,13 @@ from thermo.network.capacity import CapacityTable
 from thermo.network.elements import Conduction, Convection, Network, Radiation
 from thermo.network.schedule import Schedule
 from thermo.network.tabulate import TabulatedConductance, lookup
+
+
+@functools.lru_cache(maxsize=64)
+def _stacked_tables(functions: tuple) -> np.ndarray:
+    """The tables of tabulated conductances stacked (n_links, ...); cached, since a chain rebuilds
+    a corner with the same convection paths every lap when pads wear (the tables never change)."""
+    return np.stack([fn.table for fn in functions])
 
 
 @dataclass(frozen=True)
@@ -91,7 +99,7 @@ class CompiledNetwork:
         self.conv_tables = None
         if fns and all(isinstance(fn, TabulatedConductance) for fn in fns) and len({fn.grid for fn in fns}) == 1:
             self.conv_grid = fns[0].grid
-            self.conv_tables = np.stack([fn.table for fn in fns])
+            self.conv_tables = _stacked_tables(tuple(fns))
             self.conv_driver_index = np.array([di for _, _, di in self._conv], dtype=int)
             self._conv_exact = tuple(fn.function for fn in fns)
         signals = []

@@ -232,15 +232,15 @@ PHASES = {
 
 PAD_WEAR = {
     "enabled": f("enabled", False, kind=bool),
-    "wear_coefficient_mm3_per_kj": f("wear_coefficient_m3_per_j", 1.0, factor=1.0e-12, minimum=0.0,
+    "wear_coefficient_mm3_per_kj": f("wear_coefficient_m3_per_j", 0.25, factor=1.0e-12, minimum=0.0,
                                      doc="pad volume worn per friction energy; illustrative default, calibrate"),
-    "reference_temperature_c": degc("reference_temperature_k", 350.0),
-    "temperature_scale_k": f("temperature_scale_k", 100.0, minimum=1.0),
+    "reference_temperature_c": degc("reference_temperature_k", 450.0),
+    "temperature_scale_k": f("temperature_scale_k", 150.0, minimum=1.0),
     "warn_margin_mm": mm("warn_margin_m", 1.0),
 }
 
 SOLVER = {
-    "method": f("method", "LSODA", kind=str, choices=SOLVER_METHODS),
+    "method": f("method", "fast", kind=str, choices=SOLVER_METHODS),
     "rtol": f("rtol", 1.0e-6, minimum=1e-12, maximum=0.1),
     "atol_k": f("atol_k", 1.0e-4, minimum=1e-12, maximum=10.0),
     "output_hz": f("output_hz", 0.0, minimum=0.0, doc="0 = every input sample"),

@@ -1,4 +1,4 @@
-"""'fast': TR-BDF2 on the schedule's own time grid, with exact energy bookkeeping.
+"""'fast': TR-BDF2 on the schedule's own time grid, compiled, with exact energy bookkeeping.
 
 The scheme is written on the node enthalpies H_i(T_i), dH/dt = r(t, T) + q(t), with r = D f the
 net link flow into each node [W] and q the heat sources [W]. TR-BDF2 (Bank et al. 1985; Hosea &
@@ -7,13 +7,22 @@ Shampine 1996) as a stiffly accurate ESDIRK, gamma = 2 - sqrt(2), d = gamma/2, w
     H(Y2) = H(T_n) + h (d r1 + d r2) + Q(t_n, t_n + gamma h)
     H(Y3) = H(T_n) + h (w r1 + w r2 + d r3) + Q(t_n, t_n + h),     T_{n+1} = Y3,
 
-second order and L-stable. Q is the exact integral of the piecewise linear sources, and each
-link's energy is accumulated with the same weights, h (w f1 + w f2 + d f3), so heat in =
-stored + lost holds to the Newton tolerance, step by step. Each stage is solved by Newton's
-method with the Jacobian diag(C) - h d D dF/dT (convection G held constant in it).
+second order and L-stable (no ringing of a thin surface layer after a heat source switches off). Q is the
+exact integral of the piecewise linear sources, so the heat input is averaged over each stage,
+and each link's energy is accumulated with the same weights, h (w f1 + w f2 + d f3): heat in =
+stored + lost holds to the Newton tolerance, step by step.
 
 Every schedule sample is a grid point, so every edge where a source switches is one too;
-intervals longer than ``max_step_s`` are split.
+intervals longer than ``max_step_s`` are split. Unbounded adaptive stepping is never used: it
+steps over short braking pulses.
+
+Two implementations of the same scheme:
+- ``thermo.solver.kernel`` (numba, on-disk cache): used whenever every convection link of the
+  network is tabulated on one grid (``CompiledNetwork.conv_tables``), as built by the corner builder,
+  and the run stays on the tables. About 2 us a step for a 12-node corner.
+- the numpy stepper below (a few ms a step): networks with untabulated convection functions,
+  ``use_jacobian=False`` (finite-difference Jacobian), and any run whose state leaves a
+  conductance table (the exact function is then evaluated, as ``tabulate.lookup`` does).
 
 References
 ----------
@@ -29,13 +38,15 @@ import numpy as np
 from thermo.errors import SolveError
 from thermo.network.assemble import CompiledNetwork
 from thermo.network.schedule import Schedule
+from thermo.solver import kernel
+from thermo.solver.batch import KernelInputs, kernel_inputs, kernel_network
 from thermo.solver.settings import SolverSettings
 from thermo.solver.solution import NetworkSolution, finish_solution
 
-GAMMA = 2.0 - np.sqrt(2.0)
-D_WEIGHT = GAMMA / 2.0
-W_WEIGHT = np.sqrt(2.0) / 4.0
-MAX_NEWTON = 12
+GAMMA = kernel.GAMMA
+D_WEIGHT = kernel.D_WEIGHT
+W_WEIGHT = kernel.W_WEIGHT
+MAX_NEWTON = kernel.MAX_NEWTON
 
 
 def time_grid(schedule: Schedule, t_start: float, t_end: float, out_t: np.ndarray,
@@ -44,14 +55,59 @@ def time_grid(schedule: Schedule, t_start: float, t_end: float, out_t: np.ndarra
     t = schedule.time_s
     grid = np.union1d(np.concatenate([[t_start, t_end], t[(t > t_start) & (t < t_end)]]), out_t)
     if max_step_s is not None:
-        parts = [grid[:1]]
-        for a, b in zip(grid[:-1], grid[1:]):
-            m = int(np.ceil((b - a) / max_step_s - 1e-12))
-            parts.append(np.linspace(a, b, m + 1)[1:])
-        grid = np.concatenate(parts)
+        h = np.diff(grid)
+        m = np.ceil(h / max_step_s - 1e-12).astype(int)
+        if np.any(m > 1):
+            parts = [grid[:1]]
+            for a, b, k in zip(grid[:-1], grid[1:], m):
+                parts.append(np.linspace(a, b, k + 1)[1:] if k > 1 else np.array([b]))
+            grid = np.concatenate(parts)
     return grid
 
 
+def integrate_fast(net: CompiledNetwork, schedule: Schedule, initial_k: np.ndarray, settings: SolverSettings,
+                   t_start: float, t_end: float, out_t: np.ndarray, phase: str) -> NetworkSolution:
+    """TR-BDF2 over [t_start, t_end] on the schedule's grid; see the module notes."""
+    grid = time_grid(schedule, t_start, t_end, out_t, settings.max_step_s)
+    knet = kernel_network(net) if settings.use_jacobian else None
+    if knet is not None:
+        inputs = kernel_inputs(net, schedule, grid)
+        sol = _integrate_compiled(net, knet, inputs, schedule, initial_k, settings, out_t, phase)
+        if sol is not None:
+            return sol
+    return _integrate_numpy(net, schedule, initial_k, settings, grid, out_t, phase)
+
+
+def _integrate_compiled(net, knet, inputs: KernelInputs, schedule, initial_k, settings, out_t, phase):
+    """One configuration through the kernel; None when the state left a conductance table."""
+    grid = inputs.grid
+    record = np.zeros(grid.size, dtype=bool)
+    index = np.searchsorted(grid, out_t)
+    record[index] = True
+    res = knet.run(inputs, initial_k[None, :], settings.rtol, settings.atol_k, record)
+    code, step = int(res.status[0]), int(res.fail_step[0])
+    if code == kernel.STATUS_OUTSIDE_GRID:
+        return None
+    if code != kernel.STATUS_OK:
+        t_fail = grid[min(step + 1, grid.size - 1)]
+        what = {kernel.STATUS_NEWTON: "Newton did not converge",
+                kernel.STATUS_NONFINITE: "produced non-finite temperatures"}[code]
+        raise SolveError(f"phase '{phase}': method fast: {what} at t = {t_fail:.6g} s")
+    temps, flows = res.temps[0], res.flows[0]
+    link_energy = res.link_energy[0]
+    final = res.final[0]
+    stored = float(np.sum(net.capacities.enthalpy(final) - net.capacities.enthalpy(initial_k)))
+    lost = float(np.sum(link_energy[net.link_to_boundary]))
+    for array in (temps, flows, link_energy):
+        array.setflags(write=False)
+    return NetworkSolution(
+        time_s=np.asarray(out_t, dtype=float), node_names=net.node_names, temperatures_k=temps,
+        link_names=net.link_names, link_flows_w=flows, link_energy_j=link_energy,
+        heat_in_j=float(res.heat_in[0]), stored_j=stored, lost_j=lost, status="success",
+        nfev=int(res.counts[0, 0]), njev=int(res.counts[0, 1]), final_k=final.copy(), method="fast", phase=phase)
+
+
+# ---------------------------------------------------------------------- the numpy stepper
 class _Stepper:
     def __init__(self, net: CompiledNetwork, settings: SolverSettings, phase: str):
         self.net = net
@@ -96,10 +152,8 @@ class _Stepper:
         raise SolveError(f"phase '{self.phase}': method fast: Newton did not converge at t = {t:.6g} s")
 
 
-def integrate_fast(net: CompiledNetwork, schedule: Schedule, initial_k: np.ndarray, settings: SolverSettings,
-                   t_start: float, t_end: float, out_t: np.ndarray, phase: str) -> NetworkSolution:
-    """TR-BDF2 over [t_start, t_end] on the schedule's grid; see the module notes."""
-    grid = time_grid(schedule, t_start, t_end, out_t, settings.max_step_s)
+def _integrate_numpy(net, schedule, initial_k, settings, grid, out_t, phase) -> NetworkSolution:
+    """The same TR-BDF2 in plain numpy, with exact convection functions off the tables."""
     h = np.diff(grid)
     t_mid = grid[:-1] + GAMMA * h
     bk_grid, drv_grid = net.inputs_series(grid, schedule)

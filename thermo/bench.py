@@ -1,0 +1,168 @@
+"""Benchmark of the solvers on the demo corner: ``python -m thermo.bench [--quick] [--json]``.
+
+Measured side by side in one run (medians over repeats):
+- a stint of repeated laps: the naive baseline (scipy RK45, no Jacobian, steps bounded in braking
+  zones, restarted at each brake edge) against 'fast' (``speedup_vs_rk45``), and LSODA; the peak
+  fluid and disc-surface temperature error of each against Radau at tight tolerance (``peak_error_k``);
+- a 24-hour race, every corner, lap by lap as the chain runs it (``race24h_s``; with --quick one
+  hour is run and scaled by 24, and ``race24h_measured_h`` says so);
+- batched runs: wall time per configuration for a 1-hour stint with 1, 10, 100 and 1000
+  configurations (link conductances scaled at random by 0.8-1.2), measured over ``batch_laps``
+  laps and scaled to the hour (``batch_s_per_config``);
+- the settled lap (``thermo.chain.settle``) against simulating lap by lap until within 1 K.
+"""
+from __future__ import annotations
+
+import argparse
+import json
+import math
+import os
+import platform
+import statistics
+import sys
+import time
+from pathlib import Path
+
+import numpy as np
+
+from thermo.chain.settle import lap_setup, settled_lap
+from thermo.scenario import load_scenario
+from thermo.solver.batch import kernel_network, scaled, solve_batch
+from thermo.solver.scipy_solve import solve_network
+from thermo.solver.settings import SolverSettings
+
+DEMO = Path(__file__).resolve().parents[1] / "scenarios" / "demo.toml"
+FAST = SolverSettings(method="fast")
+BASELINE = SolverSettings(method="RK45", use_jacobian=False)
+LSODA = SolverSettings(method="LSODA")
+
+
+def _demo_path() -> Path:
+    if DEMO.exists():
+        return DEMO
+    import brakeheat_scenarios
+    return Path(brakeheat_scenarios.__file__).parent / "demo.toml"
+
+
+def machine() -> dict:
+    """CPU model and core count of this machine."""
+    model = platform.processor() or "unknown"
+    try:
+        for line in Path("/proc/cpuinfo").read_text().splitlines():
+            if line.startswith("model name"):
+                model = line.split(":", 1)[1].strip()
+                break
+    except OSError:
+        pass
+    return {"cpu": model, "cores": os.cpu_count(), "python": platform.python_version()}
+
+
+def _timed(fn, repeats):
+    times, out = [], None
+    for _ in range(repeats):
+        t = time.perf_counter()
+        out = fn()
+        times.append(time.perf_counter() - t)
+    return statistics.median(times), out
+
+
+def stint(net, model, schedule, T0, settings, laps):
+    """Repeat one lap ``laps`` times, carrying the state; peaks of the output nodes [K]."""
+    T, peaks = np.array(T0, dtype=float), None
+    for _ in range(laps):
+        sol = solve_network(net, schedule, T, settings, phase="bench")
+        T = sol.final_k
+        p = model.outputs(sol.temperatures_k).max(axis=0)
+        peaks = p if peaks is None else np.maximum(peaks, p)
+    return peaks
+
+
+def run(quick: bool = False) -> dict:
+    scenario = load_scenario(_demo_path())
+    repeats = 1 if quick else 3
+    laps = 2 if quick else 30
+    design, model, net, schedule, _ = lap_setup(scenario)
+    T0 = np.full(net.n_nodes, float(scenario.ambient.temperature_at(0.0)))
+    watch = [model.output_nodes.index("fluid"), model.output_nodes.index(model.disc_check_node)]
+    stint(net, model, schedule, T0, FAST, 1)                   # compile or load the kernel first
+    reference = SolverSettings(method="Radau", rtol=1e-8 if quick else 1e-9, atol_k=1e-6 if quick else 1e-7)
+    ref_peaks = stint(net, model, schedule, T0, reference, laps)
+    result = {"machine": machine(), "quick": quick, "stint_laps": laps, "corner": design.name,
+              "reference": f"Radau rtol {reference.rtol:g} atol_k {reference.atol_k:g}"}
+    wall, err = {}, {}
+    for name, st in (("rk45_baseline", BASELINE), ("lsoda", LSODA), ("fast", FAST)):
+        wall[name], peaks = _timed(lambda: stint(net, model, schedule, T0, st, laps), repeats if name == "fast" else 1)
+        err[name] = {"fluid": float(abs(peaks[watch[0]] - ref_peaks[watch[0]])),
+                     model.disc_check_node: float(abs(peaks[watch[1]] - ref_peaks[watch[1]]))}
+    result["stint_wall_s"] = wall
+    result["speedup_vs_rk45"] = wall["rk45_baseline"] / wall["fast"]
+    result["peak_error_k"] = err
+
+    # 24-hour race, every corner, lap by lap
+    hours = 1.0 if quick else 24.0
+    t = time.perf_counter()
+    for d in scenario.corners:
+        _, m, cnet, sched, _ = lap_setup(scenario, d.name)
+        n_laps = math.ceil(hours * 3600.0 / (sched.t_end_s - sched.t_start_s))
+        stint(cnet, m, sched, np.full(cnet.n_nodes, T0[0]), FAST, n_laps)
+    result["race24h_measured_h"] = hours
+    result["race24h_s"] = (time.perf_counter() - t) * 24.0 / hours
+
+    # batches: per-configuration cost for a 1-hour stint
+    base = kernel_network(net)
+    lap_s = schedule.t_end_s - schedule.t_start_s
+    batch_laps = 1
+    rng = np.random.default_rng(8)
+    per_config = {}
+    for size in (1, 10, 100, 1000):
+        kn = scaled(base, link_scale=rng.uniform(0.8, 1.2, size=(size, net.n_links)))
+        start = np.repeat(T0[None, :], size, axis=0)
+
+        def go():
+            T = start
+            for _ in range(batch_laps):
+                T = solve_batch(kn, schedule, T, FAST).final_k
+            return T
+        go() if size == 10 else None                            # first parallel call compiles or loads
+        w, _ = _timed(go, 1 if size >= 100 else repeats)
+        per_config[str(size)] = w / size * (3600.0 / (batch_laps * lap_s))
+    result["batch_laps_measured"] = batch_laps
+    result["batch_s_per_config"] = per_config
+
+    # settled lap against lap-by-lap simulation until within 1 K
+    w_settle, settled = _timed(lambda: settled_lap(scenario, design.name), repeats)
+    w_brute, _ = _timed(lambda: stint(net, model, schedule, T0, FAST, settled.laps_to_1k), 1)
+    result["settle"] = {"settled_lap_s": w_settle, "simulate_to_1k_s": w_brute, "laps_to_1k": settled.laps_to_1k,
+                        "residual_k": settled.residual_k, "lap_solves": settled.lap_solves}
+    return result
+
+
+def _text(r: dict) -> str:
+    m = r["machine"]
+    lines = [f"brakeheat bench on {m['cpu']} ({m['cores']} cores), corner {r['corner']}, "
+             f"{r['stint_laps']}-lap stint, reference {r['reference']}"]
+    for name, w in r["stint_wall_s"].items():
+        e = ", ".join(f"{k} {v:.4f} K" for k, v in r["peak_error_k"][name].items())
+        lines.append(f"  {name:14s} {w:8.3f} s   peak error: {e}")
+    lines.append(f"  speedup_vs_rk45  {r['speedup_vs_rk45']:.1f}x")
+    lines.append(f"  race24h_s        {r['race24h_s']:.2f} s (measured over {r['race24h_measured_h']:g} h)")
+    lines.append("  batch_s_per_config (1-hour stint): " + ", ".join(f"{k}: {v * 1e3:.1f} ms" for k, v in
+                                                                   r["batch_s_per_config"].items()))
+    s = r["settle"]
+    lines.append(f"  settled lap {s['settled_lap_s']:.3f} s vs simulating {s['laps_to_1k']} laps to within 1 K "
+                 f"{s['simulate_to_1k_s']:.3f} s")
+    return "\n".join(lines)
+
+
+def main(argv=None) -> int:
+    parser = argparse.ArgumentParser(prog="python -m thermo.bench", description="Time brakeheat's solvers on the demo.")
+    parser.add_argument("--quick", action="store_true", help="shorter runs (under a minute)")
+    parser.add_argument("--json", action="store_true", help="print one JSON object")
+    args = parser.parse_args(argv)
+    r = run(quick=args.quick)
+    print(json.dumps(r) if args.json else _text(r))
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())

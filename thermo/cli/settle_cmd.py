@@ -1,0 +1,67 @@
+"""`brakeheat settle SCENARIO.toml`: the settled (cyclic steady-state) lap of each corner."""
+from __future__ import annotations
+
+import json
+import sys
+from pathlib import Path
+
+from lapdata.units import kelvin_to_celsius
+
+
+def add_parser(sub) -> None:
+    p = sub.add_parser("settle", help="the settled lap of each corner: peaks once the car has run many laps alike")
+    p.add_argument("scenario", help="scenario TOML file")
+    p.add_argument("--corner", action="append", metavar="NAME", help="only this corner (repeatable; default all)")
+    p.add_argument("--phase", metavar="NAME", help="the 'laps' phase whose lap is repeated (default the first)")
+    p.add_argument("--set", metavar="KEY=VALUE", action="append", default=[], dest="overrides",
+                   help="override one scenario key (repeatable)")
+    p.add_argument("--solver", metavar="METHOD", help="override [solver] method")
+    p.add_argument("--json", action="store_true", help="print one JSON object on stdout")
+    p.set_defaults(handler=settle_command)
+
+
+def settled_dict(scenario, results) -> dict:
+    import thermo
+    return {
+        "scenario": scenario.name, "version": thermo.__version__, "caution": thermo.CAUTION,
+        "corners": [{
+            "name": r.corner, "phase": r.phase, "lap_time_s": round(r.lap_time_s, 3),
+            "peak_c": {n: round(float(kelvin_to_celsius(v)), 2) for n, v in r.peak_k.items()},
+            "min_c": {n: round(float(kelvin_to_celsius(v)), 2) for n, v in r.min_k.items()},
+            "laps_to_within_1k": r.laps_to_1k, "residual_k": r.residual_k, "lap_solves": r.lap_solves,
+            "method": r.method, "wall_s": round(r.wall_s, 4)} for r in results],
+    }
+
+
+def format_settled(data: dict) -> str:
+    lines = [f"Settled lap: {data['scenario']}", "The lap repeated until every node's temperature cycle repeats itself "
+             "(pad wear, fuel burn and the plan's other phases left out).", ""]
+    for c in data["corners"]:
+        lines.append(f"Corner {c['name']}: phase '{c['phase']}', lap {c['lap_time_s']:.2f} s; from ambient it takes "
+                     f"{c['laps_to_within_1k']} laps to come within 1 K of these peaks")
+        lines.append(f"  {'node':<15} {'settled peak [degC]':>19} {'settled minimum [degC]':>22}")
+        for node, peak in c["peak_c"].items():
+            lines.append(f"  {node:<15} {peak:19.1f} {c['min_c'][node]:22.1f}")
+        lines.append(f"  ({c['method']}, {c['lap_solves']} lap solves, residual {c['residual_k']:.2g} K)")
+        lines.append("")
+    lines.append(data["caution"])
+    return "\n".join(lines)
+
+
+def settle_command(args) -> int:
+    from thermo.chain.settle import settled_lap
+    from thermo.cli.run_cmd import overrides_with_solver
+    from thermo.scenario import load_scenario
+    from thermo.solver.settings import SolverSettings
+
+    scenario = load_scenario(Path(args.scenario), overrides_with_solver(args))
+    names = args.corner or [c.name for c in scenario.corners]
+    settings = SolverSettings(method=scenario.solver.method, rtol=scenario.solver.rtol, atol_k=scenario.solver.atol_k)
+    results = [settled_lap(scenario, name, phase_name=args.phase, settings=settings) for name in names]
+    data = settled_dict(scenario, results)
+    if args.json:
+        json.dump(data, sys.stdout, indent=2, allow_nan=False)
+        sys.stdout.write("\n")
+    else:
+        print(format_settled(data))
+    return 0

@@ -1,0 +1,435 @@
+"""Compiled TR-BDF2 kernel: many configurations of one network topology, stepped on one time grid.
+
+This is the numba-compiled core of method 'fast' (``thermo.solver.fast``) and of batched runs
+(``thermo.solver.batch``). A single run is a batch of one. Everything the kernel needs is a plain
+array (``thermo.solver.batch.KernelNetwork``); the schedule's signals are sampled or integrated beforehand, in numpy,
+on the grid and at the TR-BDF2 stage times, so the kernel never calls back into Python.
+
+Scheme (per step of length h, gamma = 2 - sqrt(2), d = gamma/2, w = sqrt(2)/4), on node enthalpies:
+
+    H(Y2) = H(T_n) + h d (r(T_n) + r(Y2)) + Q(t_n, t_n + gamma h)
+    H(Y3) = H(T_n) + h (w r(T_n) + w r(Y2) + d r(Y3)) + Q(t_n, t_n + h),    T_{n+1} = Y3
+
+r = D f the net link flow into each node, Q the exact integral of the piecewise linear sources
+(heat input averaged over each stage, never sampled at its ends). Both implicit stages share the
+matrix diag(C) - h d D dF/dT; it is factored once per step at T_n (simplified Newton) and again at
+the current iterate if Newton has not converged within ``REFACTOR_AFTER`` iterations. The
+Jacobian is analytic: conduction G, radiation 4 c T^3, convection m G plus m (T_a - T_b) dG/dT from
+the trilinear table (the table's own derivative, so the Newton matrix is exact for the model;
+m is a per-configuration multiplier, 1 unless a sweep scales it).
+
+Convergence: the correction |dY_i| <= 0.1 (atol_k + rtol |Y_i|) (the accepted Y + dY is then O(dY^2)
+from the stage root: Newton with the exact matrix converges quadratically). Link energies are accumulated with the
+scheme's weights, h (w f1 + w f2 + d f3), so heat in = stored + lost to the Newton residual.
+
+Status codes per configuration: 0 success, 1 Newton did not converge, 2 a convection lookup fell
+outside its table grid, 3 non-finite temperatures; ``fail_step`` holds the step index.
+
+numba compiles this on first use and caches the machine code on disk (``cache=True``); with
+``NUMBA_DISABLE_JIT=1`` the same code runs as plain Python (correct, about 1000x slower).
+
+References
+----------
+R. E. Bank et al., "Transient simulation of silicon devices and circuits", IEEE Trans. CAD 4 (1985).
+M. E. Hosea, L. F. Shampine, "Analysis and implementation of TR-BDF2", Appl. Numer. Math. 20 (1996).
+"""
+from __future__ import annotations
+
+import math
+
+import numpy as np
+from numba import njit, prange
+
+GAMMA = 2.0 - math.sqrt(2.0)
+D_WEIGHT = GAMMA / 2.0
+W_WEIGHT = math.sqrt(2.0) / 4.0
+MAX_NEWTON = 12
+REFACTOR_AFTER = 3
+NEWTON_TOLERANCE = 0.1   # accept when every correction is below this share of atol_k + rtol |Y|
+
+KIND_CONDUCTION, KIND_RADIATION, KIND_CONVECTION = 0, 1, 2
+STATUS_OK, STATUS_NEWTON, STATUS_OUTSIDE_GRID, STATUS_NONFINITE = 0, 1, 2, 3
+
+
+@njit(cache=True)
+def _axis(value, lo, step, n):
+    """Cell index, fraction in the cell, and whether ``value`` lies on the axis."""
+    x = (value - lo) / step
+    inside = x >= 0.0 and x <= n - 1
+    i = int(math.floor(x))
+    if i < 0:
+        i = 0
+    if i > n - 2:
+        i = n - 2
+    fr = x - i
+    if fr < 0.0:
+        fr = 0.0
+    if fr > 1.0:
+        fr = 1.0
+    return i, fr, inside
+
+
+@njit(cache=True)
+def _conductance(tables, t, gp, d, ta, tb):
+    """Trilinear G [W/K] of table t and its slopes dG/dT_a, dG/dT_b [W/K^2]; ok False off the grid."""
+    i, fi, oki = _axis(d, gp[0], gp[1], int(gp[2]))
+    j, fj, okj = _axis(ta, gp[3], gp[4], int(gp[5]))
+    k, fk, okk = _axis(tb, gp[6], gp[7], int(gp[8]))
+    a000 = tables[t, i, j, k]
+    a001 = tables[t, i, j, k + 1]
+    a010 = tables[t, i, j + 1, k]
+    a011 = tables[t, i, j + 1, k + 1]
+    a100 = tables[t, i + 1, j, k]
+    a101 = tables[t, i + 1, j, k + 1]
+    a110 = tables[t, i + 1, j + 1, k]
+    a111 = tables[t, i + 1, j + 1, k + 1]
+    c00 = a000 + fk * (a001 - a000)
+    c01 = a010 + fk * (a011 - a010)
+    c10 = a100 + fk * (a101 - a100)
+    c11 = a110 + fk * (a111 - a110)
+    gi = 1.0 - fi
+    gj = 1.0 - fj
+    g = gi * (gj * c00 + fj * c01) + fi * (gj * c10 + fj * c11)
+    dj = gi * (c01 - c00) + fi * (c11 - c10)
+    dk = gi * (gj * (a001 - a000) + fj * (a011 - a010)) + fi * (gj * (a101 - a100) + fj * (a111 - a110))
+    return g, dj / gp[4], dk / gp[7], oki and okj and okk
+
+
+@njit(cache=True)
+def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, f, dfa, dfb):
+    """Link flows f [W] and their slopes at both ends [W/K]; False if a lookup left the grid."""
+    ok = True
+    for l in range(link_a.size):
+        a = link_a[l]
+        b = link_b[l]
+        ta = T[a]
+        tb = T[b] if b < n else bk[b - n]
+        kd = kind[l]
+        if kd == 0:
+            g = par[l]
+            f[l] = g * (ta - tb)
+            dfa[l] = g
+            dfb[l] = -g
+        elif kd == 1:
+            c = par[l]
+            ta2 = ta * ta
+            tb2 = tb * tb
+            f[l] = c * (ta2 * ta2 - tb2 * tb2)
+            dfa[l] = 4.0 * c * ta2 * ta
+            dfb[l] = -4.0 * c * tb2 * tb
+        else:
+            s = conv_slot[l]
+            dv = drv[conv_drv[s]] if conv_drv[s] >= 0 else 0.0
+            g, ga, gb, inside = _conductance(tables, tix[s], gp, dv, ta, tb)
+            if not inside:
+                ok = False
+            m = par[l]
+            f[l] = m * g * (ta - tb)
+            dfa[l] = m * (g + ga * (ta - tb))
+            dfb[l] = m * (-g + gb * (ta - tb))
+    return ok
+
+
+@njit(cache=True)
+def _capacity_enthalpy(T, mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, C, H):
+    """Heat capacity C [J/K] and enthalpy H relative to t_ref [J] of every node (CapacityTable's forms)."""
+    for i in range(T.size):
+        c = base[i]
+        h = base[i] * (T[i] - t_ref)
+        for s in range(seg_start[i], seg_start[i + 1]):
+            lo = seg_lo[s]
+            hi = seg_hi[s]
+            x = min(max(T[i], lo), hi)
+            c += seg_slope[s] * (x - lo)
+            xr = min(max(t_ref, lo), hi)
+            ramp = 0.5 * (x - lo) ** 2 + (hi - lo) * max(T[i] - hi, 0.0)
+            ramp_ref = 0.5 * (xr - lo) ** 2 + (hi - lo) * max(t_ref - hi, 0.0)
+            h += seg_slope[s] * (ramp - ramp_ref)
+        C[i] = mass[i] * c
+        H[i] = mass[i] * h
+
+
+@njit(cache=True)
+def _lu_factor(A, piv):
+    """In-place LU with partial pivoting of a small dense matrix; False if singular."""
+    n = A.shape[0]
+    for k in range(n):
+        p = k
+        big = abs(A[k, k])
+        for r in range(k + 1, n):
+            if abs(A[r, k]) > big:
+                big = abs(A[r, k])
+                p = r
+        if big == 0.0 or not math.isfinite(big):
+            return False
+        piv[k] = p
+        if p != k:
+            for c in range(n):
+                tmp = A[k, c]
+                A[k, c] = A[p, c]
+                A[p, c] = tmp
+        inv = 1.0 / A[k, k]
+        for r in range(k + 1, n):
+            m = A[r, k] * inv
+            A[r, k] = m
+            if m != 0.0:
+                for c in range(k + 1, n):
+                    A[r, c] -= m * A[k, c]
+    return True
+
+
+@njit(cache=True)
+def _lu_solve(A, piv, x):
+    """Solve in place with the factors of ``_lu_factor``."""
+    n = A.shape[0]
+    for k in range(n):
+        p = piv[k]
+        if p != k:
+            tmp = x[k]
+            x[k] = x[p]
+            x[p] = tmp
+    for r in range(n):
+        s = x[r]
+        for c in range(r):
+            s -= A[r, c] * x[c]
+        x[r] = s
+    for r in range(n - 1, -1, -1):
+        s = x[r]
+        for c in range(r + 1, n):
+            s -= A[r, c] * x[c]
+        x[r] = s / A[r, r]
+
+
+@njit(cache=True)
+def _newton_matrix(A, C, coef, n, link_a, link_b, dfa, dfb):
+    """A = diag(C) - coef D dF/dT: the stage matrix (D = -1 at a link's first end, +1 at its second)."""
+    A[:, :] = 0.0
+    for i in range(n):
+        A[i, i] = C[i]
+    for l in range(link_a.size):
+        a = link_a[l]
+        b = link_b[l]
+        A[a, a] += coef * dfa[l]
+        if b < n:
+            A[a, b] += coef * dfb[l]
+            A[b, a] -= coef * dfa[l]
+            A[b, b] -= coef * dfb[l]
+
+
+@njit(cache=True)
+def _residual(H, target, coef, f, n, link_a, link_b, R):
+    """R = H(Y) - coef D f(Y) - target [J]."""
+    for i in range(n):
+        R[i] = H[i] - target[i]
+    for l in range(link_a.size):
+        R[link_a[l]] += coef * f[l]
+        b = link_b[l]
+        if b < n:
+            R[b] -= coef * f[l]
+
+
+@njit(cache=True)
+def _net_inflow(f, n, link_a, link_b, r):
+    """r = D f, the net link flow into each node [W]."""
+    r[:] = 0.0
+    for l in range(link_a.size):
+        r[link_a[l]] -= f[l]
+        b = link_b[l]
+        if b < n:
+            r[b] += f[l]
+
+
+ARGS_DOC = """Shapes: T0 (B, n); h (N,); bk_grid (N+1, nb); drv_grid (N+1, nd); bk_mid (N, nb); drv_mid (N, nd);
+    qs_mid, qs_full (N, n_signals) source-signal integrals [J]; src (B, n, n_signals); par (B, L);
+    tix (B, n_conv) index into tables (U, n_driver, n_node, n_boundary); mass, base (B, n);
+    seg_lo, seg_hi, seg_slope (B, S); record (N+1,) bool: grid points written to temps_out
+    (B, n_rec, n) and flows_out (B, n_rec, L); final, peak (B, n); peak_step (B, n) grid index of
+    each peak; link_energy (B, L); heat_in, status, fail_step (B,); counts (B, 2) flow and matrix
+    evaluations."""
+
+
+@njit(cache=True)
+def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                 link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                 mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref,
+                 rtol, atol, record, temps_out, flows_out, final, peak, peak_step,
+                 link_energy, heat_in, status, fail_step, counts):
+    """Configuration b over the whole grid."""
+    n = T0.shape[1]
+    L = link_a.size
+    N = h.size
+    n_sig = qs_full.shape[1]
+    T = T0[b].copy()
+    Y = np.empty(n)
+    C = np.empty(n)
+    H = np.empty(n)
+    H0 = np.empty(n)
+    R = np.empty(n)
+    r1 = np.empty(n)
+    r2 = np.empty(n)
+    tgt = np.empty(n)
+    A = np.empty((n, n))
+    piv = np.zeros(n, dtype=np.int64)
+    f1 = np.empty(L)
+    f2 = np.empty(L)
+    f3 = np.empty(L)
+    dfa = np.empty(L)
+    dfb = np.empty(L)
+    q2 = np.empty(n)
+    q3 = np.empty(n)
+    pb = par[b]
+    tb_ix = tix[b]
+    mb, bb, lob, hib, slb = mass[b], base[b], seg_lo[b], seg_hi[b], seg_slope[b]
+    nf = 1
+    nj = 0
+    st = STATUS_OK
+    if not _flows(T, bk_grid[0], drv_grid[0], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
+                  tables, tb_ix, gp, f1, dfa, dfb):
+        st = STATUS_OUTSIDE_GRID
+    rec = 0
+    if record[0]:
+        temps_out[b, rec, :] = T
+        flows_out[b, rec, :] = f1
+        rec += 1
+    for i in range(n):
+        peak[b, i] = T[i]
+        peak_step[b, i] = 0
+    e_in = 0.0
+    step = 0
+    while step < N and st == STATUS_OK:
+        hn = h[step]
+        coef = hn * D_WEIGHT
+        _capacity_enthalpy(T, mb, bb, seg_start, lob, hib, slb, t_ref, C, H0)
+        _net_inflow(f1, n, link_a, link_b, r1)
+        for i in range(n):
+            s2 = 0.0
+            s3 = 0.0
+            for k in range(n_sig):
+                s2 += src[b, i, k] * qs_mid[step, k]
+                s3 += src[b, i, k] * qs_full[step, k]
+            q2[i] = s2
+            q3[i] = s3
+            e_in += s3
+        # the stage matrix at T_n (its slopes are those of the last flow evaluation) serves both stages
+        _newton_matrix(A, C, coef, n, link_a, link_b, dfa, dfb)
+        nj += 1
+        if not _lu_factor(A, piv):
+            st = STATUS_NEWTON
+            break
+        have_lu = True
+        for stage in range(2):
+            if stage == 0:
+                for i in range(n):
+                    tgt[i] = H0[i] + coef * r1[i] + q2[i]
+                    Y[i] = T[i]
+                bkx = bk_mid[step]
+                dvx = drv_mid[step]
+                fx = f2
+            else:
+                # Y2 is the first guess for Y3 (an extrapolated guess can leave the tables)
+                _net_inflow(f2, n, link_a, link_b, r2)
+                for i in range(n):
+                    tgt[i] = H0[i] + hn * W_WEIGHT * (r1[i] + r2[i]) + q3[i]
+                bkx = bk_grid[step + 1]
+                dvx = drv_grid[step + 1]
+                fx = f3
+            converged = False
+            for it in range(MAX_NEWTON):
+                inside = _flows(Y, bkx, dvx, n, link_a, link_b, kind, pb, conv_slot, conv_drv,
+                                tables, tb_ix, gp, fx, dfa, dfb)
+                nf += 1
+                _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
+                _residual(H, tgt, coef, fx, n, link_a, link_b, R)
+                if not have_lu:
+                    _newton_matrix(A, C, coef, n, link_a, link_b, dfa, dfb)
+                    nj += 1
+                    if not _lu_factor(A, piv):
+                        st = STATUS_NEWTON
+                        break
+                    have_lu = True
+                for i in range(n):
+                    R[i] = -R[i]
+                _lu_solve(A, piv, R)
+                worst = 0.0
+                for i in range(n):
+                    e = abs(R[i]) / (atol + rtol * abs(Y[i] + R[i]))
+                    if not (e <= worst):
+                        worst = e if math.isfinite(e) else math.inf
+                for i in range(n):
+                    Y[i] += R[i]
+                if worst <= NEWTON_TOLERANCE:
+                    converged = True
+                    # the last correction is within the tolerance, so Y + dY is O(dY^2) from the root
+                    # (Newton converges quadratically with the exact matrix): the flows of the accepted
+                    # Y are those just evaluated plus their first-order change (error O(dY^2))
+                    for l in range(L):
+                        dl = dfa[l] * R[link_a[l]]
+                        if link_b[l] < n:
+                            dl += dfb[l] * R[link_b[l]]
+                        fx[l] += dl
+                    if not inside:
+                        st = STATUS_OUTSIDE_GRID
+                    break
+                if it + 1 == REFACTOR_AFTER:
+                    have_lu = False
+            if st != STATUS_OK:
+                break
+            if not converged:
+                st = STATUS_NEWTON
+                break
+        if st != STATUS_OK:
+            break
+        for i in range(n):
+            if not math.isfinite(Y[i]):
+                st = STATUS_NONFINITE
+        if st != STATUS_OK:
+            break
+        for l in range(L):
+            link_energy[b, l] += hn * (W_WEIGHT * (f1[l] + f2[l]) + D_WEIGHT * f3[l])
+            f1[l] = f3[l]
+        for i in range(n):
+            T[i] = Y[i]
+            if T[i] > peak[b, i]:
+                peak[b, i] = T[i]
+                peak_step[b, i] = step + 1
+        step += 1
+        if record[step]:
+            temps_out[b, rec, :] = T
+            flows_out[b, rec, :] = f1
+            rec += 1
+    final[b, :] = T
+    heat_in[b] = e_in
+    status[b] = st
+    fail_step[b] = step
+    counts[b, 0] = nf
+    counts[b, 1] = nj
+
+
+@njit(cache=True)
+def advance(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+            link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+            mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref,
+            rtol, atol, record, temps_out, flows_out, final, peak, peak_step,
+            link_energy, heat_in, status, fail_step, counts):
+    """Integrate B configurations over the grid, one after another (see ``ARGS_DOC``)."""
+    for b in range(T0.shape[0]):
+        _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                     link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                     mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref,
+                     rtol, atol, record, temps_out, flows_out, final, peak, peak_step,
+                     link_energy, heat_in, status, fail_step, counts)
+
+
+@njit(cache=True, parallel=True)
+def advance_parallel(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                     link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                     mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref,
+                     rtol, atol, record, temps_out, flows_out, final, peak, peak_step,
+                     link_energy, heat_in, status, fail_step, counts):
+    """``advance`` with the configurations spread over the CPU cores (for batches)."""
+    for b in prange(T0.shape[0]):
+        _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                     link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                     mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref,
+                     rtol, atol, record, temps_out, flows_out, final, peak, peak_step,
+                     link_energy, heat_in, status, fail_step, counts)
