@@ -18,9 +18,7 @@ def _png_size(path):
 def test_plot_run_writes_pngs(factory, tmp_path):
     paths = plot_run(factory.results(dt=10.0), tmp_path / "plots")
     names = [p.name for p in paths]
-    stem = "invented_car_at_invented_circuit"
-    assert names == [f"{stem}_front_left_temperatures.png", f"{stem}_rear_left_temperatures.png",
-                     f"{stem}_lap_peaks.png", f"{stem}_heat_paths.png"]
+    assert names == ["temperatures_front_left.png", "temperatures_rear_left.png", "lap_peaks.png", "heat_paths.png"]
     for path in paths:
         assert path.stat().st_size > 10_000
         width, height = _png_size(path)

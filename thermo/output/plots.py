@@ -144,13 +144,13 @@ def plot_run(results: Results, out_dir) -> list[Path]:
     """
     out = Path(out_dir)
     out.mkdir(parents=True, exist_ok=True)
-    stem = _safe(results.scenario_name)
-    written = [plot_corner_temperatures(c, out / f"{stem}_{_safe(c.name)}_temperatures.png", f"{results.scenario_name} ")
+    # fixed file names (a promise to users' scripts, listed in README); the scenario name is in the titles
+    written = [plot_corner_temperatures(c, out / f"temperatures_{_safe(c.name)}.png", f"{results.scenario_name} ")
                for c in results.corners]
     if any(c.laps for c in results.corners):
-        written.append(plot_lap_peaks(results, out / f"{stem}_lap_peaks.png"))
+        written.append(plot_lap_peaks(results, out / "lap_peaks.png"))
     if any(heat_path_shares(c) for c in results.corners):
-        written.append(plot_heat_paths(results, out / f"{stem}_heat_paths.png"))
+        written.append(plot_heat_paths(results, out / "heat_paths.png"))
     return written
 
 
