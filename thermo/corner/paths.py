@@ -155,6 +155,12 @@ def passage_h_area(mass_flow_kg_s, film_k, passages) -> np.ndarray:
     return nusselt * air.air_conductivity(film_k) / passages.hydraulic_diameter_m * passages.wetted_area_m2
 
 
+def _duct_flow(duct, speed_m_s, air_k, pressure_pa):
+    """(density of the duct air [kg/m^3], mass flow the duct delivers [kg/s]) at a car speed."""
+    rho = air.air_density(pressure_pa, np.asarray(air_k, float))
+    return rho, duct.mass_flow_kg_s(np.abs(np.asarray(speed_m_s, float)), rho)
+
+
 @dataclass(frozen=True)
 class DuctToDiscEye:
     """Duct air fed into the disc eye and carried through the vane passages (effectiveness-NTU)."""
@@ -166,8 +172,7 @@ class DuctToDiscEye:
 
     def __call__(self, speed_m_s, surface_k, air_k):
         film = _film(surface_k, air_k)
-        rho = air.air_density(self.pressure_pa, np.asarray(air_k, float))
-        mass_flow = self.duct.mass_flow_kg_s(np.abs(np.asarray(speed_m_s, float)), rho)
+        _, mass_flow = _duct_flow(self.duct, speed_m_s, air_k, self.pressure_pa)
         h_area = self.multiplier * passage_h_area(mass_flow, film, self.passages)
         return _effectiveness_conductance(h_area, mass_flow, air.air_specific_heat(film))
 
@@ -184,8 +189,7 @@ class DuctJetOnSurface:
 
     def __call__(self, speed_m_s, surface_k, air_k):
         film = _film(surface_k, air_k)
-        rho = air.air_density(self.pressure_pa, np.asarray(air_k, float))
-        mass_flow = self.duct.mass_flow_kg_s(np.abs(np.asarray(speed_m_s, float)), rho)
+        rho, mass_flow = _duct_flow(self.duct, speed_m_s, air_k, self.pressure_pa)
         jet_speed = mass_flow / (rho * self.duct.outlet_area_m2)
         reynolds = np.maximum(jet_speed * self.length_m / air.air_kinematic_viscosity(self.pressure_pa, film), 1.0)
         h = forced.nusselt_flat_plate_incropera(reynolds, air.air_prandtl(film)) * air.air_conductivity(film) / self.length_m
