@@ -42,9 +42,14 @@ def base_lap(scenario: Scenario) -> LapTrace:
     if plan.lap_source == "track":
         track = read_track_toml(plan.lap_path)
         return build_speed_trace(track, scenario.envelope, sample_hz=plan.sample_hz)
-    trace = read_trace_csv(plan.lap_path, repair=plan.repair_trace)
+    return _read_lap(scenario, plan.lap_path)
+
+
+def _read_lap(scenario: Scenario, path) -> LapTrace:
+    """A logged lap CSV, checked for what the scenario's power method needs."""
+    trace = read_trace_csv(path, repair=scenario.plan.repair_trace)
     if scenario.power_method == "pressure" and not trace.has_pressure:
-        raise LapDataError(f"{plan.lap_path}: [brakes] power_method = \"pressure\" needs pressure_front and "
+        raise LapDataError(f"{path}: [brakes] power_method = \"pressure\" needs pressure_front and "
                            "pressure_rear columns in the trace")
     return trace
 
@@ -75,12 +80,18 @@ def expand_plan(scenario: Scenario, lap: LapTrace | None = None) -> tuple[PlanSe
         raise ScenarioError(f"{scenario.path}: power_method = \"pressure\" cannot re-time in/out laps for a pit "
                             "lane; set pit_lane_length_m = 0 for those phases")
     cache: dict[tuple, LapTrace] = {}
+    own_laps: dict = {}
     segments, t, fuel, lap_no = [], 0.0, scenario.vehicle.fuel_kg, 0
     for p_index, phase in enumerate(scenario.plan.phases):
         if phase.driving:
-            key = (phase.kind, phase.pace, phase.pit_lane_length_m, phase.pit_lane_speed_m_s)
+            key = (phase.kind, phase.pace, phase.pit_lane_length_m, phase.pit_lane_speed_m_s, phase.trace)
             if key not in cache:
-                cache[key] = _lap_for(phase, lap, scenario.plan.sample_hz)
+                base = lap
+                if phase.trace is not None:
+                    if phase.trace not in own_laps:
+                        own_laps[phase.trace] = _read_lap(scenario, phase.trace)
+                    base = own_laps[phase.trace]
+                cache[key] = _lap_for(phase, base, scenario.plan.sample_hz)
             trace = cache[key]
             for _ in range(phase.count):
                 lap_no += 1

@@ -29,6 +29,7 @@ class Phase:
     duration_s: float = 0.0
     pad_change: bool = False
     refuel_kg: float = 0.0
+    trace: Path | None = None          # this phase's own logged lap (None: the plan's lap)
 
     @property
     def driving(self) -> bool:

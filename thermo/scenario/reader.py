@@ -261,6 +261,9 @@ def _plan(p: dict, raw_plan: dict, path: Path, source: str) -> Plan:
                                 f"expected one of: {', '.join(PHASE_KINDS)}")
         values = convert_table(where, ph, {**S.PHASE_COMMON, **S.PHASES[kind]}, source)
         values["name"] = values["name"] or f"{kind} {i}"
+        if "trace" in values:
+            own = values.pop("trace")
+            values["trace"] = (path.parent / own if not Path(own).is_absolute() else Path(own)) if own else None
         phases.append(Phase(**values))
     if phases[0].kind in ("pit_stop",) and len(phases) == 1:
         raise ScenarioError(f"{source}: [plan] has only a pit stop: add laps")

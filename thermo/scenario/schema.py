@@ -216,15 +216,18 @@ PLAN = {
 }
 
 PHASE_COMMON = {"type": f("kind", kind=str), "name": f("name", "", kind=str)}
+_PHASE_TRACE = {"trace": f("trace", "", kind=str, doc="this phase's own lap CSV (relative to the scenario); "
+                                                       "empty: the plan's lap")}
 PHASES = {
     "out_lap": {"pace": f("pace", 0.85, minimum=0.05, maximum=1.0),
                 "pit_lane_speed_kmh": f("pit_lane_speed_m_s", 60.0, factor=KMH, minimum=1.0),
-                "pit_lane_length_m": f("pit_lane_length_m", 300.0, minimum=0.0)},
-    "laps": {"count": f("count", kind=int, minimum=1), "pace": f("pace", 1.0, minimum=0.05, maximum=1.0)},
-    "safety_car": {"count": f("count", kind=int, minimum=1), "speed_factor": f("pace", 0.6, minimum=0.05, maximum=1.0)},
+                "pit_lane_length_m": f("pit_lane_length_m", 300.0, minimum=0.0), **_PHASE_TRACE},
+    "laps": {"count": f("count", kind=int, minimum=1), "pace": f("pace", 1.0, minimum=0.05, maximum=1.0), **_PHASE_TRACE},
+    "safety_car": {"count": f("count", kind=int, minimum=1), "speed_factor": f("pace", 0.6, minimum=0.05, maximum=1.0),
+                   **_PHASE_TRACE},
     "in_lap": {"pace": f("pace", 0.8, minimum=0.05, maximum=1.0),
                "pit_lane_speed_kmh": f("pit_lane_speed_m_s", 60.0, factor=KMH, minimum=1.0),
-               "pit_lane_length_m": f("pit_lane_length_m", 300.0, minimum=0.0)},
+               "pit_lane_length_m": f("pit_lane_length_m", 300.0, minimum=0.0), **_PHASE_TRACE},
     "pit_stop": {"duration_s": f("duration_s", minimum=0.1), "pad_change": f("pad_change", False, kind=bool),
                  "refuel_kg": f("refuel_kg", 0.0, minimum=0.0)},
     "soak": {"duration_s": f("duration_s", minimum=1.0)},
