@@ -119,3 +119,19 @@ def test_vane_passages_carry_no_more_than_their_pumped_air(front):
     assert np.all(g[moving] <= c_rate[moving] * (1 + 1e-12))      # Kays & London bound
     # pumped flow = rho x coefficient x rim speed x passage inlet area (linear in wheel speed)
     assert path.pumped_mass_flow(60.0, AIR_IN_K) == pytest.approx(2 * path.pumped_mass_flow(30.0, AIR_IN_K), rel=1e-12)
+
+
+def test_limpert_disc_form_against_its_formula_and_it_cools_more_than_the_rotating_disc():
+    import numpy as np
+    from thermo.correlations.forced import nusselt_brake_disc_limpert
+    from thermo.corner.paths import RotatingDiscFaces
+    # Limpert, Brake Design and Safety (1999), as quoted in the physics reference:
+    # 0.70 Re^0.55 laminar, 0.04 Re^0.8 above Re 2.4e5
+    assert nusselt_brake_disc_limpert(1.0e5) == np.float64(0.70 * 1.0e5 ** 0.55)
+    assert nusselt_brake_disc_limpert(1.0e6) == np.float64(0.04 * 1.0e6 ** 0.8)
+    args = (0.128, 0.19, 0.335, 0.5, 1.0, 101325.0)
+    speeds = np.array([20.0, 50.0, 80.0])
+    rotating = RotatingDiscFaces(*args)(speeds, 900.0, 300.0)
+    limpert = RotatingDiscFaces(*args, face_correlation="limpert")(speeds, 900.0, 300.0)
+    # the two readings differ by about 3x at speed (physics reference, section 3)
+    assert np.all(limpert > 1.5 * rotating)

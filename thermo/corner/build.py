@@ -188,7 +188,8 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
     factor = air_.local_airflow_factor
     disc_ducts = [dt for dt in design.ducts if dt.target == "disc_eye"]
     links.append(Convection("disc_face_convection", surface, "ambient", SIGNAL_SPEED, paths.RotatingDiscFaces(
-        2 * ring, d.outer_diameter_m / 2, design.rolling_radius_m, factor, air_.disc_convection_multiplier, pressure_pa),
+        2 * ring, d.outer_diameter_m / 2, design.rolling_radius_m, factor, air_.disc_convection_multiplier, pressure_pa,
+        d.face_correlation),
         "disc_convection"))
     passages = None
     if d.vented:

@@ -12,6 +12,7 @@ from thermo.errors import ScenarioError
 
 PISTON_TYPES = ("solid", "vented")
 DUCT_TARGETS = ("disc_eye", "disc_face", "caliper")
+FACE_CORRELATIONS = ("rotating", "limpert")
 DUCT_FLOW_MODES = ("area", "volume_flow", "duct_velocity")
 
 
@@ -56,6 +57,7 @@ class DiscGeometry:
     bell_material: str = "aluminium_7075_t6"
     bell_area_m2: float = 0.04
     emissivity_override: float | None = None
+    face_correlation: str = "rotating"
     section: str = "disc"
 
     def __post_init__(self):
@@ -74,6 +76,8 @@ class DiscGeometry:
                 raise ScenarioError(f"[{self.section}] vanes ({self.vane_count} x vane_thickness_mm) do not fit round the inner diameter")
         if self.emissivity_override is not None:
             _require_fraction(self, "emissivity_override")
+        if self.face_correlation not in FACE_CORRELATIONS:
+            raise ScenarioError(f"[{self.section}] face_correlation must be one of {', '.join(FACE_CORRELATIONS)}")
 
     @property
     def ring_area_m2(self) -> float:

@@ -76,6 +76,8 @@ class RotatingDiscFaces:
     Nusselt from the rotating-disc correlation (laminar Cobb & Saunders 1956, turbulent above
     Re_w = 2.4e5). The cross-flow over the face at the local airflow speed (flat plate over the
     outer diameter) is taken instead where it is larger. Natural convection when stationary.
+    ``face_correlation = "limpert"`` uses instead Limpert's disc form on the local air speed over
+    the outer diameter (``forced.nusselt_brake_disc_limpert``).
     """
 
     area_m2: float
@@ -84,19 +86,24 @@ class RotatingDiscFaces:
     airflow_factor: float
     multiplier: float
     pressure_pa: float
+    face_correlation: str = "rotating"
 
     def __call__(self, speed_m_s, surface_k, air_k):
         film = _film(surface_k, air_k)
         k_air = air.air_conductivity(film)
         nu_air = air.air_kinematic_viscosity(self.pressure_pa, film)
         speed = np.abs(np.asarray(speed_m_s, float))
-        omega = speed / self.rolling_radius_m
-        re_rot = np.maximum(omega * self.outer_radius_m ** 2 / nu_air, 1.0)
-        h_rot = forced.nusselt_rotating_disc_cobb_saunders(re_rot) * k_air / self.outer_radius_m
         length = 2 * self.outer_radius_m
-        re_cross = np.maximum(self.airflow_factor * speed * length / nu_air, 1.0)
-        h_cross = forced.nusselt_flat_plate_incropera(re_cross, air.air_prandtl(film)) * k_air / length
-        h_forced = np.maximum(h_rot, h_cross)
+        if self.face_correlation == "limpert":
+            re_local = np.maximum(self.airflow_factor * speed * length / nu_air, 1.0)
+            h_forced = forced.nusselt_brake_disc_limpert(re_local) * k_air / length
+        else:
+            omega = speed / self.rolling_radius_m
+            re_rot = np.maximum(omega * self.outer_radius_m ** 2 / nu_air, 1.0)
+            h_rot = forced.nusselt_rotating_disc_cobb_saunders(re_rot) * k_air / self.outer_radius_m
+            re_cross = np.maximum(self.airflow_factor * speed * length / nu_air, 1.0)
+            h_cross = forced.nusselt_flat_plate_incropera(re_cross, air.air_prandtl(film)) * k_air / length
+            h_forced = np.maximum(h_rot, h_cross)
         h_natural = _natural_nusselt_vertical(length, surface_k, air_k, self.pressure_pa) * k_air / length
         h = forced.nusselt_mixed_churchill(h_forced, h_natural)  # the cube rule is linear-homogeneous in h
         return self.multiplier * h * self.area_m2

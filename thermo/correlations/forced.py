@@ -96,6 +96,33 @@ def nusselt_rotating_disc_cobb_saunders(re_w):
                     0.015 * np.maximum(re, 0.0) ** 0.8)
 
 
+@correlation(re=(0.0, 1.0e7))
+def nusselt_brake_disc_limpert(re):
+    """Mean Nusselt number of a brake disc face in its airflow, in the form Limpert gives.
+
+    Parameters
+    ----------
+    re : float or array  Reynolds number v D / nu on the outer diameter D and air speed v [-]
+
+    Returns
+    -------
+    float or array  Mean Nusselt number h D / k on the outer diameter [-]
+
+    Notes
+    -----
+    Nu = 0.70 Re^0.55 for Re < 2.4e5 (laminar), Nu = 0.04 Re^0.8 above (turbulent). Which
+    velocity the source's Re uses is ambiguous (the car's or the disc's rim speed); brakeheat
+    uses the local air speed over the disc (car speed x local airflow factor) and documents it.
+    Constants as quoted in the project's physics reference (equation numbers from memory).
+
+    References
+    ----------
+    .. [1] Limpert, R. Brake Design and Safety, 2nd ed., SAE International, 1999, ch. 3.
+    """
+    r = np.maximum(np.asarray(re, dtype=float), 0.0)
+    return np.where(r < ROTATING_DISC_TRANSITION_RE, 0.70 * r ** 0.55, 0.04 * r ** 0.8)
+
+
 @correlation(re=(0.0, FLAT_PLATE_TRANSITION_RE), pr=(0.6, 50.0))
 def nusselt_flat_plate_laminar_pohlhausen(re, pr):
     """Mean Nusselt number of an isothermal flat plate in parallel flow, laminar.

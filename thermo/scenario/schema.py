@@ -126,6 +126,8 @@ DISC = {
     "bell_material": f("bell_material", "aluminium_7075_t6", kind=str),
     "bell_area_m2": f("bell_area_m2", 0.04, minimum=0.0),
     "emissivity": f("emissivity_override", None, minimum=0.0, maximum=1.0, doc="omit to use the material's"),
+    "face_correlation": f("face_correlation", "rotating", kind=str, choices=("rotating", "limpert"),
+                          doc="rotating: Cobb & Saunders on the wheel speed (or cross-flow); limpert: Limpert's form on the local air speed"),
 }
 
 PAD = {
