@@ -99,8 +99,15 @@ def _wear_factor(scenario: Scenario, pad_k: float) -> float:
 def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_segment, settings: SolverSettings,
                  progress=None) -> CornerResult:
     """Solve one corner across all segments, carrying its state, with pad wear and pad changes."""
-    model = build_corner(design, scenario.ambient.pressure_pa, conductance_grid(scenario))
-    compiled = compile_network(model.network)
+    grid = conductance_grid(scenario)
+
+    def with_pad(thickness_m: float):
+        """The corner rebuilt with another pad thickness (conduction path and pad mass)."""
+        built = build_corner(replace(design, pad=replace(design.pad, thickness_m=thickness_m)),
+                             scenario.ambient.pressure_pa, grid)
+        return built, compile_network(built.network)
+
+    model, compiled = with_pad(design.pad.thickness_m)
     names = model.network.node_names
     i_pad, i_back = names.index("pad"), names.index("backing_plate")
     T = np.full(len(names), float(scenario.ambient.temperature_at(0.0)))
@@ -117,8 +124,7 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
             stint_thickness.append((segment.phase.name, thickness))
             old = [model.network.nodes[k].heat_capacity.enthalpy(T[k]) for k in (i_pad, i_back)]
             thickness = design.pad.thickness_m
-            model = build_corner(replace(design, pad=replace(design.pad, thickness_m=thickness)), scenario.ambient.pressure_pa, conductance_grid(scenario))
-            compiled = compile_network(model.network)
+            model, compiled = with_pad(thickness)
             T[[i_pad, i_back]] = float(scenario.ambient.temperature_at(segment.t_start_s))
             new = [model.network.nodes[k].heat_capacity.enthalpy(T[k]) for k in (i_pad, i_back)]
             removed += sum(old) - sum(new)
@@ -157,8 +163,7 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
             new_thickness = max(thickness - wear, MIN_PAD_THICKNESS_M)
             if new_thickness < thickness:
                 old_h = model.network.nodes[i_pad].heat_capacity.enthalpy(T[i_pad])
-                model = build_corner(replace(design, pad=replace(design.pad, thickness_m=new_thickness)), scenario.ambient.pressure_pa, conductance_grid(scenario))
-                compiled = compile_network(model.network)
+                model, compiled = with_pad(new_thickness)
                 removed += old_h - model.network.nodes[i_pad].heat_capacity.enthalpy(T[i_pad])
                 warns += _pad_warnings(design, scenario.pad_wear.warn_margin_m, new_thickness, segment.lap_index, warned)
                 thickness = new_thickness
@@ -213,14 +218,14 @@ def _pad_warnings(design: CornerDesign, margin_m: float, thickness_m: float, lap
 
 
 def _phase_spans(segments) -> tuple[PhaseSpan, ...]:
-    spans: list[PhaseSpan] = []
+    """One span per plan phase, from its first segment's start to its last segment's end."""
+    first: dict[int, PlanSegment] = {}
+    last: dict[int, PlanSegment] = {}
     for seg in segments:
-        if spans and spans[-1].name == seg.phase.name and seg.phase_index == getattr(spans[-1], "_index", seg.phase_index):
-            last = spans[-1]
-            spans[-1] = PhaseSpan(last.name, last.kind, last.t_start_s, seg.t_end_s)
-        else:
-            spans.append(PhaseSpan(seg.phase.name, seg.phase.kind, seg.t_start_s, seg.t_end_s))
-    return tuple(spans)
+        first.setdefault(seg.phase_index, seg)
+        last[seg.phase_index] = seg
+    return tuple(PhaseSpan(first[i].phase.name, first[i].phase.kind, first[i].t_start_s, last[i].t_end_s)
+                 for i in first)
 
 
 def references_for(scenario: Scenario, models, correlations_used) -> tuple[str, ...]:
