@@ -16,6 +16,7 @@ def fit_dict(result, *, scenario: str, measured: str, calibrated: str | None) ->
     """JSON object: parameters (name, value, std_error, ...), correlation, rms_k, holdout_rms_k, peaks, warnings."""
     names = [v.name for v in result.values]
     out = {
+        "caution": CAUTION,
         "scenario": scenario, "measured": measured, "calibrated_scenario": calibrated,
         "parameters": [{"name": v.name, "kind": v.kind, "value": v.value, "std_error": _num(v.std_error),
                         "prior": v.prior, "lower": _num(v.lower), "upper": _num(v.upper),
