@@ -1,10 +1,11 @@
-"""The settled lap against brute force: many laps simulated one after another."""
+"""The settled lap against brute force (many laps simulated one after another); the repeated-lap race path."""
 import numpy as np
 import pytest
 
 from thermo.bench import _demo_path
+from thermo.chain.race import race, repeated_laps
 from thermo.chain.settle import lap_setup, settled_lap
-from thermo.errors import ScenarioError
+from thermo.errors import ModelError, ScenarioError
 from thermo.scenario import load_scenario
 from thermo.solver import SolverSettings, solve_network
 
@@ -42,3 +43,39 @@ def test_unknown_corner_and_phase_are_named(demo):
         settled_lap(demo, "middle")
     with pytest.raises(ScenarioError, match="phase 'qualifying'"):
         settled_lap(demo, phase_name="qualifying")
+
+
+def test_settled_lap_refuses_a_setup_of_another_corner(demo):
+    with pytest.raises(ScenarioError, match="setup is for corner 'front', not 'rear'"):
+        settled_lap(demo, "rear", setup=lap_setup(demo, "front"))
+
+
+def test_repeated_laps_follow_the_full_grid_newton_solve(demo):
+    # the race path (graded grid, linearised kernel) against the default 'fast' solve lap by lap,
+    # itself tested against scipy's Radau (tests/solver); issue 8 bound 0.05 K, measured a few mK
+    _, model, net, s, _ = lap_setup(demo, "front")
+    T0 = np.full(net.n_nodes, float(demo.ambient.temperature_at(0.0)))
+    fast = repeated_laps(model, net, s, T0, 3)
+    T, peaks = T0, []
+    for _ in range(3):
+        sol = solve_network(net, s, T, SolverSettings(method="fast"))
+        T = sol.final_k
+        peaks.append(model.outputs(sol.temperatures_k).max(axis=0))
+    assert fast.lap_peaks_k.shape == (3, len(model.output_nodes))
+    assert fast.steps_per_lap < 0.4 * s.time_s.size
+    np.testing.assert_allclose(fast.lap_peaks_k, np.array(peaks), atol=0.02)
+    np.testing.assert_allclose(fast.final_k, T, atol=0.02)
+    assert np.all(fast.lap_peaks_k[2] > fast.lap_peaks_k[0]), "from ambient, the third lap runs hotter than the first"
+    with pytest.raises(ModelError, match="n_laps must be >= 1"):
+        repeated_laps(model, net, s, T0, 0)
+
+
+def test_race_in_threads_equals_the_serial_race(demo):
+    one = race(demo, 0.1, threads=1)
+    two = race(demo, 0.1, threads=2)
+    for d in demo.corners:
+        assert one[d.name].lap_peaks_k.shape[0] == 4          # ceil(360 s / 103.25 s)
+        np.testing.assert_array_equal(one[d.name].lap_peaks_k, two[d.name].lap_peaks_k)
+    assert 0 < one["build_s"] < one["wall_s"]
+    with pytest.raises(ModelError, match="hours must be > 0"):
+        race(demo, 0.0)

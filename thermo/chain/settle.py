@@ -7,12 +7,16 @@ lap starts from the fixed point T* = F(T*). It is found by Newton shooting with 
     T <- T - (J - I)^-1 (F(T) - T)   with F evaluated on the full sample grid,
 
 (J - I refined by Broyden's rank-one update after each lap: C. G. Broyden, Math. Comp. 19 (1965)
-577-593), repeated until the lap changes no node by more than ``tolerance_k``. The heat network is nearly
+577-593), repeated until the lap changes no node by more than ``tolerance_k``. J, a first guess and
+the first iterations use the coarse lap map (graded grid, kernel's linearised mode, about 6x
+cheaper a lap); its fixed point lies within a few thousandths of a kelvin of the full-grid map's,
+on which the search ends (usually one or two full-grid lap solves). The heat network is nearly
 linear over a lap (radiation, c(T) and G(T) are smooth), so the chord converges in two or three
 lap solves; the slow hub and upright modes that make brute force take dozens of laps are exactly
 what J captures. How many laps a car starting from ambient needs to get within 1 K of the settled
 peaks is counted on the linearised map: the start error after k laps is e_k = J^k e_0 and the
-lap's trajectory is T*(t) + S(t) e_k with S(t) = dT(t)/dT0 from the same batched run.
+lap's trajectory is T*(t) + S(t) e_k with S(t) = dT(t)/dT0 from the same batched run (coarse grid,
+interpolated linearly onto the full one).
 Pad wear is left out: the pad keeps the design's thickness.
 """
 from __future__ import annotations
@@ -27,13 +31,15 @@ from thermo.chain.run import _schedule, conductance_grid, corner_brakes, corner_
 from thermo.corner.build import build_corner
 from thermo.errors import ScenarioError, SolveError
 from thermo.network.assemble import compile_network
-from thermo.solver.batch import kernel_network, scaled, solve_batch
+from thermo.solver import kernel
+from thermo.solver.batch import graded_grid, kernel_inputs, kernel_network, scaled, solve_batch
 from thermo.solver.scipy_solve import solve_network
 from thermo.solver.settings import SolverSettings
 
 PERTURBATION_K = 1.0    # finite-difference step of the lap map's Jacobian (the map is nearly affine)
 MAX_ITERATIONS = 12
 MAX_LAPS_COUNTED = 10000
+COARSE_STRIDE = 8       # graded grid of the Jacobian's batched run (``thermo.solver.batch.graded_grid``)
 
 
 @dataclass(frozen=True)
@@ -51,7 +57,8 @@ class SettledLap:
     laps_to_1k : int  Laps from the scenario's start state (ambient) until every output node's lap
         peak is within 1 K of the settled peak (linearised count, see the module notes)
     residual_k : float  max |F(T*) - T*| at the end [K]
-    lap_solves : int  Full-grid lap solves used (the Jacobian's batched run not counted)
+    lap_solves : int  Full-grid lap solves used (the coarse ones and the Jacobian's batched run not
+        counted; see ``method``)
     method : str  How it was found
     wall_s : float  Wall time of the search [s]
     """
@@ -73,11 +80,14 @@ def lap_setup(scenario, corner_name=None, phase_name=None):
     """(design, model, compiled network, lap schedule, segment) for one corner's repeated lap."""
     designs = {d.name: d for d in scenario.corners}
     if corner_name is None:
-        design = scenario.corners[0]
-    elif corner_name in designs:
-        design = designs[corner_name]
-    else:
+        corner_name = scenario.corners[0].name
+    elif corner_name not in designs:
         raise ScenarioError(f"settle: no corner named '{corner_name}' (corners: {', '.join(designs)})")
+    return lap_setups(scenario, phase_name)[corner_name]
+
+
+def lap_setups(scenario, phase_name=None) -> dict:
+    """``lap_setup`` of every corner, the corner models built once: corner name -> tuple."""
     segments = expand_plan(scenario)
     laps = [s for s in segments if s.phase.kind == "laps" and (phase_name is None or s.phase.name == phase_name)]
     if not laps:
@@ -86,14 +96,17 @@ def lap_setup(scenario, corner_name=None, phase_name=None):
     segment = laps[0]
     grid = conductance_grid(scenario)
     models = {d.name: build_corner(d, scenario.ambient.pressure_pa, grid) for d in scenario.corners}
-    duty = corner_duties(scenario, segment, corner_brakes(scenario, models))[design.name]
-    schedule = _schedule(scenario, design, segment, duty)
-    model = models[design.name]
-    return design, model, compile_network(model.network), schedule, segment
+    duties = corner_duties(scenario, segment, corner_brakes(scenario, models))
+    out = {}
+    for design in scenario.corners:
+        model = models[design.name]
+        schedule = _schedule(scenario, design, segment, duties[design.name])
+        out[design.name] = (design, model, compile_network(model.network), schedule, segment)
+    return out
 
 
 def settled_lap(scenario, corner_name=None, *, phase_name=None, tolerance_k=0.01,
-                settings: SolverSettings | None = None) -> SettledLap:
+                settings: SolverSettings | None = None, setup=None) -> SettledLap:
     """The settled lap of one corner (default the first) on the first lap of a "laps" phase.
 
     Parameters
@@ -103,6 +116,8 @@ def settled_lap(scenario, corner_name=None, *, phase_name=None, tolerance_k=0.01
     phase_name : str or None  Plan phase whose lap is repeated, default the first "laps" phase
     tolerance_k : float  Stop when no node's start and end of lap differ by more than this [K]
     settings : SolverSettings or None  rtol/atol_k of the 'fast' lap solves [-]
+    setup : tuple or None  ``lap_setup(scenario, corner_name, phase_name)`` already built (the model
+        build and its convection tables, about 0.5 s on the demo, are then not paid again)
 
     Raises
     ------
@@ -111,64 +126,102 @@ def settled_lap(scenario, corner_name=None, *, phase_name=None, tolerance_k=0.01
     wall = _time.perf_counter()
     settings = SolverSettings(method="fast", rtol=scenario.solver.rtol, atol_k=scenario.solver.atol_k) \
         if settings is None else settings
-    design, model, net, schedule, segment = lap_setup(scenario, corner_name, phase_name)
+    design, model, net, schedule, segment = lap_setup(scenario, corner_name, phase_name) if setup is None else setup
+    if corner_name is not None and design.name != corner_name:
+        raise ScenarioError(f"settle: setup is for corner '{design.name}', not '{corner_name}'")
     n = net.n_nodes
     T_start = np.full(n, float(scenario.ambient.temperature_at(segment.t_start_s)))
 
     def lap(T):
         return solve_network(net, schedule, T, settings, phase=f"settle {design.name}")
 
-    # chord matrix and trajectory sensitivities from one batched run of n + 1 laps
+    # chord matrix and trajectory sensitivities from one batched run of n + 1 laps, on the graded grid
+    # in the kernel's linearised mode (only the chord matrix, a start guess and the lap count come
+    # from the coarse map; the fixed point is confirmed with full-grid Newton lap solves)
     base = kernel_network(net)
     if base is None:
         raise SolveError(f"settle: corner {design.name}: the network cannot run compiled (untabulated convection)")
-    sol0 = lap(T_start)
-    out_t = sol0.time_s
-    T_guess = sol0.final_k
+    coarse = graded_grid(schedule, net, schedule.t_start_s, schedule.t_end_s, 1, COARSE_STRIDE)
+    guess = solve_batch(base, schedule, T_start, settings, grid=coarse, phase=f"settle {design.name}",
+                        linearised=True)
+    T_guess = guess.final_k[0]
     batch = scaled(base, capacity_scale=np.ones((n + 1, n)))
     starts = np.repeat(T_guess[None, :], n + 1, axis=0)
     starts[1:] += PERTURBATION_K * np.eye(n)
-    runs = solve_batch(batch, schedule, starts, settings, output_times=out_t, phase=f"settle {design.name}")
+    runs = solve_batch(batch, schedule, starts, settings, output_times=coarse, grid=coarse,
+                       phase=f"settle {design.name}", linearised=True)
     J = (runs.final_k[1:] - runs.final_k[0]).T / PERTURBATION_K                 # (n, n): dF_i/dT0_j
-    S = (runs.temperatures_k[1:] - runs.temperatures_k[0]) / PERTURBATION_K       # (n, n_t, n): row j = d/dT0_j
+    S_coarse = (runs.temperatures_k[1:] - runs.temperatures_k[0]) / PERTURBATION_K   # (n, n_coarse, n)
+    # Broyden on the coarse lap map to its fixed point, then on the full-grid map (they differ by
+    # a few thousandths of a kelvin, so the full-grid part usually takes one or two lap solves)
     Bm = J - np.eye(n)                  # Jacobian of G(T) = F(T) - T, refined by Broyden's update
-    T = T_guess
-    G = runs.final_k[0] - T
-    solves, residual = 1, np.inf
-    for _ in range(MAX_ITERATIONS):
-        dx = -np.linalg.solve(Bm, G)
-        T = T + dx
-        sol = lap(T)
-        solves += 1
-        G_new = sol.final_k - T
-        residual = float(np.max(np.abs(G_new)))
-        if residual <= tolerance_k:
-            break
-        Bm = Bm + np.outer(G_new - G - Bm @ dx, dx) / (dx @ dx)
-        G = G_new
-    else:
-        raise SolveError(f"settle: corner {design.name}: no settled lap within {MAX_ITERATIONS} iterations "
-                         f"(start and end of lap still differ by {residual:.3g} K)")
+
+    coarse_inputs = kernel_inputs(net, schedule, coarse)
+    no_record = np.zeros(coarse.size, dtype=bool)
+
+    def coarse_lap(T):
+        res = base.run(coarse_inputs, T[None, :], settings.rtol, settings.atol_k, no_record, linearised=True)
+        if int(res.status[0]) != kernel.STATUS_OK:
+            raise SolveError(f"settle: corner {design.name}: coarse lap solve failed (kernel status "
+                             f"{int(res.status[0])})")
+        return res.final[0]
+    T, Bm, _, coarse_solves = _broyden(coarse_lap, T_guess, runs.final_k[0] - T_guess, Bm, 0.25 * tolerance_k,
+                                       design.name, "coarse")
+    sols = [lap(T)]
+
+    def full_lap(T):
+        sols.append(lap(T))
+        return sols[-1].final_k
+    T, Bm, residual, solves = _broyden(full_lap, T, sols[0].final_k - T, Bm, tolerance_k, design.name, "full-grid")
+    sol = sols[-1]
+    solves += 1
     outputs = model.outputs(sol.temperatures_k)
     peaks = outputs.max(axis=0)
-    laps = _laps_to_within(model, sol.temperatures_k, S, J, T_start - T, peaks, 1.0)
+    SW = _resample(S_coarse @ model.output_weights.T, runs.time_s, sol.time_s)   # (n, n_t, n_out): d output/dT0_j
+    laps = _laps_to_within(outputs, SW, J, T_start - T, peaks, 1.0)
     return SettledLap(
         corner=design.name, phase=segment.phase.name, lap_time_s=float(schedule.t_end_s - schedule.t_start_s),
         start_k=dict(zip(net.node_names, map(float, T))), peak_k=dict(zip(model.output_nodes, map(float, peaks))),
         min_k=dict(zip(model.output_nodes, map(float, outputs.min(axis=0)))), laps_to_1k=laps,
         residual_k=residual, lap_solves=solves,
-        method="Newton shooting: finite-difference Jacobian from one batched kernel run, Broyden updates",
+        method=f"Newton shooting: finite-difference Jacobian from one batched kernel run (graded grid, "
+               f"linearised), Broyden updates on {coarse_solves} coarse then {solves} full-grid lap solves",
         wall_s=_time.perf_counter() - wall)
 
 
-def _laps_to_within(model, settled_temps, S, J, e0, settled_peaks, band_k) -> int:
+def _laps_to_within(settled_outputs, SW, J, e0, settled_peaks, band_k) -> int:
     """Laps k (counting the first as 1) until lap k's output peaks are within band_k of the settled ones."""
     e = e0.copy()
-    W = model.output_weights
+    flat = SW.reshape(SW.shape[0], -1)
     for k in range(1, MAX_LAPS_COUNTED + 1):
-        traj = settled_temps + np.einsum("j,jtn->tn", e, S)
-        peaks = (traj @ W.T).max(axis=0)
+        peaks = (settled_outputs + (e @ flat).reshape(settled_outputs.shape)).max(axis=0)
         if np.all(np.abs(peaks - settled_peaks) <= band_k):
             return k
         e = J @ e
     return MAX_LAPS_COUNTED
+
+
+def _resample(S, t_from, t_to):
+    """Linear interpolation of S (..., len(t_from), n) along its time axis onto t_to."""
+    k = np.clip(np.searchsorted(t_from, t_to, side="right") - 1, 0, t_from.size - 2)
+    w = ((t_to - t_from[k]) / (t_from[k + 1] - t_from[k]))[None, :, None]
+    return S[:, k, :] * (1.0 - w) + S[:, k + 1, :] * w
+
+
+def _broyden(lap_map, T, G, Bm, tolerance_k, corner, what):
+    """Newton-Broyden on G(T) = F(T) - T from (T, G(T)); returns (T, Bm, residual, lap solves)."""
+    residual, solves = float(np.max(np.abs(G))), 0
+    for _ in range(MAX_ITERATIONS):
+        if residual <= tolerance_k:
+            return T, Bm, residual, solves
+        dx = -np.linalg.solve(Bm, G)
+        T = T + dx
+        G_new = lap_map(T) - T
+        solves += 1
+        residual = float(np.max(np.abs(G_new)))
+        Bm = Bm + np.outer(G_new - G - Bm @ dx, dx) / (dx @ dx)
+        G = G_new
+    if residual <= tolerance_k:
+        return T, Bm, residual, solves
+    raise SolveError(f"settle: corner {corner}: no settled lap on the {what} grid within {MAX_ITERATIONS} "
+                     f"iterations (start and end of lap still differ by {residual:.3g} K)")

@@ -104,8 +104,9 @@ class KernelNetwork:
         return self.mass.shape[1]
 
     def run(self, inputs: KernelInputs, initial_k: np.ndarray, rtol: float, atol_k: float,
-            record: np.ndarray) -> KernelResult:
-        """Call the kernel: ``initial_k`` (B, n) [K]; ``record`` (N+1,) grid points to keep."""
+            record: np.ndarray, linearised: bool = False) -> KernelResult:
+        """Call the kernel: ``initial_k`` (B, n) [K]; ``record`` (N+1,) grid points to keep;
+        ``linearised`` one Newton correction per stage (see ``thermo.solver.kernel``)."""
         B, n, L = self.size, self.n_nodes, self.link_a.size
         n_rec = int(np.count_nonzero(record))
         out = KernelResult(
@@ -119,7 +120,7 @@ class KernelNetwork:
                        self.link_a, self.link_b, self.kind, self.par, self.conv_slot, self.conv_drv, self.tables,
                        self.tix, self.gp, self.mass, self.base, self.seg_start, self.seg_lo, self.seg_hi,
                        self.seg_slope, REFERENCE_TEMPERATURE_K, float(rtol), float(atol_k),
-                       np.ascontiguousarray(record, dtype=np.bool_), out.temps, out.flows, out.final, out.peak,
+                       1 if linearised else kernel.MAX_NEWTON, np.ascontiguousarray(record, dtype=np.bool_), out.temps, out.flows, out.final, out.peak,
                        out.peak_step, out.link_energy, out.heat_in, out.status, out.fail_step, out.counts)
         return out
 
@@ -337,7 +338,7 @@ class BatchSolution:
 
 def solve_batch(networks, schedule: Schedule, initial_k, settings: SolverSettings | None = None, *,
                 t_start: float | None = None, t_end: float | None = None, output_times=None,
-                grid: np.ndarray | None = None, phase: str = "") -> BatchSolution:
+                grid: np.ndarray | None = None, phase: str = "", linearised: bool = False) -> BatchSolution:
     """Integrate B configurations over one schedule with the compiled TR-BDF2 kernel.
 
     Parameters
@@ -353,6 +354,9 @@ def solve_batch(networks, schedule: Schedule, initial_k, settings: SolverSetting
     grid : array_like or None  Time grid; default the schedule's samples (``graded_grid`` gives
         a coarser one) [s]
     phase : str  Named in error messages
+    linearised : bool  One simplified-Newton correction per stage, no convergence check (about
+        2-3x faster, peaks within a few hundredths of a kelvin on the demo; see
+        ``thermo.solver.kernel``) [-]
 
     Raises
     ------
@@ -378,7 +382,7 @@ def solve_batch(networks, schedule: Schedule, initial_k, settings: SolverSetting
     record = np.zeros(g.size, dtype=bool)
     record[np.searchsorted(g, out_t)] = True
     inputs = kernel_inputs(net, schedule, g)
-    res = kn.run(inputs, T0, settings.rtol, settings.atol_k, record)
+    res = kn.run(inputs, T0, settings.rtol, settings.atol_k, record, linearised)
     bad = np.flatnonzero(res.status != kernel.STATUS_OK)
     if bad.size:
         k = int(bad[0])

@@ -22,10 +22,22 @@ Convergence: the correction |dY_i| <= 0.1 (atol_k + rtol |Y_i|) (the accepted Y 
 from the stage root: Newton with the exact matrix converges quadratically). Link energies are accumulated with the
 scheme's weights, h (w f1 + w f2 + d f3), so heat in = stored + lost to the Newton residual.
 
+Linearised mode (``max_newton`` = 1): each stage takes exactly one simplified-Newton correction
+from its first guess (T_n for Y2, Y2 for Y3) with the matrix at T_n, then one more chord correction
+with the exact enthalpy H(Y) and the linearised flows (no flow evaluation), and accepts the result
+without a convergence check: a linearly implicit (Rosenbrock-like) TR-BDF2 with two flow
+evaluations and one LU per step. Its extra error is that of linearising radiation and G(T) once
+per stage (measured: peaks within 0.005 K of full Newton on the demo corner); without the enthalpy
+correction the c(T) linearisation error builds up over a braking zone (0.6 K measured). The energy
+balance closes to that linearisation error (below 1e-5 relative on the demo), not to round-off.
+It is opt-in, for throughput runs (batches, races, the settled lap's coarse map); 'fast' itself
+uses full Newton.
+
 Status codes per configuration: 0 success, 1 Newton did not converge, 2 a convection lookup fell
 outside its table grid, 3 non-finite temperatures; ``fail_step`` holds the step index.
 
-numba compiles this on first use and caches the machine code on disk (``cache=True``); with
+numba compiles this on first use (``error_model="numpy"``: no zero-division checks in the loops)
+and caches the machine code on disk (``cache=True``); with
 ``NUMBA_DISABLE_JIT=1`` the same code runs as plain Python (correct, about 1000x slower).
 
 References
@@ -51,7 +63,7 @@ KIND_CONDUCTION, KIND_RADIATION, KIND_CONVECTION = 0, 1, 2
 STATUS_OK, STATUS_NEWTON, STATUS_OUTSIDE_GRID, STATUS_NONFINITE = 0, 1, 2, 3
 
 
-@njit(cache=True)
+@njit(cache=True, error_model="numpy")
 def _axis(value, lo, step, n):
     """Cell index, fraction in the cell, and whether ``value`` lies on the axis."""
     x = (value - lo) / step
@@ -69,7 +81,7 @@ def _axis(value, lo, step, n):
     return i, fr, inside
 
 
-@njit(cache=True)
+@njit(cache=True, error_model="numpy")
 def _conductance(tables, t, gp, d, ta, tb):
     """Trilinear G [W/K] of table t and its slopes dG/dT_a, dG/dT_b [W/K^2]; ok False off the grid."""
     i, fi, oki = _axis(d, gp[0], gp[1], int(gp[2]))
@@ -95,7 +107,7 @@ def _conductance(tables, t, gp, d, ta, tb):
     return g, dj / gp[4], dk / gp[7], oki and okj and okk
 
 
-@njit(cache=True)
+@njit(cache=True, error_model="numpy")
 def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, f, dfa, dfb):
     """Link flows f [W] and their slopes at both ends [W/K]; False if a lookup left the grid."""
     ok = True
@@ -130,7 +142,7 @@ def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables
     return ok
 
 
-@njit(cache=True)
+@njit(cache=True, error_model="numpy")
 def _capacity_enthalpy(T, mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, C, H):
     """Heat capacity C [J/K] and enthalpy H relative to t_ref [J] of every node (CapacityTable's forms)."""
     for i in range(T.size):
@@ -142,14 +154,14 @@ def _capacity_enthalpy(T, mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_re
             x = min(max(T[i], lo), hi)
             c += seg_slope[s] * (x - lo)
             xr = min(max(t_ref, lo), hi)
-            ramp = 0.5 * (x - lo) ** 2 + (hi - lo) * max(T[i] - hi, 0.0)
-            ramp_ref = 0.5 * (xr - lo) ** 2 + (hi - lo) * max(t_ref - hi, 0.0)
+            ramp = 0.5 * (x - lo) * (x - lo) + (hi - lo) * max(T[i] - hi, 0.0)      # no pow() call
+            ramp_ref = 0.5 * (xr - lo) * (xr - lo) + (hi - lo) * max(t_ref - hi, 0.0)
             h += seg_slope[s] * (ramp - ramp_ref)
         C[i] = mass[i] * c
         H[i] = mass[i] * h
 
 
-@njit(cache=True)
+@njit(cache=True, error_model="numpy")
 def _lu_factor(A, piv):
     """In-place LU with partial pivoting of a small dense matrix; False if singular."""
     n = A.shape[0]
@@ -178,7 +190,7 @@ def _lu_factor(A, piv):
     return True
 
 
-@njit(cache=True)
+@njit(cache=True, error_model="numpy")
 def _lu_solve(A, piv, x):
     """Solve in place with the factors of ``_lu_factor``."""
     n = A.shape[0]
@@ -200,7 +212,7 @@ def _lu_solve(A, piv, x):
         x[r] = s / A[r, r]
 
 
-@njit(cache=True)
+@njit(cache=True, error_model="numpy")
 def _newton_matrix(A, C, coef, n, link_a, link_b, dfa, dfb):
     """A = diag(C) - coef D dF/dT: the stage matrix (D = -1 at a link's first end, +1 at its second)."""
     A[:, :] = 0.0
@@ -216,7 +228,7 @@ def _newton_matrix(A, C, coef, n, link_a, link_b, dfa, dfb):
             A[b, b] -= coef * dfb[l]
 
 
-@njit(cache=True)
+@njit(cache=True, error_model="numpy")
 def _residual(H, target, coef, f, n, link_a, link_b, R):
     """R = H(Y) - coef D f(Y) - target [J]."""
     for i in range(n):
@@ -228,7 +240,7 @@ def _residual(H, target, coef, f, n, link_a, link_b, R):
             R[b] -= coef * f[l]
 
 
-@njit(cache=True)
+@njit(cache=True, error_model="numpy")
 def _net_inflow(f, n, link_a, link_b, r):
     """r = D f, the net link flow into each node [W]."""
     r[:] = 0.0
@@ -242,17 +254,18 @@ def _net_inflow(f, n, link_a, link_b, r):
 ARGS_DOC = """Shapes: T0 (B, n); h (N,); bk_grid (N+1, nb); drv_grid (N+1, nd); bk_mid (N, nb); drv_mid (N, nd);
     qs_mid, qs_full (N, n_signals) source-signal integrals [J]; src (B, n, n_signals); par (B, L);
     tix (B, n_conv) index into tables (U, n_driver, n_node, n_boundary); mass, base (B, n);
-    seg_lo, seg_hi, seg_slope (B, S); record (N+1,) bool: grid points written to temps_out
+    seg_lo, seg_hi, seg_slope (B, S); max_newton: iterations per stage, 1 = linearised mode (no
+    convergence check); record (N+1,) bool: grid points written to temps_out
     (B, n_rec, n) and flows_out (B, n_rec, L); final, peak (B, n); peak_step (B, n) grid index of
     each peak; link_energy (B, L); heat_in, status, fail_step (B,); counts (B, 2) flow and matrix
     evaluations."""
 
 
-@njit(cache=True)
+@njit(cache=True, error_model="numpy")
 def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
                  link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
                  mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref,
-                 rtol, atol, record, temps_out, flows_out, final, peak, peak_step,
+                 rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
                  link_energy, heat_in, status, fail_step, counts):
     """Configuration b over the whole grid."""
     n = T0.shape[1]
@@ -334,7 +347,7 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
                 dvx = drv_grid[step + 1]
                 fx = f3
             converged = False
-            for it in range(MAX_NEWTON):
+            for it in range(max_newton):
                 inside = _flows(Y, bkx, dvx, n, link_a, link_b, kind, pb, conv_slot, conv_drv,
                                 tables, tb_ix, gp, fx, dfa, dfb)
                 nf += 1
@@ -357,7 +370,7 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
                         worst = e if math.isfinite(e) else math.inf
                 for i in range(n):
                     Y[i] += R[i]
-                if worst <= NEWTON_TOLERANCE:
+                if worst <= NEWTON_TOLERANCE or max_newton == 1:
                     converged = True
                     # the last correction is within the tolerance, so Y + dY is O(dY^2) from the root
                     # (Newton converges quadratically with the exact matrix): the flows of the accepted
@@ -367,6 +380,22 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
                         if link_b[l] < n:
                             dl += dfb[l] * R[link_b[l]]
                         fx[l] += dl
+                    if max_newton == 1:
+                        # linearised mode: one more chord correction with the exact enthalpy and
+                        # the linearised flows (no flow evaluation): removes the c(T) linearisation
+                        # error, which accumulates over a braking zone
+                        _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
+                        _residual(H, tgt, coef, fx, n, link_a, link_b, R)
+                        for i in range(n):
+                            R[i] = -R[i]
+                        _lu_solve(A, piv, R)
+                        for i in range(n):
+                            Y[i] += R[i]
+                        for l in range(L):
+                            dl = dfa[l] * R[link_a[l]]
+                            if link_b[l] < n:
+                                dl += dfb[l] * R[link_b[l]]
+                            fx[l] += dl
                     if not inside:
                         st = STATUS_OUTSIDE_GRID
                     break
@@ -405,31 +434,33 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
     counts[b, 1] = nj
 
 
-@njit(cache=True)
+@njit(cache=True, error_model="numpy", nogil=True)
 def advance(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
             link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
             mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref,
-            rtol, atol, record, temps_out, flows_out, final, peak, peak_step,
+            rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
             link_energy, heat_in, status, fail_step, counts):
-    """Integrate B configurations over the grid, one after another (see ``ARGS_DOC``)."""
+    """Integrate B configurations over the grid, one after another (see ``ARGS_DOC``).
+
+    Releases the GIL, so independent runs (the corners of a race) can go in parallel threads."""
     for b in range(T0.shape[0]):
         _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
                      link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
                      mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref,
-                     rtol, atol, record, temps_out, flows_out, final, peak, peak_step,
+                     rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
                      link_energy, heat_in, status, fail_step, counts)
 
 
-@njit(cache=True, parallel=True)
+@njit(cache=True, parallel=True, error_model="numpy")
 def advance_parallel(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
                      link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
                      mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref,
-                     rtol, atol, record, temps_out, flows_out, final, peak, peak_step,
+                     rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
                      link_energy, heat_in, status, fail_step, counts):
     """``advance`` with the configurations spread over the CPU cores (for batches)."""
     for b in prange(T0.shape[0]):
         _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
                      link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
                      mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref,
-                     rtol, atol, record, temps_out, flows_out, final, peak, peak_step,
+                     rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
                      link_energy, heat_in, status, fail_step, counts)
