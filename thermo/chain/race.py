@@ -3,8 +3,9 @@
 The chain (``thermo.chain.run``) rebuilds and re-solves each lap as its own segment, which is what
 pad wear and changing fuel need. For a throughput estimate of a long race (the issue-8 benchmark,
 a quick look at a 24-hour heat soak) every corner instead drives its first "laps" lap over and
-over: the lap's time grid and its sampled and integrated inputs are built once, and each lap is
-one call of the compiled kernel (``thermo.solver.kernel``) carrying the node temperatures on.
+over: the lap's time grid and its sampled and integrated inputs are built once, and one call of
+the compiled kernel (``thermo.solver.kernel``) drives all the laps, carrying the node temperatures
+on and keeping each lap's output peaks.
 
 Accuracy choices, both measured on the demo corner against the full-grid 'fast' solve (30 laps):
 - the graded grid (``thermo.solver.batch.graded_grid``): every sample while a source is on, the
@@ -57,7 +58,8 @@ class RepeatedLaps:
 
 def repeated_laps(model, net, schedule, initial_k, n_laps: int, settings: SolverSettings | None = None, *,
                   max_stride: int = DEFAULT_MAX_STRIDE, linearised: bool = True, phase: str = "race") -> RepeatedLaps:
-    """Drive one lap ``n_laps`` times, carrying the state, one kernel call per lap.
+    """Drive one lap ``n_laps`` times, carrying the state: one kernel call for all laps in the
+    linearised mode (the lap peaks of the outputs are kept inside the kernel), one a lap otherwise.
 
     Parameters
     ----------
@@ -84,20 +86,31 @@ def repeated_laps(model, net, schedule, initial_k, n_laps: int, settings: Solver
     a, b = schedule.t_start_s, schedule.t_end_s
     grid = graded_grid(schedule, net, a, b, 1, max_stride)
     inputs = kernel_inputs(net, schedule, grid)
+    T = np.asarray(initial_k, dtype=float)[None, :].copy()
+    if linearised:            # all laps in one kernel call, lap peaks of the outputs kept in the kernel
+        res, peaks = kn.run_laps(inputs, T, n_laps, model.output_weights.T)
+        _check(res, grid, phase)
+        return RepeatedLaps(tuple(model.output_nodes), peaks[0], res.final[0].copy(), int(grid.size - 1))
     record = np.ones(grid.size, dtype=bool)
     W = np.ascontiguousarray(model.output_weights.T)
-    T = np.asarray(initial_k, dtype=float)[None, :].copy()
     lap_peaks = np.empty((n_laps, W.shape[1]))
     for lap in range(n_laps):
-        res = kn.run(inputs, T, settings.rtol, settings.atol_k, record, linearised)
-        code = int(res.status[0])
-        if code != kernel.STATUS_OK:
-            t_fail = grid[min(int(res.fail_step[0]) + 1, grid.size - 1)]
-            raise SolveError(f"phase '{phase}': lap {lap + 1}: kernel status {code} at t = {t_fail:.6g} s "
-                             "(1 Newton, 2 left the conductance tables, 3 non-finite)")
+        res = kn.run(inputs, T, settings.rtol, settings.atol_k, record, False)
+        _check(res, grid, phase, lap)
         lap_peaks[lap] = (res.temps[0] @ W).max(axis=0)
         T = res.final
     return RepeatedLaps(tuple(model.output_nodes), lap_peaks, T[0].copy(), int(grid.size - 1))
+
+
+def _check(res, grid, phase: str, lap: int = 0) -> None:
+    """SolveError naming the lap and time of a failed kernel run (``fail_step`` may count over laps)."""
+    code = int(res.status[0])
+    if code != kernel.STATUS_OK:
+        n_steps = max(grid.size - 1, 1)
+        lap += int(res.fail_step[0]) // n_steps
+        t_fail = grid[min(int(res.fail_step[0]) % n_steps + 1, grid.size - 1)]
+        raise SolveError(f"phase '{phase}': lap {lap + 1}: kernel status {code} at t = {t_fail:.6g} s "
+                         "(1 Newton, 2 left the conductance tables, 3 non-finite)")
 
 
 def race(scenario, hours: float, settings: SolverSettings | None = None, *, threads: int | None = None,

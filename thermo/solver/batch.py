@@ -28,6 +28,7 @@ from thermo.network.elements import REFERENCE_TEMPERATURE_K
 from thermo.network.schedule import Schedule
 from thermo.network.tabulate import TabulatedConductance
 from thermo.solver import kernel
+from thermo.solver.elimination import EliminationPlan, elimination_plan
 from thermo.solver.segments import output_grid, span
 from thermo.solver.settings import SolverSettings
 
@@ -74,6 +75,7 @@ class KernelNetwork:
     axes, ``seg_start`` (n+1) capacity segments of each node. Per configuration: ``par`` (B, L) G
     [W/K], c [W/K^4] or convection multiplier [-]; ``tix`` (B, n_conv) table of each slot;
     ``mass``, ``base`` (B, n); ``seg_lo``, ``seg_hi``, ``seg_slope`` (B, S); ``src`` (B, n, n_signals).
+    ``plan`` the stage matrix's sparse elimination order (``thermo.solver.elimination``).
     """
 
     compiled: CompiledNetwork
@@ -93,6 +95,7 @@ class KernelNetwork:
     seg_hi: np.ndarray
     seg_slope: np.ndarray
     src: np.ndarray
+    plan: EliminationPlan
 
     @property
     def size(self) -> int:
@@ -103,26 +106,76 @@ class KernelNetwork:
     def n_nodes(self) -> int:
         return self.mass.shape[1]
 
+    def _arrays(self):
+        return (self.src, self.link_a, self.link_b, self.kind, self.par, self.conv_slot, self.conv_drv,
+                self.tables, self.tix, self.gp, self.mass, self.base, self.seg_start, self.seg_lo, self.seg_hi,
+                self.seg_slope, REFERENCE_TEMPERATURE_K, self.plan.order, self.plan.ptr, self.plan.nbr)
+
+    def _outputs(self, B, n_rec):
+        n, L = self.n_nodes, self.link_a.size
+        return (np.empty((B, n_rec, n)), np.empty((B, n_rec, L)), np.empty((B, n)), np.empty((B, n)),
+                np.zeros((B, n), dtype=np.int64))
+
     def run(self, inputs: KernelInputs, initial_k: np.ndarray, rtol: float, atol_k: float,
             record: np.ndarray, linearised: bool = False) -> KernelResult:
         """Call the kernel: ``initial_k`` (B, n) [K]; ``record`` (N+1,) grid points to keep;
-        ``linearised`` one Newton correction per stage (see ``thermo.solver.kernel``)."""
-        B, n, L = self.size, self.n_nodes, self.link_a.size
+        ``linearised`` one chord correction per stage and one with the exact enthalpy, no
+        convergence check (see ``thermo.solver.kernel``)."""
+        if linearised:
+            return self.run_laps(inputs, initial_k, 1, None, record)[0]
+        B, L = self.size, self.link_a.size
         n_rec = int(np.count_nonzero(record))
-        out = KernelResult(
-            temps=np.empty((B, n_rec, n)), flows=np.empty((B, n_rec, L)), final=np.empty((B, n)),
-            peak=np.empty((B, n)), peak_step=np.zeros((B, n), dtype=np.int64), link_energy=np.zeros((B, L)),
-            heat_in=np.zeros(B), status=np.zeros(B, dtype=np.int64), fail_step=np.zeros(B, dtype=np.int64),
-            counts=np.zeros((B, 2), dtype=np.int64))
+        temps, flows, final, peak, peak_step = self._outputs(B, n_rec)
+        out = KernelResult(temps, flows, final, peak, peak_step, link_energy=np.zeros((B, L)),
+                           heat_in=np.zeros(B), status=np.zeros(B, dtype=np.int64),
+                           fail_step=np.zeros(B, dtype=np.int64), counts=np.zeros((B, 2), dtype=np.int64))
         fn = kernel.advance_parallel if B > 1 else kernel.advance
-        fn(np.ascontiguousarray(initial_k, dtype=float), inputs.h, inputs.bk_grid, inputs.drv_grid,
-                       inputs.bk_mid, inputs.drv_mid, inputs.qs_mid, inputs.qs_full, self.src,
-                       self.link_a, self.link_b, self.kind, self.par, self.conv_slot, self.conv_drv, self.tables,
-                       self.tix, self.gp, self.mass, self.base, self.seg_start, self.seg_lo, self.seg_hi,
-                       self.seg_slope, REFERENCE_TEMPERATURE_K, float(rtol), float(atol_k),
-                       1 if linearised else kernel.MAX_NEWTON, np.ascontiguousarray(record, dtype=np.bool_), out.temps, out.flows, out.final, out.peak,
-                       out.peak_step, out.link_energy, out.heat_in, out.status, out.fail_step, out.counts)
+        fn(np.ascontiguousarray(initial_k, dtype=float), *_signal_arrays(inputs), *self._arrays(),
+           float(rtol), float(atol_k), kernel.MAX_NEWTON, np.ascontiguousarray(record, dtype=np.bool_),
+           out.temps, out.flows, out.final, out.peak, out.peak_step, out.link_energy, out.heat_in,
+           out.status, out.fail_step, out.counts)
         return out
+
+    def run_laps(self, inputs: KernelInputs, initial_k: np.ndarray, n_laps: int, output_weights,
+                 record: np.ndarray | None = None) -> tuple:
+        """The linearised kernel over the grid ``n_laps`` times, carrying the state (one call).
+
+        ``output_weights`` (n_nodes, n_outputs) or None: the outputs whose peak in every lap is
+        kept. Returns (KernelResult, lap_peaks (B, n_laps, n_outputs) [K]); ``record`` applies to
+        the last lap and ``peak_step`` counts steps over all laps."""
+        B, L = self.size, self.link_a.size
+        record = np.zeros(inputs.grid.size, dtype=bool) if record is None else record
+        w_ptr, w_node, w_val = _sparse_weights(output_weights)
+        lap_peaks = np.empty((B, n_laps, w_ptr.size - 1))
+        temps, flows, final, peak, peak_step = self._outputs(B, int(np.count_nonzero(record)))
+        out = KernelResult(temps, flows, final, peak, peak_step, link_energy=np.zeros((B, L)),
+                           heat_in=np.zeros(B), status=np.zeros(B, dtype=np.int64),
+                           fail_step=np.zeros(B, dtype=np.int64), counts=np.zeros((B, 2), dtype=np.int64))
+        fn = kernel.advance_linearised_parallel if B > 1 else kernel.advance_linearised
+        fn(np.ascontiguousarray(initial_k, dtype=float), *_signal_arrays(inputs), *self._arrays(),
+           int(n_laps), w_ptr, w_node, w_val, np.ascontiguousarray(record, dtype=np.bool_),
+           out.temps, out.flows, out.final, out.peak, out.peak_step, lap_peaks, out.link_energy,
+           out.heat_in, out.status, out.fail_step, out.counts)
+        return out, lap_peaks
+
+
+def _signal_arrays(inputs: KernelInputs) -> tuple:
+    return (inputs.h, inputs.bk_grid, inputs.drv_grid, inputs.bk_mid, inputs.drv_mid, inputs.qs_mid,
+            inputs.qs_full)
+
+
+def _sparse_weights(weights):
+    """(w_ptr, w_node, w_val) of an (n_nodes, n_outputs) weight matrix, column by column."""
+    if weights is None:
+        return np.zeros(1, dtype=np.int64), np.zeros(0, dtype=np.int64), np.zeros(0)
+    W = np.asarray(weights, dtype=float)
+    nodes, vals, ptr = [], [], [0]
+    for o in range(W.shape[1]):
+        nz = np.flatnonzero(W[:, o])
+        nodes.extend(nz)
+        vals.extend(W[nz, o])
+        ptr.append(len(nodes))
+    return np.asarray(ptr, dtype=np.int64), np.asarray(nodes, dtype=np.int64), np.asarray(vals, dtype=float)
 
 
 def _link_tables(net: CompiledNetwork):
@@ -199,7 +252,8 @@ def batch_network(networks) -> KernelNetwork:
         seg_lo=np.array([c.seg_lo for c in caps]).reshape(len(nets), -1),
         seg_hi=np.array([c.seg_hi for c in caps]).reshape(len(nets), -1),
         seg_slope=np.array([c.seg_slope for c in caps]).reshape(len(nets), -1),
-        src=np.ascontiguousarray(np.array([net.source_matrix for net in nets]).reshape(len(nets), n, -1)))
+        src=np.ascontiguousarray(np.array([net.source_matrix for net in nets]).reshape(len(nets), n, -1)),
+        plan=elimination_plan(n, [(a, b) for a, b in zip(net0.link_a, net0.link_b) if b < n]))
 
 
 def kernel_network(net: CompiledNetwork) -> KernelNetwork | None:

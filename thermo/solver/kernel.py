@@ -82,11 +82,8 @@ def _axis(value, lo, step, n):
 
 
 @njit(cache=True, error_model="numpy")
-def _conductance(tables, t, gp, d, ta, tb):
-    """Trilinear G [W/K] of table t and its slopes dG/dT_a, dG/dT_b [W/K^2]; ok False off the grid."""
-    i, fi, oki = _axis(d, gp[0], gp[1], int(gp[2]))
-    j, fj, okj = _axis(ta, gp[3], gp[4], int(gp[5]))
-    k, fk, okk = _axis(tb, gp[6], gp[7], int(gp[8]))
+def _trilinear(tables, t, gp, i, fi, j, fj, k, fk):
+    """G [W/K] of table t in cell (i, j, k) at fractions (fi, fj, fk), and dG/dT_a, dG/dT_b [W/K^2]."""
     a000 = tables[t, i, j, k]
     a001 = tables[t, i, j, k + 1]
     a010 = tables[t, i, j + 1, k]
@@ -104,13 +101,21 @@ def _conductance(tables, t, gp, d, ta, tb):
     g = gi * (gj * c00 + fj * c01) + fi * (gj * c10 + fj * c11)
     dj = gi * (c01 - c00) + fi * (c11 - c10)
     dk = gi * (gj * (a001 - a000) + fj * (a011 - a010)) + fi * (gj * (a101 - a100) + fj * (a111 - a110))
-    return g, dj / gp[4], dk / gp[7], oki and okj and okk
+    return g, dj / gp[4], dk / gp[7]
 
 
 @njit(cache=True, error_model="numpy")
-def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, f, dfa, dfb):
-    """Link flows f [W] and their slopes at both ends [W/K]; False if a lookup left the grid."""
+def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, f, dfa, dfb, ax_i, ax_f, ax_ok):
+    """Link flows f [W] and their slopes at both ends [W/K]; False if a lookup left the grid.
+
+    The table axis of each driver and of each boundary temperature is located once per call
+    (scratch ``ax_i``, ``ax_f``, ``ax_ok`` of length n_drivers + n_boundaries), not once per link."""
     ok = True
+    nd = drv.size
+    for d in range(nd):
+        ax_i[d], ax_f[d], ax_ok[d] = _axis(drv[d], gp[0], gp[1], int(gp[2]))
+    for q in range(bk.size):
+        ax_i[nd + q], ax_f[nd + q], ax_ok[nd + q] = _axis(bk[q], gp[6], gp[7], int(gp[8]))
     for l in range(link_a.size):
         a = link_a[l]
         b = link_b[l]
@@ -131,10 +136,19 @@ def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables
             dfb[l] = -4.0 * c * tb2 * tb
         else:
             s = conv_slot[l]
-            dv = drv[conv_drv[s]] if conv_drv[s] >= 0 else 0.0
-            g, ga, gb, inside = _conductance(tables, tix[s], gp, dv, ta, tb)
-            if not inside:
+            dd = conv_drv[s]
+            if dd >= 0:
+                i, fi, oki = ax_i[dd], ax_f[dd], ax_ok[dd]
+            else:
+                i, fi, oki = _axis(0.0, gp[0], gp[1], int(gp[2]))
+            j, fj, okj = _axis(ta, gp[3], gp[4], int(gp[5]))
+            if b >= n:
+                k, fk, okk = ax_i[nd + b - n], ax_f[nd + b - n], ax_ok[nd + b - n]
+            else:
+                k, fk, okk = _axis(tb, gp[6], gp[7], int(gp[8]))
+            if not (oki and okj and okk):
                 ok = False
+            g, ga, gb = _trilinear(tables, tix[s], gp, i, fi, j, fj, k, fk)
             m = par[l]
             f[l] = m * g * (ta - tb)
             dfa[l] = m * (g + ga * (ta - tb))
@@ -213,6 +227,70 @@ def _lu_solve(A, piv, x):
 
 
 @njit(cache=True, error_model="numpy")
+def _sparse_factor(A, C, order, ptr, nbr):
+    """In-place LU of A along an elimination plan (``thermo.solver.elimination``), no pivoting.
+
+    False if a pivot is not above half its node's heat capacity C [J/K] (for the diagonally
+    dominant stage matrix every pivot is at least C; anything less means dominance is lost and
+    the caller refactors densely with partial pivoting)."""
+    for k in range(order.size):
+        p = order[k]
+        d = A[p, p]
+        if not (d > 0.5 * C[p]):
+            return False
+        inv = 1.0 / d
+        for u in range(ptr[k], ptr[k + 1]):
+            r = nbr[u]
+            m = A[r, p] * inv
+            A[r, p] = m
+            for v in range(ptr[k], ptr[k + 1]):
+                c = nbr[v]
+                A[r, c] -= m * A[p, c]
+    return True
+
+
+@njit(cache=True, error_model="numpy")
+def _sparse_solve(A, order, ptr, nbr, x):
+    """Solve in place with the factors of ``_sparse_factor``."""
+    for k in range(order.size):
+        p = order[k]
+        xp = x[p]
+        for u in range(ptr[k], ptr[k + 1]):
+            r = nbr[u]
+            x[r] -= A[r, p] * xp
+    for k in range(order.size - 1, -1, -1):
+        p = order[k]
+        s = x[p]
+        for u in range(ptr[k], ptr[k + 1]):
+            s -= A[p, nbr[u]] * x[nbr[u]]
+        x[p] = s / A[p, p]
+
+
+FACTOR_FAILED, FACTOR_SPARSE, FACTOR_DENSE = 0, 1, 2
+
+
+@njit(cache=True, error_model="numpy")
+def _factor(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, piv):
+    """Build and factor the stage matrix: sparse plan first, dense pivoted LU if a pivot is weak."""
+    _newton_matrix(A, C, coef, n, link_a, link_b, dfa, dfb)
+    if _sparse_factor(A, C, order, ptr, nbr):
+        return FACTOR_SPARSE
+    _newton_matrix(A, C, coef, n, link_a, link_b, dfa, dfb)
+    if _lu_factor(A, piv):
+        return FACTOR_DENSE
+    return FACTOR_FAILED
+
+
+@njit(cache=True, error_model="numpy")
+def _solve(mode, A, piv, order, ptr, nbr, x):
+    """Solve with the factors of ``_factor`` (``mode`` its return value)."""
+    if mode == FACTOR_SPARSE:
+        _sparse_solve(A, order, ptr, nbr, x)
+    else:
+        _lu_solve(A, piv, x)
+
+
+@njit(cache=True, error_model="numpy")
 def _newton_matrix(A, C, coef, n, link_a, link_b, dfa, dfb):
     """A = diag(C) - coef D dF/dT: the stage matrix (D = -1 at a link's first end, +1 at its second)."""
     A[:, :] = 0.0
@@ -254,24 +332,54 @@ def _net_inflow(f, n, link_a, link_b, r):
 ARGS_DOC = """Shapes: T0 (B, n); h (N,); bk_grid (N+1, nb); drv_grid (N+1, nd); bk_mid (N, nb); drv_mid (N, nd);
     qs_mid, qs_full (N, n_signals) source-signal integrals [J]; src (B, n, n_signals); par (B, L);
     tix (B, n_conv) index into tables (U, n_driver, n_node, n_boundary); mass, base (B, n);
-    seg_lo, seg_hi, seg_slope (B, S); max_newton: iterations per stage, 1 = linearised mode (no
-    convergence check); record (N+1,) bool: grid points written to temps_out
-    (B, n_rec, n) and flows_out (B, n_rec, L); final, peak (B, n); peak_step (B, n) grid index of
-    each peak; link_energy (B, L); heat_in, status, fail_step (B,); counts (B, 2) flow and matrix
-    evaluations."""
+    seg_lo, seg_hi, seg_slope (B, S); order, ptr, nbr the elimination plan
+    (``thermo.solver.elimination``); max_newton: iterations per stage; record (N+1,) bool: grid
+    points written to temps_out (B, n_rec, n) and flows_out (B, n_rec, L); final, peak (B, n);
+    peak_step (B, n) grid index of each peak; link_energy (B, L); heat_in, status, fail_step (B,);
+    counts (B, 2) flow and matrix evaluations. The linearised entry points add n_laps (the grid is
+    driven that many times, carrying the state; record applies to the last lap, peak_step counts
+    steps over all laps, as does fail_step), w_ptr (n_out+1,), w_node, w_val (sparse output weights: output o is
+    sum of w_val[j] T[w_node[j]] for j in w_ptr[o]:w_ptr[o+1]) and lap_peaks (B, n_laps, n_out)."""
+
+
+@njit(cache=True, error_model="numpy")
+def _sources(b, step, src, qs_mid, qs_full, q2, q3):
+    """Heat into each node over the first stage and the whole step [J]; returns the step's total."""
+    n = q2.size
+    n_sig = qs_full.shape[1]
+    total = 0.0
+    for i in range(n):
+        s2 = 0.0
+        s3 = 0.0
+        for k in range(n_sig):
+            s2 += src[b, i, k] * qs_mid[step, k]
+            s3 += src[b, i, k] * qs_full[step, k]
+        q2[i] = s2
+        q3[i] = s3
+        total += s3
+    return total
+
+
+@njit(cache=True, error_model="numpy")
+def _flow_update(fx, dfa, dfb, dY, n, link_a, link_b):
+    """First-order change of the link flows for a state change dY [W]."""
+    for l in range(link_a.size):
+        dl = dfa[l] * dY[link_a[l]]
+        if link_b[l] < n:
+            dl += dfb[l] * dY[link_b[l]]
+        fx[l] += dl
 
 
 @njit(cache=True, error_model="numpy")
 def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
                  link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
-                 mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref,
+                 mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                  rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
                  link_energy, heat_in, status, fail_step, counts):
-    """Configuration b over the whole grid."""
+    """Configuration b over the whole grid, full Newton on each stage."""
     n = T0.shape[1]
     L = link_a.size
     N = h.size
-    n_sig = qs_full.shape[1]
     T = T0[b].copy()
     Y = np.empty(n)
     C = np.empty(n)
@@ -290,6 +398,10 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
     dfb = np.empty(L)
     q2 = np.empty(n)
     q3 = np.empty(n)
+    n_ax = drv_grid.shape[1] + bk_grid.shape[1]
+    ax_i = np.zeros(n_ax, dtype=np.int64)
+    ax_f = np.zeros(n_ax)
+    ax_ok = np.zeros(n_ax, dtype=np.bool_)
     pb = par[b]
     tb_ix = tix[b]
     mb, bb, lob, hib, slb = mass[b], base[b], seg_lo[b], seg_hi[b], seg_slope[b]
@@ -297,7 +409,7 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
     nj = 0
     st = STATUS_OK
     if not _flows(T, bk_grid[0], drv_grid[0], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                  tables, tb_ix, gp, f1, dfa, dfb):
+                  tables, tb_ix, gp, f1, dfa, dfb, ax_i, ax_f, ax_ok):
         st = STATUS_OUTSIDE_GRID
     rec = 0
     if record[0]:
@@ -314,19 +426,11 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
         coef = hn * D_WEIGHT
         _capacity_enthalpy(T, mb, bb, seg_start, lob, hib, slb, t_ref, C, H0)
         _net_inflow(f1, n, link_a, link_b, r1)
-        for i in range(n):
-            s2 = 0.0
-            s3 = 0.0
-            for k in range(n_sig):
-                s2 += src[b, i, k] * qs_mid[step, k]
-                s3 += src[b, i, k] * qs_full[step, k]
-            q2[i] = s2
-            q3[i] = s3
-            e_in += s3
+        e_in += _sources(b, step, src, qs_mid, qs_full, q2, q3)
         # the stage matrix at T_n (its slopes are those of the last flow evaluation) serves both stages
-        _newton_matrix(A, C, coef, n, link_a, link_b, dfa, dfb)
+        mode = _factor(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, piv)
         nj += 1
-        if not _lu_factor(A, piv):
+        if mode == FACTOR_FAILED:
             st = STATUS_NEWTON
             break
         have_lu = True
@@ -349,20 +453,20 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
             converged = False
             for it in range(max_newton):
                 inside = _flows(Y, bkx, dvx, n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                                tables, tb_ix, gp, fx, dfa, dfb)
+                                tables, tb_ix, gp, fx, dfa, dfb, ax_i, ax_f, ax_ok)
                 nf += 1
                 _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
                 _residual(H, tgt, coef, fx, n, link_a, link_b, R)
                 if not have_lu:
-                    _newton_matrix(A, C, coef, n, link_a, link_b, dfa, dfb)
+                    mode = _factor(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, piv)
                     nj += 1
-                    if not _lu_factor(A, piv):
+                    if mode == FACTOR_FAILED:
                         st = STATUS_NEWTON
                         break
                     have_lu = True
                 for i in range(n):
                     R[i] = -R[i]
-                _lu_solve(A, piv, R)
+                _solve(mode, A, piv, order, ptr, nbr, R)
                 worst = 0.0
                 for i in range(n):
                     e = abs(R[i]) / (atol + rtol * abs(Y[i] + R[i]))
@@ -370,32 +474,12 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
                         worst = e if math.isfinite(e) else math.inf
                 for i in range(n):
                     Y[i] += R[i]
-                if worst <= NEWTON_TOLERANCE or max_newton == 1:
+                if worst <= NEWTON_TOLERANCE:
                     converged = True
                     # the last correction is within the tolerance, so Y + dY is O(dY^2) from the root
                     # (Newton converges quadratically with the exact matrix): the flows of the accepted
                     # Y are those just evaluated plus their first-order change (error O(dY^2))
-                    for l in range(L):
-                        dl = dfa[l] * R[link_a[l]]
-                        if link_b[l] < n:
-                            dl += dfb[l] * R[link_b[l]]
-                        fx[l] += dl
-                    if max_newton == 1:
-                        # linearised mode: one more chord correction with the exact enthalpy and
-                        # the linearised flows (no flow evaluation): removes the c(T) linearisation
-                        # error, which accumulates over a braking zone
-                        _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
-                        _residual(H, tgt, coef, fx, n, link_a, link_b, R)
-                        for i in range(n):
-                            R[i] = -R[i]
-                        _lu_solve(A, piv, R)
-                        for i in range(n):
-                            Y[i] += R[i]
-                        for l in range(L):
-                            dl = dfa[l] * R[link_a[l]]
-                            if link_b[l] < n:
-                                dl += dfb[l] * R[link_b[l]]
-                            fx[l] += dl
+                    _flow_update(fx, dfa, dfb, R, n, link_a, link_b)
                     if not inside:
                         st = STATUS_OUTSIDE_GRID
                     break
@@ -434,10 +518,164 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
     counts[b, 1] = nj
 
 
+@njit(cache=True, error_model="numpy")
+def _linear_stage(Y, H, tgt, coef, fx, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b):
+    """One chord correction of a stage: R = -(H(Y) - coef D f - target) solved, Y and f updated."""
+    _residual(H, tgt, coef, fx, n, link_a, link_b, R)
+    for i in range(n):
+        R[i] = -R[i]
+    _solve(mode, A, piv, order, ptr, nbr, R)
+    for i in range(n):
+        Y[i] += R[i]
+    _flow_update(fx, dfa, dfb, R, n, link_a, link_b)
+
+
+@njit(cache=True, error_model="numpy")
+def _outputs_peak(T, w_ptr, w_node, w_val, lap_peak):
+    """Raise each output's running peak to its value at T (outputs are weighted node sums) [K]."""
+    for o in range(w_ptr.size - 1):
+        v = 0.0
+        for j in range(w_ptr[o], w_ptr[o + 1]):
+            v += w_val[j] * T[w_node[j]]
+        if v > lap_peak[o]:
+            lap_peak[o] = v
+
+
+@njit(cache=True, error_model="numpy")
+def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                            link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                            mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
+                            n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
+                            peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
+    """Configuration b driven over the grid ``n_laps`` times in the linearised mode.
+
+    Each stage: the flows at its first guess (T_n for Y2, Y2 for Y3) with the matrix at T_n, one
+    chord correction, then one more with the exact enthalpy and the linearised flows (see the
+    module notes). The first stage's guess is T_n, whose enthalpy H0 is already known."""
+    n = T0.shape[1]
+    L = link_a.size
+    N = h.size
+    n_out = w_ptr.size - 1
+    T = T0[b].copy()
+    Y = np.empty(n)
+    C = np.empty(n)
+    H = np.empty(n)
+    H0 = np.empty(n)
+    R = np.empty(n)
+    r1 = np.empty(n)
+    r2 = np.empty(n)
+    tgt = np.empty(n)
+    A = np.empty((n, n))
+    piv = np.zeros(n, dtype=np.int64)
+    f1 = np.empty(L)
+    f2 = np.empty(L)
+    f3 = np.empty(L)
+    dfa = np.empty(L)
+    dfb = np.empty(L)
+    q2 = np.empty(n)
+    q3 = np.empty(n)
+    lp = np.empty(max(n_out, 1))
+    n_ax = drv_grid.shape[1] + bk_grid.shape[1]
+    ax_i = np.zeros(n_ax, dtype=np.int64)
+    ax_f = np.zeros(n_ax)
+    ax_ok = np.zeros(n_ax, dtype=np.bool_)
+    pb = par[b]
+    tb_ix = tix[b]
+    mb, bb, lob, hib, slb = mass[b], base[b], seg_lo[b], seg_hi[b], seg_slope[b]
+    nf = 0
+    nj = 0
+    st = STATUS_OK
+    for i in range(n):
+        peak[b, i] = T[i]
+        peak_step[b, i] = 0
+    e_in = 0.0
+    done = 0
+    step = 0
+    for lap in range(n_laps):
+        last = lap == n_laps - 1
+        if not _flows(T, bk_grid[0], drv_grid[0], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
+                      tables, tb_ix, gp, f1, dfa, dfb, ax_i, ax_f, ax_ok):
+            st = STATUS_OUTSIDE_GRID
+        nf += 1
+        rec = 0
+        if last and record[0]:
+            temps_out[b, rec, :] = T
+            flows_out[b, rec, :] = f1
+            rec += 1
+        for o in range(n_out):
+            lp[o] = -math.inf
+        _outputs_peak(T, w_ptr, w_node, w_val, lp)
+        step = 0
+        while step < N and st == STATUS_OK:
+            hn = h[step]
+            coef = hn * D_WEIGHT
+            _capacity_enthalpy(T, mb, bb, seg_start, lob, hib, slb, t_ref, C, H0)
+            _net_inflow(f1, n, link_a, link_b, r1)
+            e_in += _sources(b, step, src, qs_mid, qs_full, q2, q3)
+            mode = _factor(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, piv)
+            nj += 1
+            if mode == FACTOR_FAILED:
+                st = STATUS_NEWTON
+                break
+            # stage 1 (TR), from Y = T_n
+            for i in range(n):
+                tgt[i] = H0[i] + coef * r1[i] + q2[i]
+                Y[i] = T[i]
+            inside = _flows(Y, bk_mid[step], drv_mid[step], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
+                            tables, tb_ix, gp, f2, dfa, dfb, ax_i, ax_f, ax_ok)
+            _linear_stage(Y, H0, tgt, coef, f2, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
+            _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
+            _linear_stage(Y, H, tgt, coef, f2, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
+            # stage 2 (BDF2), from Y = Y2
+            _net_inflow(f2, n, link_a, link_b, r2)
+            for i in range(n):
+                tgt[i] = H0[i] + hn * W_WEIGHT * (r1[i] + r2[i]) + q3[i]
+            inside2 = _flows(Y, bk_grid[step + 1], drv_grid[step + 1], n, link_a, link_b, kind, pb, conv_slot,
+                             conv_drv, tables, tb_ix, gp, f3, dfa, dfb, ax_i, ax_f, ax_ok)
+            nf += 2
+            _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
+            _linear_stage(Y, H, tgt, coef, f3, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
+            _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
+            _linear_stage(Y, H, tgt, coef, f3, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
+            if not (inside and inside2):
+                st = STATUS_OUTSIDE_GRID
+                break
+            for i in range(n):
+                if not math.isfinite(Y[i]):
+                    st = STATUS_NONFINITE
+            if st != STATUS_OK:
+                break
+            for l in range(L):
+                link_energy[b, l] += hn * (W_WEIGHT * (f1[l] + f2[l]) + D_WEIGHT * f3[l])
+                f1[l] = f3[l]
+            for i in range(n):
+                T[i] = Y[i]
+                if T[i] > peak[b, i]:
+                    peak[b, i] = T[i]
+                    peak_step[b, i] = done + step + 1
+            _outputs_peak(T, w_ptr, w_node, w_val, lp)
+            step += 1
+            if last and record[step]:
+                temps_out[b, rec, :] = T
+                flows_out[b, rec, :] = f1
+                rec += 1
+        if st != STATUS_OK:
+            break
+        for o in range(n_out):
+            lap_peaks[b, lap, o] = lp[o]
+        done += N
+    final[b, :] = T
+    heat_in[b] = e_in
+    status[b] = st
+    fail_step[b] = done + step
+    counts[b, 0] = nf
+    counts[b, 1] = nj
+
+
 @njit(cache=True, error_model="numpy", nogil=True)
 def advance(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
             link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
-            mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref,
+            mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
             rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
             link_energy, heat_in, status, fail_step, counts):
     """Integrate B configurations over the grid, one after another (see ``ARGS_DOC``).
@@ -446,7 +684,7 @@ def advance(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
     for b in range(T0.shape[0]):
         _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
                      link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
-                     mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref,
+                     mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                      rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
                      link_energy, heat_in, status, fail_step, counts)
 
@@ -454,13 +692,43 @@ def advance(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
 @njit(cache=True, parallel=True, error_model="numpy")
 def advance_parallel(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
                      link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
-                     mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref,
+                     mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                      rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
                      link_energy, heat_in, status, fail_step, counts):
     """``advance`` with the configurations spread over the CPU cores (for batches)."""
     for b in prange(T0.shape[0]):
         _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
                      link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
-                     mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref,
+                     mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                      rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
                      link_energy, heat_in, status, fail_step, counts)
+
+
+@njit(cache=True, error_model="numpy", nogil=True)
+def advance_linearised(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                       link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                       mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
+                       n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
+                       peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
+    """The linearised mode for B configurations, one after another (see ``ARGS_DOC``); releases the GIL."""
+    for b in range(T0.shape[0]):
+        _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                                mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
+                                n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
+                                peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts)
+
+
+@njit(cache=True, parallel=True, error_model="numpy")
+def advance_linearised_parallel(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                                mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
+                                n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
+                                peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
+    """``advance_linearised`` with the configurations spread over the CPU cores."""
+    for b in prange(T0.shape[0]):
+        _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                                mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
+                                n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
+                                peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts)
