@@ -59,7 +59,7 @@ def elimination_plan(n: int, pairs) -> EliminationPlan:
         nbr.extend(nb)
         ptr.append(len(nbr))
         for a in nb:                       # eliminating k joins all its neighbours (fill-in)
-            adj[a].discard(k)
+            adj[a] -= {k}
             adj[a].update(x for x in nb if x != a)
         left.remove(k)
         adj[k] = set()

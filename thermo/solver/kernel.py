@@ -22,16 +22,15 @@ Convergence: the correction |dY_i| <= 0.1 (atol_k + rtol |Y_i|) (the accepted Y 
 from the stage root: Newton with the exact matrix converges quadratically). Link energies are accumulated with the
 scheme's weights, h (w f1 + w f2 + d f3), so heat in = stored + lost to the Newton residual.
 
-Linearised mode (``max_newton`` = 1): each stage takes exactly one simplified-Newton correction
-from its first guess (T_n for Y2, Y2 for Y3) with the matrix at T_n, then one more chord correction
-with the exact enthalpy H(Y) and the linearised flows (no flow evaluation), and accepts the result
-without a convergence check: a linearly implicit (Rosenbrock-like) TR-BDF2 with two flow
-evaluations and one LU per step. Its extra error is that of linearising radiation and G(T) once
-per stage (measured: peaks within 0.005 K of full Newton on the demo corner); without the enthalpy
-correction the c(T) linearisation error builds up over a braking zone (0.6 K measured). The energy
-balance closes to that linearisation error (below 1e-5 relative on the demo), not to round-off.
-It is opt-in, for throughput runs (batches, races, the settled lap's coarse map); 'fast' itself
-uses full Newton.
+The stage matrix is factored along a sparse elimination plan (``thermo.solver.elimination``:
+minimum-degree order, no pivoting, the reciprocal pivots kept on the diagonal), with dense LU and
+partial pivoting as the fallback when a pivot is weak. Table axes of the drivers and boundary
+temperatures are located once per flow evaluation, not once per link.
+
+The linearised mode for throughput runs (batches, races, the settled lap's coarse map) is in
+``thermo.solver.kernel_linearised`` (one configuration) and ``thermo.solver.kernel_lanes``
+(configurations side by side); they share this module's building blocks. 'fast' itself is the
+full-Newton scheme here.
 
 Status codes per configuration: 0 success, 1 Newton did not converge, 2 a convection lookup fell
 outside its table grid, 3 non-finite temperatures; ``fail_step`` holds the step index.
@@ -64,9 +63,9 @@ STATUS_OK, STATUS_NEWTON, STATUS_OUTSIDE_GRID, STATUS_NONFINITE = 0, 1, 2, 3
 
 
 @njit(cache=True, error_model="numpy")
-def _axis(value, lo, step, n):
-    """Cell index, fraction in the cell, and whether ``value`` lies on the axis."""
-    x = (value - lo) / step
+def _axis(value, lo, inv_step, n):
+    """Cell index, fraction in the cell, and whether ``value`` lies on the axis (1/step given)."""
+    x = (value - lo) * inv_step
     inside = x >= 0.0 and x <= n - 1
     i = int(math.floor(x))
     if i < 0:
@@ -82,7 +81,7 @@ def _axis(value, lo, step, n):
 
 
 @njit(cache=True, error_model="numpy")
-def _trilinear(tables, t, gp, i, fi, j, fj, k, fk):
+def _trilinear(tables, t, inv_j, inv_k, i, fi, j, fj, k, fk):
     """G [W/K] of table t in cell (i, j, k) at fractions (fi, fj, fk), and dG/dT_a, dG/dT_b [W/K^2]."""
     a000 = tables[t, i, j, k]
     a001 = tables[t, i, j, k + 1]
@@ -101,7 +100,7 @@ def _trilinear(tables, t, gp, i, fi, j, fj, k, fk):
     g = gi * (gj * c00 + fj * c01) + fi * (gj * c10 + fj * c11)
     dj = gi * (c01 - c00) + fi * (c11 - c10)
     dk = gi * (gj * (a001 - a000) + fj * (a011 - a010)) + fi * (gj * (a101 - a100) + fj * (a111 - a110))
-    return g, dj / gp[4], dk / gp[7]
+    return g, dj * inv_j, dk * inv_k
 
 
 @njit(cache=True, error_model="numpy")
@@ -112,10 +111,11 @@ def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables
     (scratch ``ax_i``, ``ax_f``, ``ax_ok`` of length n_drivers + n_boundaries), not once per link."""
     ok = True
     nd = drv.size
+    inv_i, inv_j, inv_k = 1.0 / gp[1], 1.0 / gp[4], 1.0 / gp[7]
     for d in range(nd):
-        ax_i[d], ax_f[d], ax_ok[d] = _axis(drv[d], gp[0], gp[1], int(gp[2]))
+        ax_i[d], ax_f[d], ax_ok[d] = _axis(drv[d], gp[0], inv_i, int(gp[2]))
     for q in range(bk.size):
-        ax_i[nd + q], ax_f[nd + q], ax_ok[nd + q] = _axis(bk[q], gp[6], gp[7], int(gp[8]))
+        ax_i[nd + q], ax_f[nd + q], ax_ok[nd + q] = _axis(bk[q], gp[6], inv_k, int(gp[8]))
     for l in range(link_a.size):
         a = link_a[l]
         b = link_b[l]
@@ -140,15 +140,15 @@ def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables
             if dd >= 0:
                 i, fi, oki = ax_i[dd], ax_f[dd], ax_ok[dd]
             else:
-                i, fi, oki = _axis(0.0, gp[0], gp[1], int(gp[2]))
-            j, fj, okj = _axis(ta, gp[3], gp[4], int(gp[5]))
+                i, fi, oki = _axis(0.0, gp[0], inv_i, int(gp[2]))
+            j, fj, okj = _axis(ta, gp[3], inv_j, int(gp[5]))
             if b >= n:
                 k, fk, okk = ax_i[nd + b - n], ax_f[nd + b - n], ax_ok[nd + b - n]
             else:
-                k, fk, okk = _axis(tb, gp[6], gp[7], int(gp[8]))
+                k, fk, okk = _axis(tb, gp[6], inv_k, int(gp[8]))
             if not (oki and okj and okk):
                 ok = False
-            g, ga, gb = _trilinear(tables, tix[s], gp, i, fi, j, fj, k, fk)
+            g, ga, gb = _trilinear(tables, tix[s], inv_j, inv_k, i, fi, j, fj, k, fk)
             m = par[l]
             f[l] = m * g * (ta - tb)
             dfa[l] = m * (g + ga * (ta - tb))
@@ -228,7 +228,8 @@ def _lu_solve(A, piv, x):
 
 @njit(cache=True, error_model="numpy")
 def _sparse_factor(A, C, order, ptr, nbr):
-    """In-place LU of A along an elimination plan (``thermo.solver.elimination``), no pivoting.
+    """In-place LU of A along an elimination plan (``thermo.solver.elimination``), no pivoting;
+    the diagonal is left holding the reciprocal pivots (the solve multiplies, never divides).
 
     False if a pivot is not above half its node's heat capacity C [J/K] (for the diagonally
     dominant stage matrix every pivot is at least C; anything less means dominance is lost and
@@ -239,6 +240,7 @@ def _sparse_factor(A, C, order, ptr, nbr):
         if not (d > 0.5 * C[p]):
             return False
         inv = 1.0 / d
+        A[p, p] = inv
         for u in range(ptr[k], ptr[k + 1]):
             r = nbr[u]
             m = A[r, p] * inv
@@ -263,7 +265,7 @@ def _sparse_solve(A, order, ptr, nbr, x):
         s = x[p]
         for u in range(ptr[k], ptr[k + 1]):
             s -= A[p, nbr[u]] * x[nbr[u]]
-        x[p] = s / A[p, p]
+        x[p] = s * A[p, p]
 
 
 FACTOR_FAILED, FACTOR_SPARSE, FACTOR_DENSE = 0, 1, 2
@@ -510,164 +512,14 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
             temps_out[b, rec, :] = T
             flows_out[b, rec, :] = f1
             rec += 1
+    if st == STATUS_OK and not _flows(T, bk_grid[N], drv_grid[N], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
+                                      tables, tb_ix, gp, f3, dfa, dfb, ax_i, ax_f, ax_ok):
+        st = STATUS_OUTSIDE_GRID        # the accepted end state itself lies off a table
+        step = N - 1
     final[b, :] = T
     heat_in[b] = e_in
     status[b] = st
     fail_step[b] = step
-    counts[b, 0] = nf
-    counts[b, 1] = nj
-
-
-@njit(cache=True, error_model="numpy")
-def _linear_stage(Y, H, tgt, coef, fx, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b):
-    """One chord correction of a stage: R = -(H(Y) - coef D f - target) solved, Y and f updated."""
-    _residual(H, tgt, coef, fx, n, link_a, link_b, R)
-    for i in range(n):
-        R[i] = -R[i]
-    _solve(mode, A, piv, order, ptr, nbr, R)
-    for i in range(n):
-        Y[i] += R[i]
-    _flow_update(fx, dfa, dfb, R, n, link_a, link_b)
-
-
-@njit(cache=True, error_model="numpy")
-def _outputs_peak(T, w_ptr, w_node, w_val, lap_peak):
-    """Raise each output's running peak to its value at T (outputs are weighted node sums) [K]."""
-    for o in range(w_ptr.size - 1):
-        v = 0.0
-        for j in range(w_ptr[o], w_ptr[o + 1]):
-            v += w_val[j] * T[w_node[j]]
-        if v > lap_peak[o]:
-            lap_peak[o] = v
-
-
-@njit(cache=True, error_model="numpy")
-def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                            link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
-                            mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                            n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                            peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
-    """Configuration b driven over the grid ``n_laps`` times in the linearised mode.
-
-    Each stage: the flows at its first guess (T_n for Y2, Y2 for Y3) with the matrix at T_n, one
-    chord correction, then one more with the exact enthalpy and the linearised flows (see the
-    module notes). The first stage's guess is T_n, whose enthalpy H0 is already known."""
-    n = T0.shape[1]
-    L = link_a.size
-    N = h.size
-    n_out = w_ptr.size - 1
-    T = T0[b].copy()
-    Y = np.empty(n)
-    C = np.empty(n)
-    H = np.empty(n)
-    H0 = np.empty(n)
-    R = np.empty(n)
-    r1 = np.empty(n)
-    r2 = np.empty(n)
-    tgt = np.empty(n)
-    A = np.empty((n, n))
-    piv = np.zeros(n, dtype=np.int64)
-    f1 = np.empty(L)
-    f2 = np.empty(L)
-    f3 = np.empty(L)
-    dfa = np.empty(L)
-    dfb = np.empty(L)
-    q2 = np.empty(n)
-    q3 = np.empty(n)
-    lp = np.empty(max(n_out, 1))
-    n_ax = drv_grid.shape[1] + bk_grid.shape[1]
-    ax_i = np.zeros(n_ax, dtype=np.int64)
-    ax_f = np.zeros(n_ax)
-    ax_ok = np.zeros(n_ax, dtype=np.bool_)
-    pb = par[b]
-    tb_ix = tix[b]
-    mb, bb, lob, hib, slb = mass[b], base[b], seg_lo[b], seg_hi[b], seg_slope[b]
-    nf = 0
-    nj = 0
-    st = STATUS_OK
-    for i in range(n):
-        peak[b, i] = T[i]
-        peak_step[b, i] = 0
-    e_in = 0.0
-    done = 0
-    step = 0
-    for lap in range(n_laps):
-        last = lap == n_laps - 1
-        if not _flows(T, bk_grid[0], drv_grid[0], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                      tables, tb_ix, gp, f1, dfa, dfb, ax_i, ax_f, ax_ok):
-            st = STATUS_OUTSIDE_GRID
-        nf += 1
-        rec = 0
-        if last and record[0]:
-            temps_out[b, rec, :] = T
-            flows_out[b, rec, :] = f1
-            rec += 1
-        for o in range(n_out):
-            lp[o] = -math.inf
-        _outputs_peak(T, w_ptr, w_node, w_val, lp)
-        step = 0
-        while step < N and st == STATUS_OK:
-            hn = h[step]
-            coef = hn * D_WEIGHT
-            _capacity_enthalpy(T, mb, bb, seg_start, lob, hib, slb, t_ref, C, H0)
-            _net_inflow(f1, n, link_a, link_b, r1)
-            e_in += _sources(b, step, src, qs_mid, qs_full, q2, q3)
-            mode = _factor(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, piv)
-            nj += 1
-            if mode == FACTOR_FAILED:
-                st = STATUS_NEWTON
-                break
-            # stage 1 (TR), from Y = T_n
-            for i in range(n):
-                tgt[i] = H0[i] + coef * r1[i] + q2[i]
-                Y[i] = T[i]
-            inside = _flows(Y, bk_mid[step], drv_mid[step], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                            tables, tb_ix, gp, f2, dfa, dfb, ax_i, ax_f, ax_ok)
-            _linear_stage(Y, H0, tgt, coef, f2, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
-            _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
-            _linear_stage(Y, H, tgt, coef, f2, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
-            # stage 2 (BDF2), from Y = Y2
-            _net_inflow(f2, n, link_a, link_b, r2)
-            for i in range(n):
-                tgt[i] = H0[i] + hn * W_WEIGHT * (r1[i] + r2[i]) + q3[i]
-            inside2 = _flows(Y, bk_grid[step + 1], drv_grid[step + 1], n, link_a, link_b, kind, pb, conv_slot,
-                             conv_drv, tables, tb_ix, gp, f3, dfa, dfb, ax_i, ax_f, ax_ok)
-            nf += 2
-            _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
-            _linear_stage(Y, H, tgt, coef, f3, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
-            _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
-            _linear_stage(Y, H, tgt, coef, f3, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
-            if not (inside and inside2):
-                st = STATUS_OUTSIDE_GRID
-                break
-            for i in range(n):
-                if not math.isfinite(Y[i]):
-                    st = STATUS_NONFINITE
-            if st != STATUS_OK:
-                break
-            for l in range(L):
-                link_energy[b, l] += hn * (W_WEIGHT * (f1[l] + f2[l]) + D_WEIGHT * f3[l])
-                f1[l] = f3[l]
-            for i in range(n):
-                T[i] = Y[i]
-                if T[i] > peak[b, i]:
-                    peak[b, i] = T[i]
-                    peak_step[b, i] = done + step + 1
-            _outputs_peak(T, w_ptr, w_node, w_val, lp)
-            step += 1
-            if last and record[step]:
-                temps_out[b, rec, :] = T
-                flows_out[b, rec, :] = f1
-                rec += 1
-        if st != STATUS_OK:
-            break
-        for o in range(n_out):
-            lap_peaks[b, lap, o] = lp[o]
-        done += N
-    final[b, :] = T
-    heat_in[b] = e_in
-    status[b] = st
-    fail_step[b] = done + step
     counts[b, 0] = nf
     counts[b, 1] = nj
 
@@ -702,33 +554,3 @@ def advance_parallel(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full,
                      mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                      rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
                      link_energy, heat_in, status, fail_step, counts)
-
-
-@njit(cache=True, error_model="numpy", nogil=True)
-def advance_linearised(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                       link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
-                       mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                       n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                       peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
-    """The linearised mode for B configurations, one after another (see ``ARGS_DOC``); releases the GIL."""
-    for b in range(T0.shape[0]):
-        _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
-                                mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                                n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                                peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts)
-
-
-@njit(cache=True, parallel=True, error_model="numpy")
-def advance_linearised_parallel(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
-                                mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                                n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                                peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
-    """``advance_linearised`` with the configurations spread over the CPU cores."""
-    for b in prange(T0.shape[0]):
-        _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
-                                mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                                n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                                peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts)

@@ -1,0 +1,419 @@
+"""The linearised TR-BDF2 kernel with configurations side by side in lanes (vectorised over a batch).
+
+Same scheme, same arithmetic as ``thermo.solver.kernel_linearised`` (see that module for the
+method), but ``LANES`` configurations advance together: every per-node and per-link
+quantity is an array (..., LANES) whose innermost loop runs over the configurations, which the
+compiler turns into SIMD instructions, and the work shared by all configurations of a batch (the
+schedule's driver and boundary-temperature table axes, the elimination plan, the loop control) is
+done once per block instead of once per configuration. Blocks go to the CPU cores in parallel.
+
+A lane that fails (a weak pivot, a state off the conductance tables, non-finite temperatures) is
+only flagged here (``lane_flag``): its numbers are not used, and the caller reruns that
+configuration alone with the one-configuration kernel, which has the dense-LU fallback and the
+exact failure report. The other lanes of its block are unaffected (lanes never mix).
+
+Array shapes (K blocks of LANES configurations): T0 (K, n, W); par (K, L, W); tix (K, n_conv, W);
+mass, base (K, n, W); seg_lo, seg_hi, seg_slope (K, S, W); src (K, n, n_signals, W); outputs final,
+peak (K, n, W), peak_step (K, n, W), lap_peaks (K, n_laps, n_out, W), link_energy (K, L, W),
+heat_in, lane_flag, counts (K, W), temps_out (K, n_rec, n, W), flows_out (K, n_rec, L, W).
+Shared arrays are those of ``thermo.solver.kernel`` (``ARGS_DOC``).
+"""
+from __future__ import annotations
+
+import math
+
+import numpy as np
+from numba import njit, prange
+
+from thermo.solver.kernel import D_WEIGHT, W_WEIGHT, _axis
+
+LANES = 64       # configurations per block: one AVX-512 register of doubles, two AVX2 registers
+
+
+@njit(cache=True, error_model="numpy")
+def _flows_lanes(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                 f, dfa, dfb, flag):
+    """Link flows and slopes (L, W) of every lane at T (n, W); flag[c] set where a lookup left its table.
+
+    ``tables`` is the kernel's (U, n_driver, n_node, n_boundary) table array flattened (C order)."""
+    W = T.shape[1]
+    n_i = int(gp[2])
+    n_j = int(gp[5])
+    n_k = int(gp[8])
+    s_i = n_j * n_k
+    lo_j = gp[3]
+    top_j = n_j - 1.0
+    inv_j = 1.0 / gp[4]           # multiplications by reciprocals: no division in the lane loop
+    inv_k = 1.0 / gp[7]
+    for l in range(link_a.size):
+        a = link_a[l]
+        b = link_b[l]
+        kd = kind[l]
+        on_node = b < n
+        tbk = 0.0 if on_node else bk[b - n]
+        if kd == 0:
+            for c in range(W):
+                tb = T[b, c] if on_node else tbk
+                g = par[l, c]
+                f[l, c] = g * (T[a, c] - tb)
+                dfa[l, c] = g
+                dfb[l, c] = -g
+        elif kd == 1:
+            for c in range(W):
+                ta = T[a, c]
+                tb = T[b, c] if on_node else tbk
+                cr = par[l, c]
+                ta2 = ta * ta
+                tb2 = tb * tb
+                f[l, c] = cr * (ta2 * ta2 - tb2 * tb2)
+                dfa[l, c] = 4.0 * cr * ta2 * ta
+                dfb[l, c] = -4.0 * cr * tb2 * tb
+        else:
+            s = conv_slot[l]
+            dd = conv_drv[s]
+            i, fi, oki = _axis(drv[dd] if dd >= 0 else 0.0, gp[0], 1.0 / gp[1], n_i)
+            kb, fkb, okb = _axis(tbk, gp[6], inv_k, n_k)
+            gi = 1.0 - fi
+            for c in range(W):
+                ta = T[a, c]
+                x = (ta - lo_j) * inv_j
+                if not (x >= 0.0 and x <= top_j):
+                    flag[c] = True
+                x = x if x > 0.0 else 0.0
+                x = x if x < top_j else top_j
+                j = min(int(x), n_j - 2)
+                fj = x - j
+                if on_node:
+                    tb = T[b, c]
+                    k, fk, okk = _axis(tb, gp[6], inv_k, n_k)
+                    if not okk:
+                        flag[c] = True
+                else:
+                    tb = tbk
+                    k, fk = kb, fkb
+                if not (oki and (on_node or okb)):
+                    flag[c] = True
+                o = ((tix[s, c] * n_i + i) * n_j + j) * n_k + k
+                a000 = tables[o]
+                a001 = tables[o + 1]
+                a010 = tables[o + n_k]
+                a011 = tables[o + n_k + 1]
+                a100 = tables[o + s_i]
+                a101 = tables[o + s_i + 1]
+                a110 = tables[o + s_i + n_k]
+                a111 = tables[o + s_i + n_k + 1]
+                c00 = a000 + fk * (a001 - a000)
+                c01 = a010 + fk * (a011 - a010)
+                c10 = a100 + fk * (a101 - a100)
+                c11 = a110 + fk * (a111 - a110)
+                gj = 1.0 - fj
+                g = gi * (gj * c00 + fj * c01) + fi * (gj * c10 + fj * c11)
+                ga = (gi * (c01 - c00) + fi * (c11 - c10)) * inv_j
+                gb = (gi * (gj * (a001 - a000) + fj * (a011 - a010))
+                      + fi * (gj * (a101 - a100) + fj * (a111 - a110))) * inv_k
+                m = par[l, c]
+                dT = ta - tb
+                f[l, c] = m * g * dT
+                dfa[l, c] = m * (g + ga * dT)
+                dfb[l, c] = m * (-g + gb * dT)
+
+
+@njit(cache=True, error_model="numpy")
+def _reference_ramps(seg_lo, seg_hi, t_ref, href):
+    """Each capacity segment's ramp at the reference temperature (S, W), constant over a run."""
+    W = seg_lo.shape[1]
+    for s in range(seg_lo.shape[0]):
+        for c in range(W):
+            lo = seg_lo[s, c]
+            hi = seg_hi[s, c]
+            xr = min(max(t_ref, lo), hi)
+            href[s, c] = 0.5 * (xr - lo) * (xr - lo) + (hi - lo) * max(t_ref - hi, 0.0)
+
+
+@njit(cache=True, error_model="numpy")
+def _capacity_lanes(T, mass, base, seg_start, seg_lo, seg_hi, seg_slope, href, t_ref, C, H, with_c):
+    """Enthalpy H [J] and, if ``with_c``, heat capacity C [J/K] (n, W) of every lane
+    (``kernel._capacity_enthalpy``; ``href`` from ``_reference_ramps``)."""
+    W = T.shape[1]
+    for i in range(T.shape[0]):
+        for c in range(W):
+            H[i, c] = base[i, c] * (T[i, c] - t_ref)
+        if with_c:
+            for c in range(W):
+                C[i, c] = base[i, c]
+        for s in range(seg_start[i], seg_start[i + 1]):
+            for c in range(W):
+                lo = seg_lo[s, c]
+                hi = seg_hi[s, c]
+                t = T[i, c]
+                x = min(max(t, lo), hi)
+                ramp = 0.5 * (x - lo) * (x - lo) + (hi - lo) * max(t - hi, 0.0)
+                H[i, c] += seg_slope[s, c] * (ramp - href[s, c])
+            if with_c:
+                for c in range(W):
+                    x = min(max(T[i, c], seg_lo[s, c]), seg_hi[s, c])
+                    C[i, c] += seg_slope[s, c] * (x - seg_lo[s, c])
+        for c in range(W):
+            H[i, c] *= mass[i, c]
+        if with_c:
+            for c in range(W):
+                C[i, c] *= mass[i, c]
+
+
+@njit(cache=True, error_model="numpy")
+def _factor_lanes(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, pinv, m, flag):
+    """Stage matrix of every lane (n, n, W), factored in place along the plan; weak pivots flag a lane."""
+    W = C.shape[1]
+    for k in range(order.size):          # zero the filled pattern only (nothing else is read)
+        p = order[k]
+        for c in range(W):
+            A[p, p, c] = C[p, c]
+        for u in range(ptr[k], ptr[k + 1]):
+            r = nbr[u]
+            for c in range(W):
+                A[r, p, c] = 0.0
+                A[p, r, c] = 0.0
+            for v in range(ptr[k], ptr[k + 1]):
+                for c in range(W):
+                    A[r, nbr[v], c] = 0.0
+    for l in range(link_a.size):
+        a = link_a[l]
+        b = link_b[l]
+        for c in range(W):
+            A[a, a, c] += coef * dfa[l, c]
+        if b < n:
+            for c in range(W):
+                A[a, b, c] += coef * dfb[l, c]
+                A[b, a, c] -= coef * dfa[l, c]
+                A[b, b, c] -= coef * dfb[l, c]
+    for k in range(order.size):
+        p = order[k]
+        for c in range(W):
+            d = A[p, p, c]
+            if not (d > 0.5 * C[p, c]):
+                flag[c] = True
+                d = C[p, c]
+            pinv[p, c] = 1.0 / d
+        for u in range(ptr[k], ptr[k + 1]):
+            r = nbr[u]
+            for c in range(W):
+                m[c] = A[r, p, c] * pinv[p, c]
+                A[r, p, c] = m[c]
+            for v in range(ptr[k], ptr[k + 1]):
+                q = nbr[v]
+                for c in range(W):
+                    A[r, q, c] -= m[c] * A[p, q, c]
+
+
+@njit(cache=True, error_model="numpy")
+def _solve_lanes(A, pinv, order, ptr, nbr, x):
+    """Solve every lane in place with the factors of ``_factor_lanes``."""
+    W = x.shape[1]
+    for k in range(order.size):
+        p = order[k]
+        for u in range(ptr[k], ptr[k + 1]):
+            r = nbr[u]
+            for c in range(W):
+                x[r, c] -= A[r, p, c] * x[p, c]
+    for k in range(order.size - 1, -1, -1):
+        p = order[k]
+        for u in range(ptr[k], ptr[k + 1]):
+            q = nbr[u]
+            for c in range(W):
+                x[p, c] -= A[p, q, c] * x[q, c]
+        for c in range(W):
+            x[p, c] *= pinv[p, c]
+
+
+@njit(cache=True, error_model="numpy")
+def _chord_lanes(Y, H, tgt, coef, fx, dfa, dfb, R, A, pinv, order, ptr, nbr, n, link_a, link_b):
+    """One chord correction of a stage in every lane (``kernel._linear_stage``)."""
+    W = Y.shape[1]
+    for i in range(n):
+        for c in range(W):
+            R[i, c] = tgt[i, c] - H[i, c]
+    for l in range(link_a.size):
+        a = link_a[l]
+        b = link_b[l]
+        for c in range(W):
+            R[a, c] -= coef * fx[l, c]
+        if b < n:
+            for c in range(W):
+                R[b, c] += coef * fx[l, c]
+    _solve_lanes(A, pinv, order, ptr, nbr, R)
+    for i in range(n):
+        for c in range(W):
+            Y[i, c] += R[i, c]
+    for l in range(link_a.size):
+        a = link_a[l]
+        b = link_b[l]
+        for c in range(W):
+            fx[l, c] += dfa[l, c] * R[a, c]
+        if b < n:
+            for c in range(W):
+                fx[l, c] += dfb[l, c] * R[b, c]
+
+
+@njit(cache=True, error_model="numpy")
+def _net_inflow_lanes(f, n, link_a, link_b, r):
+    """r = D f in every lane [W]."""
+    r[:, :] = 0.0
+    W = r.shape[1]
+    for l in range(link_a.size):
+        a = link_a[l]
+        b = link_b[l]
+        for c in range(W):
+            r[a, c] -= f[l, c]
+        if b < n:
+            for c in range(W):
+                r[b, c] += f[l, c]
+
+
+@njit(cache=True, error_model="numpy")
+def _outputs_lanes(T, w_ptr, w_node, w_val, lp):
+    """Raise each output's running peak lp (n_out, W) to its value at T."""
+    W = T.shape[1]
+    for o in range(w_ptr.size - 1):
+        for c in range(W):
+            v = 0.0
+            for j in range(w_ptr[o], w_ptr[o + 1]):
+                v += w_val[j] * T[w_node[j], c]
+            lp[o, c] = max(lp[o, c], v)
+
+
+@njit(cache=True, error_model="numpy")
+def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                   link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                   mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
+                   n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
+                   peak_step, lap_peaks, link_energy, heat_in, lane_flag, counts):
+    """Block ``blk`` of LANES configurations over the grid ``n_laps`` times (linearised mode)."""
+    n = T0.shape[1]
+    W = T0.shape[2]
+    L = link_a.size
+    N = h.size
+    n_sig = qs_full.shape[1]
+    n_out = w_ptr.size - 1
+    T = T0[blk].copy()
+    Y = np.empty((n, W))
+    C = np.empty((n, W))
+    H = np.empty((n, W))
+    H0 = np.empty((n, W))
+    R = np.empty((n, W))
+    r1 = np.empty((n, W))
+    r2 = np.empty((n, W))
+    tgt = np.empty((n, W))
+    A = np.empty((n, n, W))
+    pinv = np.empty((n, W))
+    m = np.empty(W)
+    f1 = np.empty((L, W))
+    f2 = np.empty((L, W))
+    f3 = np.empty((L, W))
+    dfa = np.empty((L, W))
+    dfb = np.empty((L, W))
+    q2 = np.zeros((n, W))
+    q3 = np.zeros((n, W))
+    lp = np.empty((max(n_out, 1), W))
+    flag = lane_flag[blk]
+    pb, tb_ix, sb = par[blk], tix[blk], src[blk]
+    mb, bb, lob, hib, slb = mass[blk], base[blk], seg_lo[blk], seg_hi[blk], seg_slope[blk]
+    pk, pks, le = peak[blk], peak_step[blk], link_energy[blk]
+    e_in = np.zeros(W)
+    href = np.empty(lob.shape)
+    _reference_ramps(lob, hib, t_ref, href)
+    pk[:, :] = T
+    pks[:, :] = 0
+    done = 0
+    for lap in range(n_laps):
+        last = lap == n_laps - 1
+        _flows_lanes(T, bk_grid[0], drv_grid[0], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
+                     tables, tb_ix, gp, f1, dfa, dfb, flag)
+        rec = 0
+        if last and record[0]:
+            temps_out[blk, rec] = T
+            flows_out[blk, rec] = f1
+            rec += 1
+        lp[:, :] = -math.inf
+        _outputs_lanes(T, w_ptr, w_node, w_val, lp)
+        for step in range(N):
+            hn = h[step]
+            coef = hn * D_WEIGHT
+            hw = hn * W_WEIGHT
+            _capacity_lanes(T, mb, bb, seg_start, lob, hib, slb, href, t_ref, C, H0, True)
+            _net_inflow_lanes(f1, n, link_a, link_b, r1)
+            for i in range(n):
+                for c in range(W):
+                    q2[i, c] = 0.0
+                    q3[i, c] = 0.0
+                for k in range(n_sig):
+                    qm = qs_mid[step, k]
+                    qf = qs_full[step, k]
+                    for c in range(W):
+                        q2[i, c] += sb[i, k, c] * qm
+                        q3[i, c] += sb[i, k, c] * qf
+                for c in range(W):
+                    e_in[c] += q3[i, c]
+            _factor_lanes(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, pinv, m, flag)
+            # stage 1 (TR) from Y = T_n, whose enthalpy is H0
+            for i in range(n):
+                for c in range(W):
+                    tgt[i, c] = H0[i, c] + coef * r1[i, c] + q2[i, c]
+                    Y[i, c] = T[i, c]
+            _flows_lanes(Y, bk_mid[step], drv_mid[step], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
+                         tables, tb_ix, gp, f2, dfa, dfb, flag)
+            _chord_lanes(Y, H0, tgt, coef, f2, dfa, dfb, R, A, pinv, order, ptr, nbr, n, link_a, link_b)
+            # stage 2 (BDF2) from Y = Y2
+            _net_inflow_lanes(f2, n, link_a, link_b, r2)
+            for i in range(n):
+                for c in range(W):
+                    tgt[i, c] = H0[i, c] + hw * (r1[i, c] + r2[i, c]) + q3[i, c]
+            _flows_lanes(Y, bk_grid[step + 1], drv_grid[step + 1], n, link_a, link_b, kind, pb, conv_slot,
+                         conv_drv, tables, tb_ix, gp, f3, dfa, dfb, flag)
+            _capacity_lanes(Y, mb, bb, seg_start, lob, hib, slb, href, t_ref, C, H, False)
+            _chord_lanes(Y, H, tgt, coef, f3, dfa, dfb, R, A, pinv, order, ptr, nbr, n, link_a, link_b)
+            _capacity_lanes(Y, mb, bb, seg_start, lob, hib, slb, href, t_ref, C, H, False)
+            _chord_lanes(Y, H, tgt, coef, f3, dfa, dfb, R, A, pinv, order, ptr, nbr, n, link_a, link_b)
+            for l in range(L):
+                for c in range(W):
+                    le[l, c] += hn * (W_WEIGHT * (f1[l, c] + f2[l, c]) + D_WEIGHT * f3[l, c])
+                    f1[l, c] = f3[l, c]
+            for i in range(n):
+                for c in range(W):
+                    y = Y[i, c]
+                    if not math.isfinite(y):
+                        flag[c] = True
+                    T[i, c] = y
+                    if y > pk[i, c]:
+                        pk[i, c] = y
+                        pks[i, c] = done + step + 1
+            _outputs_lanes(T, w_ptr, w_node, w_val, lp)
+            if last and record[step + 1]:
+                temps_out[blk, rec] = T
+                flows_out[blk, rec] = f1
+                rec += 1
+        for o in range(n_out):
+            for c in range(W):
+                lap_peaks[blk, lap, o, c] = lp[o, c]
+        done += N
+    # the accepted end state itself must lie on the tables (its flows are otherwise never looked up)
+    _flows_lanes(T, bk_grid[N], drv_grid[N], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
+                 tables, tb_ix, gp, f3, dfa, dfb, flag)
+    final[blk] = T
+    for c in range(W):
+        heat_in[blk, c] = e_in[c]
+        counts[blk, c] = done
+
+
+@njit(cache=True, parallel=True, error_model="numpy")
+def advance_lanes(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                  link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                  mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
+                  n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
+                  peak_step, lap_peaks, link_energy, heat_in, lane_flag, counts):
+    """All blocks, spread over the CPU cores (see the module notes for the shapes)."""
+    for blk in prange(T0.shape[0]):
+        _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                       link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                       mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
+                       n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
+                       peak_step, lap_peaks, link_energy, heat_in, lane_flag, counts)

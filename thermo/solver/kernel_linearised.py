@@ -1,0 +1,223 @@
+"""The kernel's linearised mode: each TR-BDF2 stage linearised once, all laps of a run in one call.
+
+One configuration at a time (``thermo.solver.kernel_lanes`` is the same scheme for batches, with
+configurations side by side). Per step of length h (weights as in ``thermo.solver.kernel``):
+
+- the stage matrix diag(C(T_n)) - h d D dF/dT is built from the slopes of the last flow
+  evaluation and factored once (sparse elimination plan, dense fallback);
+- stage 1 (TR, to t_n + gamma h): the flows at T_n with the stage's inputs, one linear solve
+  from T_n (whose enthalpy is already known), the flows updated to first order;
+- stage 2 (BDF2, to t_n + h): the flows at Y2 with the step-end inputs, one linear solve from Y2
+  with its exact enthalpy, then one chord correction with the exact enthalpy H(Y) and the
+  linearised flows.
+
+Two flow evaluations, one factorisation, three solves and three capacity evaluations a step. The
+exact-enthalpy corrections remove the c(T) linearisation error that would otherwise build up over
+a braking zone (0.6 K measured without them); one for stage 1 as well was measured to change the
+demo's 30-lap peaks by about 0.001 K and is not made. Linearising H(Y2) as well (one capacity
+evaluation fewer, about 5 % faster) raised the energy-balance error by half (7e-6 to 1.1e-5 on a
+demo braking sequence) and is not done either. The rest of the error is that of
+linearising radiation and G(T) once per stage: peaks within 0.005 K of full Newton on the demo
+corner; the energy balance closes to it (about 1e-5 relative on the demo), not to round-off.
+
+``n_laps``: the grid is driven that many times carrying the state (a race of identical laps); the
+flows are evaluated afresh at each lap's start, each lap's peak of every output (a weighted node
+sum) is kept, and after the last step the end state's own table lookup is checked.
+"""
+from __future__ import annotations
+
+import math
+
+import numpy as np
+from numba import njit, prange
+
+from thermo.solver.kernel import (D_WEIGHT, FACTOR_FAILED, STATUS_NEWTON, STATUS_NONFINITE, STATUS_OK,
+                                  STATUS_OUTSIDE_GRID, W_WEIGHT, _capacity_enthalpy, _factor, _flow_update,
+                                  _flows, _net_inflow, _residual, _solve, _sources)
+
+
+@njit(cache=True, error_model="numpy")
+def _linear_stage(Y, H, tgt, coef, fx, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b):
+    """One chord correction of a stage: R = -(H(Y) - coef D f - target) solved, Y and f updated."""
+    _residual(H, tgt, coef, fx, n, link_a, link_b, R)
+    for i in range(n):
+        R[i] = -R[i]
+    _solve(mode, A, piv, order, ptr, nbr, R)
+    for i in range(n):
+        Y[i] += R[i]
+    _flow_update(fx, dfa, dfb, R, n, link_a, link_b)
+
+
+@njit(cache=True, error_model="numpy")
+def _outputs_peak(T, w_ptr, w_node, w_val, lap_peak):
+    """Raise each output's running peak to its value at T (outputs are weighted node sums) [K]."""
+    for o in range(w_ptr.size - 1):
+        v = 0.0
+        for j in range(w_ptr[o], w_ptr[o + 1]):
+            v += w_val[j] * T[w_node[j]]
+        if v > lap_peak[o]:
+            lap_peak[o] = v
+
+
+@njit(cache=True, error_model="numpy")
+def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                            link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                            mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
+                            n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
+                            peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
+    """Configuration b driven over the grid ``n_laps`` times in the linearised mode.
+
+    Each stage: the flows at its first guess (T_n for Y2, Y2 for Y3) with the matrix at T_n, one
+    chord correction, then one more with the exact enthalpy and the linearised flows (see the
+    module notes). The first stage's guess is T_n, whose enthalpy H0 is already known."""
+    n = T0.shape[1]
+    L = link_a.size
+    N = h.size
+    n_out = w_ptr.size - 1
+    T = T0[b].copy()
+    Y = np.empty(n)
+    C = np.empty(n)
+    H = np.empty(n)
+    H0 = np.empty(n)
+    R = np.empty(n)
+    r1 = np.empty(n)
+    r2 = np.empty(n)
+    tgt = np.empty(n)
+    A = np.empty((n, n))
+    piv = np.zeros(n, dtype=np.int64)
+    f1 = np.empty(L)
+    f2 = np.empty(L)
+    f3 = np.empty(L)
+    dfa = np.empty(L)
+    dfb = np.empty(L)
+    q2 = np.empty(n)
+    q3 = np.empty(n)
+    lp = np.empty(max(n_out, 1))
+    n_ax = drv_grid.shape[1] + bk_grid.shape[1]
+    ax_i = np.zeros(n_ax, dtype=np.int64)
+    ax_f = np.zeros(n_ax)
+    ax_ok = np.zeros(n_ax, dtype=np.bool_)
+    pb = par[b]
+    tb_ix = tix[b]
+    mb, bb, lob, hib, slb = mass[b], base[b], seg_lo[b], seg_hi[b], seg_slope[b]
+    nf = 0
+    nj = 0
+    st = STATUS_OK
+    for i in range(n):
+        peak[b, i] = T[i]
+        peak_step[b, i] = 0
+    e_in = 0.0
+    done = 0
+    step = 0
+    for lap in range(n_laps):
+        last = lap == n_laps - 1
+        if not _flows(T, bk_grid[0], drv_grid[0], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
+                      tables, tb_ix, gp, f1, dfa, dfb, ax_i, ax_f, ax_ok):
+            st = STATUS_OUTSIDE_GRID
+        nf += 1
+        rec = 0
+        if last and record[0]:
+            temps_out[b, rec, :] = T
+            flows_out[b, rec, :] = f1
+            rec += 1
+        for o in range(n_out):
+            lp[o] = -math.inf
+        _outputs_peak(T, w_ptr, w_node, w_val, lp)
+        step = 0
+        while step < N and st == STATUS_OK:
+            hn = h[step]
+            coef = hn * D_WEIGHT
+            _capacity_enthalpy(T, mb, bb, seg_start, lob, hib, slb, t_ref, C, H0)
+            _net_inflow(f1, n, link_a, link_b, r1)
+            e_in += _sources(b, step, src, qs_mid, qs_full, q2, q3)
+            mode = _factor(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, piv)
+            nj += 1
+            if mode == FACTOR_FAILED:
+                st = STATUS_NEWTON
+                break
+            # stage 1 (TR), from Y = T_n
+            for i in range(n):
+                tgt[i] = H0[i] + coef * r1[i] + q2[i]
+                Y[i] = T[i]
+            inside = _flows(Y, bk_mid[step], drv_mid[step], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
+                            tables, tb_ix, gp, f2, dfa, dfb, ax_i, ax_f, ax_ok)
+            _linear_stage(Y, H0, tgt, coef, f2, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
+            # stage 2 (BDF2), from Y = Y2
+            _net_inflow(f2, n, link_a, link_b, r2)
+            for i in range(n):
+                tgt[i] = H0[i] + hn * W_WEIGHT * (r1[i] + r2[i]) + q3[i]
+            inside2 = _flows(Y, bk_grid[step + 1], drv_grid[step + 1], n, link_a, link_b, kind, pb, conv_slot,
+                             conv_drv, tables, tb_ix, gp, f3, dfa, dfb, ax_i, ax_f, ax_ok)
+            nf += 2
+            _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
+            _linear_stage(Y, H, tgt, coef, f3, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
+            _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
+            _linear_stage(Y, H, tgt, coef, f3, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
+            if not (inside and inside2):
+                st = STATUS_OUTSIDE_GRID
+                break
+            for i in range(n):
+                if not math.isfinite(Y[i]):
+                    st = STATUS_NONFINITE
+            if st != STATUS_OK:
+                break
+            for l in range(L):
+                link_energy[b, l] += hn * (W_WEIGHT * (f1[l] + f2[l]) + D_WEIGHT * f3[l])
+                f1[l] = f3[l]
+            for i in range(n):
+                T[i] = Y[i]
+                if T[i] > peak[b, i]:
+                    peak[b, i] = T[i]
+                    peak_step[b, i] = done + step + 1
+            _outputs_peak(T, w_ptr, w_node, w_val, lp)
+            step += 1
+            if last and record[step]:
+                temps_out[b, rec, :] = T
+                flows_out[b, rec, :] = f1
+                rec += 1
+        if st != STATUS_OK:
+            break
+        for o in range(n_out):
+            lap_peaks[b, lap, o] = lp[o]
+        done += N
+    if st == STATUS_OK and not _flows(T, bk_grid[N], drv_grid[N], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
+                                      tables, tb_ix, gp, f3, dfa, dfb, ax_i, ax_f, ax_ok):
+        st = STATUS_OUTSIDE_GRID        # the accepted end state itself lies off a table
+        done -= N
+        step = N - 1
+    final[b, :] = T
+    heat_in[b] = e_in
+    status[b] = st
+    fail_step[b] = done if st == STATUS_OK else done + step
+    counts[b, 0] = nf
+    counts[b, 1] = nj
+
+
+@njit(cache=True, error_model="numpy", nogil=True)
+def advance_linearised(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                       link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                       mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
+                       n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
+                       peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
+    """The linearised mode for B configurations, one after another (see ``ARGS_DOC``); releases the GIL."""
+    for b in range(T0.shape[0]):
+        _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                                mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
+                                n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
+                                peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts)
+
+
+@njit(cache=True, parallel=True, error_model="numpy")
+def advance_linearised_parallel(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                                mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
+                                n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
+                                peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
+    """``advance_linearised`` with the configurations spread over the CPU cores."""
+    for b in prange(T0.shape[0]):
+        _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
+                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                                mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
+                                n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
+                                peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts)
