@@ -7,7 +7,7 @@ import pytest
 import scipy.integrate
 
 from chain_runs import SMALL
-from thermo.chain.race import repeated_laps
+from thermo.chain.race import DEFAULT_MAX_STRIDE, repeated_laps
 from thermo.chain.settle import lap_setup
 from thermo.errors import SolveError
 from thermo.network import Schedule
@@ -24,7 +24,7 @@ def lap():
     scenario = load_scenario(SMALL)
     _, model, net, s, segment = lap_setup(scenario, "front")
     kn = kernel_network(net)
-    grid = graded_grid(s, net, s.t_start_s, s.t_end_s, 1, 8)
+    grid = graded_grid(s, net, s.t_start_s, s.t_end_s, 1, DEFAULT_MAX_STRIDE)
     T0 = np.full((1, net.n_nodes), float(scenario.ambient.temperature_at(segment.t_start_s)))
     return dict(model=model, net=net, s=s, kn=kn, grid=grid, inputs=kernel_inputs(net, s, grid), T0=T0,
                 W=np.ascontiguousarray(model.output_weights.T), every=np.ones(grid.size, dtype=bool))
@@ -189,7 +189,7 @@ def test_a_failure_in_a_later_lap_names_that_lap(lap):
     # convection tables (the network's conductance grid) in a later lap
     model, net, s, T0 = lap["model"], lap["net"], lap["s"], lap["T0"][0]
     hot = Schedule(s.time_s, {k: v * 3.5 if k in net.source_signals else v for k, v in s.signals.items()})
-    grid = graded_grid(hot, net, hot.t_start_s, hot.t_end_s, 1, 8)
+    grid = graded_grid(hot, net, hot.t_start_s, hot.t_end_s, 1, DEFAULT_MAX_STRIDE)
     inputs = kernel_inputs(net, hot, grid)
     top = net.conv_grid.node_max_k
     st = SolverSettings(method="fast")

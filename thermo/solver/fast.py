@@ -19,8 +19,10 @@ steps over short braking pulses.
 Two implementations of the same scheme:
 - ``thermo.solver.kernel`` (numba, on-disk cache): used whenever every convection link of the
   network is tabulated on one grid (``CompiledNetwork.conv_tables``), as built by the corner builder,
-  and the run stays on the tables. About 5-8 us a step for the 12-node demo corner (full Newton;
-  the linearised mode used by races and batches, ``thermo.solver.kernel``, about 3-5 us).
+  and the run stays on the tables. About 4 us a step for the 12-node demo corner (full Newton;
+  the linearised mode used by races and batches, ``thermo.solver.kernel_linearised``, about
+  2 us, and about 0.5 us a configuration with 64 configurations side by side,
+  ``thermo.solver.kernel_lanes``).
 - the numpy stepper below (a few ms a step): networks with untabulated convection functions,
   ``use_jacobian=False`` (finite-difference Jacobian), and any run whose state leaves a
   conductance table (the exact function is then evaluated, as ``tabulate.lookup`` does).
