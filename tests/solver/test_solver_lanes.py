@@ -22,6 +22,7 @@ import scipy.integrate
 
 from thermo.chain.settle import lap_setup
 from thermo.errors import SolveError
+from thermo.network import Schedule
 from thermo.scenario import load_scenario
 from thermo.solver import batch, kernel, kernel_lanes
 from thermo.solver.batch import (MIN_LANES, KernelNetwork, graded_grid, kernel_inputs, kernel_network, lane_width,
@@ -456,3 +457,36 @@ def test_lanes_close_the_first_law_on_the_demo_lap(reruns):
     sol = solve_batch(kb, s, T0, grid=demo["grid"], linearised=True)
     assert np.all(sol.balance_rel_error < 2e-5)
     np.testing.assert_allclose(sol.final_k, res.final, rtol=0, atol=1e-9)
+
+
+# 6. constant boundary temperatures: tables pre-interpolated along the boundary axis ----------------------------
+
+def test_constant_boundaries_read_presliced_tables_and_varying_ones_the_full_table(lap, varied):
+    kb, T0, s, net = varied["kb"], varied["T0"], lap["s"], lap["net"]
+    sliced, slot_sliced, six = kb._boundary_slices(lap["inputs"])
+    to_boundary = [int(kb.conv_slot[l]) for l in np.flatnonzero(kb.kind == kernel.KIND_CONVECTION)
+                   if kb.link_b[l] >= net.n_nodes]
+    assert to_boundary and all(slot_sliced[to_boundary]), "the small scenario's boundaries are constant"
+    # a slice is the table interpolated linearly along the boundary axis at the boundary temperature
+    # (numpy.interp as the reference library, one table column at a time)
+    gp = kb.gp
+    l = int(np.flatnonzero(kb.kind == kernel.KIND_CONVECTION)[0])
+    q, slot = int(kb.link_b[l]) - net.n_nodes, int(kb.conv_slot[l])
+    axis = gp[6] + gp[7] * np.arange(int(gp[8]))
+    t_b = lap["inputs"].bk_grid[0, q]
+    table = kb.tables[kb.tix[0, slot]]
+    piece = sliced.reshape(-1, table.shape[0], table.shape[1])[six[0, slot]]
+    for i, j in ((0, 0), (3, 7), (table.shape[0] - 1, table.shape[1] - 1)):
+        assert piece[i, j] == pytest.approx(np.interp(t_b, axis, table[i, j]), rel=1e-12)
+    # a boundary temperature that varies over the run keeps the full trilinear table, and the lanes
+    # still equal each configuration alone
+    ramp = {k: (v + np.linspace(0.0, 8.0, v.size) if k in s.signals and k.endswith("_k") else v)
+            for k, v in s.signals.items()}
+    inputs = kernel_inputs(net, Schedule(s.time_s, ramp), lap["grid"])
+    assert np.ptp(inputs.bk_grid, axis=0).max() > 1.0, "the ramp must reach the boundary temperatures"
+    _, slot_sliced2, _ = kb._boundary_slices(inputs)
+    assert not slot_sliced2.any()
+    res, peaks = kb._run_lanes(inputs, T0, 2, batch._sparse_weights(lap["W"]), varied["record"], 4)
+    for b in (0, 6, B - 1):
+        ref, ref_peaks = alone(kb, inputs, T0, b, 2, lap["W"], varied["record"])
+        assert_same_configuration(res, peaks, b, ref, ref_peaks, f"varying boundary, configuration {b}")

@@ -183,9 +183,11 @@ class KernelNetwork:
         final, peak, peak_step = np.empty((K, n, Wd)), np.empty((K, n, Wd)), np.zeros((K, n, Wd), dtype=np.int64)
         lap_peaks, link_energy = np.empty((K, n_laps, n_out, Wd)), np.zeros((K, L, Wd))
         heat_in, flag, steps = np.zeros((K, Wd)), np.zeros((K, Wd), dtype=np.bool_), np.zeros((K, Wd), dtype=np.int64)
+        sliced, slot_sliced, six = self._boundary_slices(inputs)
         kernel_lanes.advance_lanes(
             lanes(T0), *_signal_arrays(inputs), lanes(self.src), self.link_a, self.link_b,
             self.kind, lanes(self.par), self.conv_slot, self.conv_drv, self.tables.reshape(-1), lanes(self.tix), self.gp,
+            sliced, slot_sliced, lanes(six),
             lanes(self.mass), lanes(self.base), self.seg_start, lanes(self.seg_lo), lanes(self.seg_hi),
             lanes(self.seg_slope), REFERENCE_TEMPERATURE_K, self.plan.order, self.plan.ptr, self.plan.nbr,
             n_laps, *weights, record, temps, flows, final, peak, peak_step, lap_peaks, link_energy, heat_in,
@@ -204,6 +206,38 @@ class KernelNetwork:
                 getattr(out, field)[redo] = getattr(one, field)
             lap_peaks[redo] = one_peaks
         return out, lap_peaks
+
+    def _boundary_slices(self, inputs: KernelInputs) -> tuple:
+        """Convection tables interpolated along the boundary axis for every slot whose boundary
+        temperature is constant over the run and on the table (``kernel_lanes._flows_lanes``).
+
+        Returns (sliced (P * n_driver * n_node,), slot_sliced (n_conv,) bool, six (B, n_conv) slice
+        of each configuration's slot)."""
+        n, n_conv = self.n_nodes, self.conv_drv.size
+        slot_sliced = np.zeros(n_conv, dtype=np.bool_)
+        six = np.zeros((self.size, n_conv), dtype=np.int64)
+        slices, index = [], {}
+        gp = self.gp
+        for l in np.flatnonzero(self.kind == kernel.KIND_CONVECTION):
+            s, q = int(self.conv_slot[l]), int(self.link_b[l]) - n
+            if q < 0:
+                continue                             # a node-to-node link keeps the full table
+            series = np.concatenate([inputs.bk_grid[:, q], inputs.bk_mid[:, q]])
+            if np.ptp(series) != 0.0:
+                continue
+            k, fk, inside = kernel._axis(float(series[0]), gp[6], 1.0 / gp[7], int(gp[8]))
+            if not inside:
+                continue                             # off the table: the kernel flags it as usual
+            slot_sliced[s] = True
+            for b in range(self.size):
+                key = (int(self.tix[b, s]), q)
+                if key not in index:
+                    t = self.tables[key[0]]
+                    index[key] = len(slices)
+                    slices.append(t[:, :, k] + fk * (t[:, :, k + 1] - t[:, :, k]))
+                six[b, s] = index[key]
+        sliced = np.ascontiguousarray(np.stack(slices)).reshape(-1) if slices else np.zeros(1)
+        return sliced, slot_sliced, six
 
     def subset(self, index) -> "KernelNetwork":
         """The configurations ``index`` (array of ints) of this batch."""

@@ -32,10 +32,15 @@ LANES = 64       # configurations per block: one AVX-512 register of doubles, tw
 
 @njit(cache=True, error_model="numpy")
 def _flows_lanes(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
-                 f, dfa, dfb, flag):
+                 sliced, slot_sliced, six, f, dfa, dfb, flag):
     """Link flows and slopes (L, W) of every lane at T (n, W); flag[c] set where a lookup left its table.
 
-    ``tables`` is the kernel's (U, n_driver, n_node, n_boundary) table array flattened (C order)."""
+    ``tables`` is the kernel's (U, n_driver, n_node, n_boundary) table array flattened (C order).
+    A convection slot whose boundary temperature is constant over the run (``slot_sliced``) reads
+    ``sliced`` instead, (P, n_driver, n_node) flattened: its table already interpolated along the
+    boundary axis, the same arithmetic as the trilinear lookup's first step, so the result is
+    identical and the lookup costs four loads, not eight (``six`` (n_conv, W) the slice of each
+    lane; dG/dT_b is not formed: a boundary's slope never enters the stage matrix)."""
     W = T.shape[1]
     n_i = int(gp[2])
     n_j = int(gp[5])
@@ -74,6 +79,30 @@ def _flows_lanes(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, 
             i, fi, oki = _axis(drv[dd] if dd >= 0 else 0.0, gp[0], 1.0 / gp[1], n_i)
             kb, fkb, okb = _axis(tbk, gp[6], inv_k, n_k)
             gi = 1.0 - fi
+            if slot_sliced[s]:
+                for c in range(W):
+                    ta = T[a, c]
+                    x = (ta - lo_j) * inv_j
+                    if not (oki and x >= 0.0 and x <= top_j):
+                        flag[c] = True
+                    x = x if x > 0.0 else 0.0
+                    x = x if x < top_j else top_j
+                    j = min(int(x), n_j - 2)
+                    fj = x - j
+                    o = (six[s, c] * n_i + i) * n_j + j
+                    c00 = sliced[o]
+                    c01 = sliced[o + 1]
+                    c10 = sliced[o + n_j]
+                    c11 = sliced[o + n_j + 1]
+                    gj = 1.0 - fj
+                    g = gi * (gj * c00 + fj * c01) + fi * (gj * c10 + fj * c11)
+                    ga = (gi * (c01 - c00) + fi * (c11 - c10)) * inv_j
+                    m = par[l, c]
+                    dT = ta - tbk
+                    f[l, c] = m * g * dT
+                    dfa[l, c] = m * (g + ga * dT)
+                    dfb[l, c] = -m * g
+                continue
             for c in range(W):
                 ta = T[a, c]
                 x = (ta - lo_j) * inv_j
@@ -161,72 +190,98 @@ def _capacity_lanes(T, mass, base, seg_start, seg_lo, seg_hi, seg_slope, href, t
 
 
 @njit(cache=True, error_model="numpy")
-def _factor_lanes(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, pinv, m, flag):
-    """Stage matrix of every lane (n, n, W), factored in place along the plan; weak pivots flag a lane."""
-    W = C.shape[1]
-    for k in range(order.size):          # zero the filled pattern only (nothing else is read)
+def _pattern(n, order, ptr, nbr, pos):
+    """Slot of every entry of the filled pattern in the compact matrix store (pos (n, n), -1 where
+    structurally zero); returns the number of slots. Only the pattern is ever read or written."""
+    pos[:, :] = -1
+    count = 0
+    for k in range(order.size):
         p = order[k]
-        for c in range(W):
-            A[p, p, c] = C[p, c]
+        if pos[p, p] < 0:
+            pos[p, p] = count
+            count += 1
         for u in range(ptr[k], ptr[k + 1]):
             r = nbr[u]
-            for c in range(W):
-                A[r, p, c] = 0.0
-                A[p, r, c] = 0.0
+            for x, y in ((r, p), (p, r)):
+                if pos[x, y] < 0:
+                    pos[x, y] = count
+                    count += 1
             for v in range(ptr[k], ptr[k + 1]):
-                for c in range(W):
-                    A[r, nbr[v], c] = 0.0
+                q = nbr[v]
+                if pos[r, q] < 0:
+                    pos[r, q] = count
+                    count += 1
+    return count
+
+
+@njit(cache=True, error_model="numpy")
+def _factor_lanes(A, pos, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, pinv, m, flag):
+    """Stage matrix of every lane (compact store A (slots, W), ``_pattern``), factored in place
+    along the plan; weak pivots flag a lane."""
+    W = C.shape[1]
+    A[:, :] = 0.0
+    for i in range(n):
+        d = pos[i, i]
+        for c in range(W):
+            A[d, c] = C[i, c]
     for l in range(link_a.size):
         a = link_a[l]
         b = link_b[l]
+        aa = pos[a, a]
         for c in range(W):
-            A[a, a, c] += coef * dfa[l, c]
+            A[aa, c] += coef * dfa[l, c]
         if b < n:
+            ab, ba, bb = pos[a, b], pos[b, a], pos[b, b]
             for c in range(W):
-                A[a, b, c] += coef * dfb[l, c]
-                A[b, a, c] -= coef * dfa[l, c]
-                A[b, b, c] -= coef * dfb[l, c]
+                A[ab, c] += coef * dfb[l, c]
+                A[ba, c] -= coef * dfa[l, c]
+                A[bb, c] -= coef * dfb[l, c]
     for k in range(order.size):
         p = order[k]
+        pp = pos[p, p]
         for c in range(W):
-            d = A[p, p, c]
+            d = A[pp, c]
             if not (d > 0.5 * C[p, c]):
                 flag[c] = True
                 d = C[p, c]
             pinv[p, c] = 1.0 / d
         for u in range(ptr[k], ptr[k + 1]):
             r = nbr[u]
+            rp = pos[r, p]
             for c in range(W):
-                m[c] = A[r, p, c] * pinv[p, c]
-                A[r, p, c] = m[c]
+                m[c] = A[rp, c] * pinv[p, c]
+                A[rp, c] = m[c]
             for v in range(ptr[k], ptr[k + 1]):
                 q = nbr[v]
+                rq, pq = pos[r, q], pos[p, q]
                 for c in range(W):
-                    A[r, q, c] -= m[c] * A[p, q, c]
+                    A[rq, c] -= m[c] * A[pq, c]
 
 
 @njit(cache=True, error_model="numpy")
-def _solve_lanes(A, pinv, order, ptr, nbr, x):
+def _solve_lanes(A, pos, pinv, order, ptr, nbr, x):
     """Solve every lane in place with the factors of ``_factor_lanes``."""
     W = x.shape[1]
     for k in range(order.size):
         p = order[k]
         for u in range(ptr[k], ptr[k + 1]):
             r = nbr[u]
+            rp = pos[r, p]
             for c in range(W):
-                x[r, c] -= A[r, p, c] * x[p, c]
+                x[r, c] -= A[rp, c] * x[p, c]
     for k in range(order.size - 1, -1, -1):
         p = order[k]
         for u in range(ptr[k], ptr[k + 1]):
             q = nbr[u]
+            pq = pos[p, q]
             for c in range(W):
-                x[p, c] -= A[p, q, c] * x[q, c]
+                x[p, c] -= A[pq, c] * x[q, c]
         for c in range(W):
             x[p, c] *= pinv[p, c]
 
 
 @njit(cache=True, error_model="numpy")
-def _chord_lanes(Y, H, tgt, coef, fx, dfa, dfb, R, A, pinv, order, ptr, nbr, n, link_a, link_b):
+def _chord_lanes(Y, H, tgt, coef, fx, dfa, dfb, R, A, pos, pinv, order, ptr, nbr, n, link_a, link_b):
     """One chord correction of a stage in every lane (``kernel._linear_stage``)."""
     W = Y.shape[1]
     for i in range(n):
@@ -240,7 +295,7 @@ def _chord_lanes(Y, H, tgt, coef, fx, dfa, dfb, R, A, pinv, order, ptr, nbr, n, 
         if b < n:
             for c in range(W):
                 R[b, c] += coef * fx[l, c]
-    _solve_lanes(A, pinv, order, ptr, nbr, R)
+    _solve_lanes(A, pos, pinv, order, ptr, nbr, R)
     for i in range(n):
         for c in range(W):
             Y[i, c] += R[i, c]
@@ -283,7 +338,7 @@ def _outputs_lanes(T, w_ptr, w_node, w_val, lp):
 
 @njit(cache=True, error_model="numpy")
 def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                   link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                   link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
                    mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                    n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
                    peak_step, lap_peaks, link_energy, heat_in, lane_flag, counts):
@@ -303,7 +358,8 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
     r1 = np.empty((n, W))
     r2 = np.empty((n, W))
     tgt = np.empty((n, W))
-    A = np.empty((n, n, W))
+    pos = np.empty((n, n), dtype=np.int64)
+    A = np.empty((_pattern(n, order, ptr, nbr, pos), W))
     pinv = np.empty((n, W))
     m = np.empty(W)
     f1 = np.empty((L, W))
@@ -315,7 +371,7 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
     q3 = np.zeros((n, W))
     lp = np.empty((max(n_out, 1), W))
     flag = lane_flag[blk]
-    pb, tb_ix, sb = par[blk], tix[blk], src[blk]
+    pb, tb_ix, sb, sb_ix = par[blk], tix[blk], src[blk], six[blk]
     mb, bb, lob, hib, slb = mass[blk], base[blk], seg_lo[blk], seg_hi[blk], seg_slope[blk]
     pk, pks, le = peak[blk], peak_step[blk], link_energy[blk]
     e_in = np.zeros(W)
@@ -327,7 +383,7 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
     for lap in range(n_laps):
         last = lap == n_laps - 1
         _flows_lanes(T, bk_grid[0], drv_grid[0], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                     tables, tb_ix, gp, f1, dfa, dfb, flag)
+                     tables, tb_ix, gp, sliced, slot_sliced, sb_ix, f1, dfa, dfb, flag)
         rec = 0
         if last and record[0]:
             temps_out[blk, rec] = T
@@ -353,26 +409,26 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
                         q3[i, c] += sb[i, k, c] * qf
                 for c in range(W):
                     e_in[c] += q3[i, c]
-            _factor_lanes(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, pinv, m, flag)
+            _factor_lanes(A, pos, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, pinv, m, flag)
             # stage 1 (TR) from Y = T_n, whose enthalpy is H0
             for i in range(n):
                 for c in range(W):
                     tgt[i, c] = H0[i, c] + coef * r1[i, c] + q2[i, c]
                     Y[i, c] = T[i, c]
             _flows_lanes(Y, bk_mid[step], drv_mid[step], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                         tables, tb_ix, gp, f2, dfa, dfb, flag)
-            _chord_lanes(Y, H0, tgt, coef, f2, dfa, dfb, R, A, pinv, order, ptr, nbr, n, link_a, link_b)
+                         tables, tb_ix, gp, sliced, slot_sliced, sb_ix, f2, dfa, dfb, flag)
+            _chord_lanes(Y, H0, tgt, coef, f2, dfa, dfb, R, A, pos, pinv, order, ptr, nbr, n, link_a, link_b)
             # stage 2 (BDF2) from Y = Y2
             _net_inflow_lanes(f2, n, link_a, link_b, r2)
             for i in range(n):
                 for c in range(W):
                     tgt[i, c] = H0[i, c] + hw * (r1[i, c] + r2[i, c]) + q3[i, c]
             _flows_lanes(Y, bk_grid[step + 1], drv_grid[step + 1], n, link_a, link_b, kind, pb, conv_slot,
-                         conv_drv, tables, tb_ix, gp, f3, dfa, dfb, flag)
+                         conv_drv, tables, tb_ix, gp, sliced, slot_sliced, sb_ix, f3, dfa, dfb, flag)
             _capacity_lanes(Y, mb, bb, seg_start, lob, hib, slb, href, t_ref, C, H, False)
-            _chord_lanes(Y, H, tgt, coef, f3, dfa, dfb, R, A, pinv, order, ptr, nbr, n, link_a, link_b)
+            _chord_lanes(Y, H, tgt, coef, f3, dfa, dfb, R, A, pos, pinv, order, ptr, nbr, n, link_a, link_b)
             _capacity_lanes(Y, mb, bb, seg_start, lob, hib, slb, href, t_ref, C, H, False)
-            _chord_lanes(Y, H, tgt, coef, f3, dfa, dfb, R, A, pinv, order, ptr, nbr, n, link_a, link_b)
+            _chord_lanes(Y, H, tgt, coef, f3, dfa, dfb, R, A, pos, pinv, order, ptr, nbr, n, link_a, link_b)
             for l in range(L):
                 for c in range(W):
                     le[l, c] += hn * (W_WEIGHT * (f1[l, c] + f2[l, c]) + D_WEIGHT * f3[l, c])
@@ -397,7 +453,7 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
         done += N
     # the accepted end state itself must lie on the tables (its flows are otherwise never looked up)
     _flows_lanes(T, bk_grid[N], drv_grid[N], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                 tables, tb_ix, gp, f3, dfa, dfb, flag)
+                 tables, tb_ix, gp, sliced, slot_sliced, sb_ix, f3, dfa, dfb, flag)
     final[blk] = T
     for c in range(W):
         heat_in[blk, c] = e_in[c]
@@ -406,14 +462,14 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
 
 @njit(cache=True, parallel=True, error_model="numpy")
 def advance_lanes(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                  link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                  link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
                   mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                   n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
                   peak_step, lap_peaks, link_energy, heat_in, lane_flag, counts):
     """All blocks, spread over the CPU cores (see the module notes for the shapes)."""
     for blk in prange(T0.shape[0]):
         _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                       link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                       link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
                        mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                        n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
                        peak_step, lap_peaks, link_energy, heat_in, lane_flag, counts)
