@@ -362,9 +362,10 @@ def test_a_weak_pivot_lane_is_rerun_and_equals_its_own_run(lap, reruns):
     one = kb.subset([weak])
     f, dfa, dfb = (np.empty(kb.link_a.size) for _ in range(3))
     nax = inputs.drv_grid.shape[1] + inputs.bk_grid.shape[1]
+    sliced, slot_sliced, six = one.boundary_slices(inputs)
     kernel._flows(T0[weak], inputs.bk_grid[0], inputs.drv_grid[0], kb.n_nodes, kb.link_a, kb.link_b, kb.kind,
-                  one.par[0], kb.conv_slot, kb.conv_drv, kb.tables, one.tix[0], kb.gp, f, dfa, dfb,
-                  np.zeros(nax, dtype=np.int64), np.zeros(nax), np.zeros(nax, dtype=np.bool_))
+                  one.par[0], kb.conv_slot, kb.conv_drv, kb.tables, one.tix[0], kb.gp, sliced, slot_sliced, six[0],
+                  f, dfa, dfb, np.zeros(nax, dtype=np.int64), np.zeros(nax), np.zeros(nax, dtype=np.bool_))
     assert dfa[link] < 0.0
     C, H = np.empty(kb.n_nodes), np.empty(kb.n_nodes)
     kernel._capacity_enthalpy(T0[weak], one.mass[0], one.base[0], kb.seg_start, one.seg_lo[0], one.seg_hi[0],
@@ -463,7 +464,7 @@ def test_lanes_close_the_first_law_on_the_demo_lap(reruns):
 
 def test_constant_boundaries_read_presliced_tables_and_varying_ones_the_full_table(lap, varied):
     kb, T0, s, net = varied["kb"], varied["T0"], lap["s"], lap["net"]
-    sliced, slot_sliced, six = kb._boundary_slices(lap["inputs"])
+    sliced, slot_sliced, six = kb.boundary_slices(lap["inputs"])
     to_boundary = [int(kb.conv_slot[l]) for l in np.flatnonzero(kb.kind == kernel.KIND_CONVECTION)
                    if kb.link_b[l] >= net.n_nodes]
     assert to_boundary and all(slot_sliced[to_boundary]), "the small scenario's boundaries are constant"
@@ -484,7 +485,7 @@ def test_constant_boundaries_read_presliced_tables_and_varying_ones_the_full_tab
             for k, v in s.signals.items()}
     inputs = kernel_inputs(net, Schedule(s.time_s, ramp), lap["grid"])
     assert np.ptp(inputs.bk_grid, axis=0).max() > 1.0, "the ramp must reach the boundary temperatures"
-    _, slot_sliced2, _ = kb._boundary_slices(inputs)
+    _, slot_sliced2, _ = kb.boundary_slices(inputs)
     assert not slot_sliced2.any()
     res, peaks = kb._run_lanes(inputs, T0, 2, batch._sparse_weights(lap["W"]), varied["record"], 4)
     for b in (0, 6, B - 1):

@@ -111,10 +111,12 @@ class KernelNetwork:
     def n_nodes(self) -> int:
         return self.mass.shape[1]
 
-    def _arrays(self):
+    def _arrays(self, inputs: KernelInputs):
+        """The network arguments of the one-configuration kernels, for a run on ``inputs``."""
         return (self.src, self.link_a, self.link_b, self.kind, self.par, self.conv_slot, self.conv_drv,
-                self.tables, self.tix, self.gp, self.mass, self.base, self.seg_start, self.seg_lo, self.seg_hi,
-                self.seg_slope, REFERENCE_TEMPERATURE_K, self.plan.order, self.plan.ptr, self.plan.nbr)
+                self.tables, self.tix, self.gp, *self.boundary_slices(inputs), self.mass, self.base,
+                self.seg_start, self.seg_lo, self.seg_hi, self.seg_slope, REFERENCE_TEMPERATURE_K,
+                self.plan.order, self.plan.ptr, self.plan.nbr)
 
     def _outputs(self, B, n_rec):
         n, L = self.n_nodes, self.link_a.size
@@ -135,7 +137,7 @@ class KernelNetwork:
                            heat_in=np.zeros(B), status=np.zeros(B, dtype=np.int64),
                            fail_step=np.zeros(B, dtype=np.int64), counts=np.zeros((B, 2), dtype=np.int64))
         fn = kernel.advance_parallel if B > 1 else kernel.advance
-        fn(np.ascontiguousarray(initial_k, dtype=float), *_signal_arrays(inputs), *self._arrays(),
+        fn(np.ascontiguousarray(initial_k, dtype=float), *_signal_arrays(inputs), *self._arrays(inputs),
            float(rtol), float(atol_k), kernel.MAX_NEWTON, np.ascontiguousarray(record, dtype=np.bool_),
            out.temps, out.flows, out.final, out.peak, out.peak_step, out.link_energy, out.heat_in,
            out.status, out.fail_step, out.counts)
@@ -166,7 +168,7 @@ class KernelNetwork:
                            heat_in=np.zeros(B), status=np.zeros(B, dtype=np.int64),
                            fail_step=np.zeros(B, dtype=np.int64), counts=np.zeros((B, 2), dtype=np.int64))
         fn = kernel_linearised.advance_linearised_parallel if B > 1 else kernel_linearised.advance_linearised
-        fn(T0, *_signal_arrays(inputs), *self._arrays(), n_laps, *weights,
+        fn(T0, *_signal_arrays(inputs), *self._arrays(inputs), n_laps, *weights,
            record, out.temps, out.flows, out.final, out.peak, out.peak_step, lap_peaks,
            out.link_energy, out.heat_in, out.status, out.fail_step, out.counts)
         return out, lap_peaks
@@ -183,7 +185,7 @@ class KernelNetwork:
         final, peak, peak_step = np.empty((K, n, Wd)), np.empty((K, n, Wd)), np.zeros((K, n, Wd), dtype=np.int64)
         lap_peaks, link_energy = np.empty((K, n_laps, n_out, Wd)), np.zeros((K, L, Wd))
         heat_in, flag, steps = np.zeros((K, Wd)), np.zeros((K, Wd), dtype=np.bool_), np.zeros((K, Wd), dtype=np.int64)
-        sliced, slot_sliced, six = self._boundary_slices(inputs)
+        sliced, slot_sliced, six = self.boundary_slices(inputs)
         kernel_lanes.advance_lanes(
             lanes(T0), *_signal_arrays(inputs), lanes(self.src), self.link_a, self.link_b,
             self.kind, lanes(self.par), self.conv_slot, self.conv_drv, self.tables.reshape(-1), lanes(self.tix), self.gp,
@@ -207,9 +209,10 @@ class KernelNetwork:
             lap_peaks[redo] = one_peaks
         return out, lap_peaks
 
-    def _boundary_slices(self, inputs: KernelInputs) -> tuple:
+    def boundary_slices(self, inputs: KernelInputs) -> tuple:
         """Convection tables interpolated along the boundary axis for every slot whose boundary
-        temperature is constant over the run and on the table (``kernel_lanes._flows_lanes``).
+        temperature is constant over the run and on the table (``kernel._flows``,
+        ``kernel_lanes._flows_lanes``).
 
         Returns (sliced (P * n_driver * n_node,), slot_sliced (n_conv,) bool, six (B, n_conv) slice
         of each configuration's slot)."""

@@ -104,11 +104,16 @@ def _trilinear(tables, t, inv_j, inv_k, i, fi, j, fj, k, fk):
 
 
 @njit(cache=True, error_model="numpy")
-def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, f, dfa, dfb, ax_i, ax_f, ax_ok):
+def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
+           f, dfa, dfb, ax_i, ax_f, ax_ok):
     """Link flows f [W] and their slopes at both ends [W/K]; False if a lookup left the grid.
 
     The table axis of each driver and of each boundary temperature is located once per call
-    (scratch ``ax_i``, ``ax_f``, ``ax_ok`` of length n_drivers + n_boundaries), not once per link."""
+    (scratch ``ax_i``, ``ax_f``, ``ax_ok`` of length n_drivers + n_boundaries), not once per link.
+    A slot whose boundary temperature is constant over the run (``slot_sliced``) reads its table
+    already interpolated along the boundary axis (``sliced`` (P, n_driver, n_node) flattened,
+    ``six`` the slice of each slot; see ``KernelNetwork.boundary_slices``): the same arithmetic,
+    four loads instead of eight, and no dG/dT_b (a boundary's slope never enters the matrix)."""
     ok = True
     nd = drv.size
     inv_i, inv_j, inv_k = 1.0 / gp[1], 1.0 / gp[4], 1.0 / gp[7]
@@ -142,6 +147,23 @@ def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables
             else:
                 i, fi, oki = _axis(0.0, gp[0], inv_i, int(gp[2]))
             j, fj, okj = _axis(ta, gp[3], inv_j, int(gp[5]))
+            if slot_sliced[s]:
+                if not (oki and okj):
+                    ok = False
+                n_j = int(gp[5])
+                o = (six[s] * int(gp[2]) + i) * n_j + j
+                c00 = sliced[o]
+                c01 = sliced[o + 1]
+                c10 = sliced[o + n_j]
+                c11 = sliced[o + n_j + 1]
+                gj = 1.0 - fj
+                g = (1.0 - fi) * (gj * c00 + fj * c01) + fi * (gj * c10 + fj * c11)
+                ga = ((1.0 - fi) * (c01 - c00) + fi * (c11 - c10)) * inv_j
+                m = par[l]
+                f[l] = m * g * (ta - tb)
+                dfa[l] = m * (g + ga * (ta - tb))
+                dfb[l] = -m * g
+                continue
             if b >= n:
                 k, fk, okk = ax_i[nd + b - n], ax_f[nd + b - n], ax_ok[nd + b - n]
             else:
@@ -333,7 +355,9 @@ def _net_inflow(f, n, link_a, link_b, r):
 
 ARGS_DOC = """Shapes: T0 (B, n); h (N,); bk_grid (N+1, nb); drv_grid (N+1, nd); bk_mid (N, nb); drv_mid (N, nd);
     qs_mid, qs_full (N, n_signals) source-signal integrals [J]; src (B, n, n_signals); par (B, L);
-    tix (B, n_conv) index into tables (U, n_driver, n_node, n_boundary); mass, base (B, n);
+    tix (B, n_conv) index into tables (U, n_driver, n_node, n_boundary); sliced, slot_sliced (n_conv,),
+    six (B, n_conv) the tables pre-interpolated along constant boundary temperatures (``_flows``);
+    mass, base (B, n);
     seg_lo, seg_hi, seg_slope (B, S); order, ptr, nbr the elimination plan
     (``thermo.solver.elimination``); max_newton: iterations per stage; record (N+1,) bool: grid
     points written to temps_out (B, n_rec, n) and flows_out (B, n_rec, L); final, peak (B, n);
@@ -374,7 +398,7 @@ def _flow_update(fx, dfa, dfb, dY, n, link_a, link_b):
 
 @njit(cache=True, error_model="numpy")
 def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                 link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                 link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
                  mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                  rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
                  link_energy, heat_in, status, fail_step, counts):
@@ -406,12 +430,13 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
     ax_ok = np.zeros(n_ax, dtype=np.bool_)
     pb = par[b]
     tb_ix = tix[b]
+    sx = six[b]
     mb, bb, lob, hib, slb = mass[b], base[b], seg_lo[b], seg_hi[b], seg_slope[b]
     nf = 1
     nj = 0
     st = STATUS_OK
     if not _flows(T, bk_grid[0], drv_grid[0], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                  tables, tb_ix, gp, f1, dfa, dfb, ax_i, ax_f, ax_ok):
+                  tables, tb_ix, gp, sliced, slot_sliced, sx, f1, dfa, dfb, ax_i, ax_f, ax_ok):
         st = STATUS_OUTSIDE_GRID
     rec = 0
     if record[0]:
@@ -455,7 +480,7 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
             converged = False
             for it in range(max_newton):
                 inside = _flows(Y, bkx, dvx, n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                                tables, tb_ix, gp, fx, dfa, dfb, ax_i, ax_f, ax_ok)
+                                tables, tb_ix, gp, sliced, slot_sliced, sx, fx, dfa, dfb, ax_i, ax_f, ax_ok)
                 nf += 1
                 _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
                 _residual(H, tgt, coef, fx, n, link_a, link_b, R)
@@ -513,7 +538,7 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
             flows_out[b, rec, :] = f1
             rec += 1
     if st == STATUS_OK and not _flows(T, bk_grid[N], drv_grid[N], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                                      tables, tb_ix, gp, f3, dfa, dfb, ax_i, ax_f, ax_ok):
+                                      tables, tb_ix, gp, sliced, slot_sliced, sx, f3, dfa, dfb, ax_i, ax_f, ax_ok):
         st = STATUS_OUTSIDE_GRID        # the accepted end state itself lies off a table
         step = N - 1
     final[b, :] = T
@@ -526,7 +551,7 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
 
 @njit(cache=True, error_model="numpy", nogil=True)
 def advance(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-            link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+            link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
             mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
             rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
             link_energy, heat_in, status, fail_step, counts):
@@ -535,7 +560,7 @@ def advance(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
     Releases the GIL, so independent runs (the corners of a race) can go in parallel threads."""
     for b in range(T0.shape[0]):
         _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                     link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                     link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
                      mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                      rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
                      link_energy, heat_in, status, fail_step, counts)
@@ -543,14 +568,14 @@ def advance(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
 
 @njit(cache=True, parallel=True, error_model="numpy")
 def advance_parallel(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                     link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                     link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
                      mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                      rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
                      link_energy, heat_in, status, fail_step, counts):
     """``advance`` with the configurations spread over the CPU cores (for batches)."""
     for b in prange(T0.shape[0]):
         _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                     link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                     link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
                      mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                      rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
                      link_energy, heat_in, status, fail_step, counts)

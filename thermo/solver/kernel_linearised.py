@@ -61,7 +61,7 @@ def _outputs_peak(T, w_ptr, w_node, w_val, lap_peak):
 
 @njit(cache=True, error_model="numpy")
 def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                            link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                            link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
                             mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                             n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
                             peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
@@ -99,6 +99,7 @@ def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid
     ax_ok = np.zeros(n_ax, dtype=np.bool_)
     pb = par[b]
     tb_ix = tix[b]
+    sx = six[b]
     mb, bb, lob, hib, slb = mass[b], base[b], seg_lo[b], seg_hi[b], seg_slope[b]
     nf = 0
     nj = 0
@@ -112,7 +113,7 @@ def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid
     for lap in range(n_laps):
         last = lap == n_laps - 1
         if not _flows(T, bk_grid[0], drv_grid[0], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                      tables, tb_ix, gp, f1, dfa, dfb, ax_i, ax_f, ax_ok):
+                      tables, tb_ix, gp, sliced, slot_sliced, sx, f1, dfa, dfb, ax_i, ax_f, ax_ok):
             st = STATUS_OUTSIDE_GRID
         nf += 1
         rec = 0
@@ -140,14 +141,14 @@ def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid
                 tgt[i] = H0[i] + coef * r1[i] + q2[i]
                 Y[i] = T[i]
             inside = _flows(Y, bk_mid[step], drv_mid[step], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                            tables, tb_ix, gp, f2, dfa, dfb, ax_i, ax_f, ax_ok)
+                            tables, tb_ix, gp, sliced, slot_sliced, sx, f2, dfa, dfb, ax_i, ax_f, ax_ok)
             _linear_stage(Y, H0, tgt, coef, f2, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
             # stage 2 (BDF2), from Y = Y2
             _net_inflow(f2, n, link_a, link_b, r2)
             for i in range(n):
                 tgt[i] = H0[i] + hn * W_WEIGHT * (r1[i] + r2[i]) + q3[i]
             inside2 = _flows(Y, bk_grid[step + 1], drv_grid[step + 1], n, link_a, link_b, kind, pb, conv_slot,
-                             conv_drv, tables, tb_ix, gp, f3, dfa, dfb, ax_i, ax_f, ax_ok)
+                             conv_drv, tables, tb_ix, gp, sliced, slot_sliced, sx, f3, dfa, dfb, ax_i, ax_f, ax_ok)
             nf += 2
             _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
             _linear_stage(Y, H, tgt, coef, f3, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
@@ -181,7 +182,7 @@ def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid
             lap_peaks[b, lap, o] = lp[o]
         done += N
     if st == STATUS_OK and not _flows(T, bk_grid[N], drv_grid[N], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                                      tables, tb_ix, gp, f3, dfa, dfb, ax_i, ax_f, ax_ok):
+                                      tables, tb_ix, gp, sliced, slot_sliced, sx, f3, dfa, dfb, ax_i, ax_f, ax_ok):
         st = STATUS_OUTSIDE_GRID        # the accepted end state itself lies off a table
         done -= N
         step = N - 1
@@ -195,14 +196,14 @@ def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid
 
 @njit(cache=True, error_model="numpy", nogil=True)
 def advance_linearised(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                       link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                       link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
                        mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                        n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
                        peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
     """The linearised mode for B configurations, one after another (see ``ARGS_DOC``); releases the GIL."""
     for b in range(T0.shape[0]):
         _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
                                 mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                                 n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
                                 peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts)
@@ -210,14 +211,14 @@ def advance_linearised(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_ful
 
 @njit(cache=True, parallel=True, error_model="numpy")
 def advance_linearised_parallel(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
                                 mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                                 n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
                                 peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
     """``advance_linearised`` with the configurations spread over the CPU cores."""
     for b in prange(T0.shape[0]):
         _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
+                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
                                 mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
                                 n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
                                 peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts)
