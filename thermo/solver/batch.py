@@ -232,13 +232,14 @@ class KernelNetwork:
             if not inside:
                 continue                             # off the table: the kernel flags it as usual
             slot_sliced[s] = True
-            for b in range(self.size):
-                key = (int(self.tix[b, s]), q)
+            used, which = np.unique(self.tix[:, s], return_inverse=True)
+            for u, table in enumerate(used):
+                key = (int(table), q)
                 if key not in index:
                     t = self.tables[key[0]]
                     index[key] = len(slices)
                     slices.append(t[:, :, k] + fk * (t[:, :, k + 1] - t[:, :, k]))
-                six[b, s] = index[key]
+                six[which.reshape(-1) == u, s] = index[key]
         sliced = np.ascontiguousarray(np.stack(slices)).reshape(-1) if slices else np.zeros(1)
         return sliced, slot_sliced, six
 
@@ -257,9 +258,9 @@ MIN_LANES = 4    # narrower blocks are no cheaper per configuration than the one
 def lane_width(configurations: int, cores: int | None = None) -> int:
     """Configurations per block of the lane kernel: the batch shared evenly over the CPU cores,
     ceil(B / cores), but at most ``kernel_lanes.LANES`` (so up to ``cores`` blocks; with more
-    than ``LANES`` configurations a core, blocks of ``LANES``). Measured on the demo corner, one core, cost per configuration
-    and step: one-configuration kernel about 2.1 us; lanes 1: 3.7, 2: 2.2, 4: 1.4, 8: 0.9,
-    16: 0.66, 32: 0.55, 64: 0.48 us (hence ``MIN_LANES`` and ``LANES``)."""
+    than ``LANES`` configurations a core, blocks of ``LANES``). Measured on the demo corner, one
+    core, cost per configuration and step: one-configuration kernel about 2.1 us; lanes 1: 3.7,
+    2: 2.2, 4: 1.4, 8: 0.9, 16: 0.66, 32: 0.55, 64: 0.48 us (hence ``MIN_LANES`` and ``LANES``)."""
     cores = max(1, cores if cores is not None else (os.cpu_count() or 1))
     return int(max(1, min(kernel_lanes.LANES, -(-configurations // cores))))
 

@@ -397,6 +397,16 @@ def _flow_update(fx, dfa, dfb, dY, n, link_a, link_b):
 
 
 @njit(cache=True, error_model="numpy")
+def _scratch(n, L, n_axes):
+    """Work arrays of one configuration's run: node vectors, the stage matrix and its pivots, link
+    flows and slopes, and the table-axis scratch of ``_flows``."""
+    e = lambda: np.empty(n)
+    return (e(), e(), e(), e(), e(), e(), e(), e(), np.empty((n, n)), np.zeros(n, dtype=np.int64),
+            np.empty(L), np.empty(L), np.empty(L), np.empty(L), np.empty(L), e(), e(),
+            np.zeros(n_axes, dtype=np.int64), np.zeros(n_axes), np.zeros(n_axes, dtype=np.bool_))
+
+
+@njit(cache=True, error_model="numpy")
 def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
                  link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
                  mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
@@ -407,27 +417,8 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
     L = link_a.size
     N = h.size
     T = T0[b].copy()
-    Y = np.empty(n)
-    C = np.empty(n)
-    H = np.empty(n)
-    H0 = np.empty(n)
-    R = np.empty(n)
-    r1 = np.empty(n)
-    r2 = np.empty(n)
-    tgt = np.empty(n)
-    A = np.empty((n, n))
-    piv = np.zeros(n, dtype=np.int64)
-    f1 = np.empty(L)
-    f2 = np.empty(L)
-    f3 = np.empty(L)
-    dfa = np.empty(L)
-    dfb = np.empty(L)
-    q2 = np.empty(n)
-    q3 = np.empty(n)
-    n_ax = drv_grid.shape[1] + bk_grid.shape[1]
-    ax_i = np.zeros(n_ax, dtype=np.int64)
-    ax_f = np.zeros(n_ax)
-    ax_ok = np.zeros(n_ax, dtype=np.bool_)
+    (Y, C, H, H0, R, r1, r2, tgt, A, piv, f1, f2, f3, dfa, dfb, q2, q3,
+     ax_i, ax_f, ax_ok) = _scratch(n, L, drv_grid.shape[1] + bk_grid.shape[1])
     pb = par[b]
     tb_ix = tix[b]
     sx = six[b]

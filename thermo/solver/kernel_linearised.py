@@ -33,7 +33,7 @@ from numba import njit, prange
 
 from thermo.solver.kernel import (D_WEIGHT, FACTOR_FAILED, STATUS_NEWTON, STATUS_NONFINITE, STATUS_OK,
                                   STATUS_OUTSIDE_GRID, W_WEIGHT, _capacity_enthalpy, _factor, _flow_update,
-                                  _flows, _net_inflow, _residual, _solve, _sources)
+                                  _flows, _net_inflow, _residual, _scratch, _solve, _sources)
 
 
 @njit(cache=True, error_model="numpy")
@@ -67,36 +67,18 @@ def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid
                             peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
     """Configuration b driven over the grid ``n_laps`` times in the linearised mode.
 
-    Each stage: the flows at its first guess (T_n for Y2, Y2 for Y3) with the matrix at T_n, one
-    chord correction, then one more with the exact enthalpy and the linearised flows (see the
-    module notes). The first stage's guess is T_n, whose enthalpy H0 is already known."""
+    Each stage: the flows at its first guess (T_n for Y2, Y2 for Y3) with the matrix at T_n and
+    one linear solve; the second stage then one more chord correction with the exact enthalpy and
+    the linearised flows (see the module notes). The first stage's guess is T_n, whose enthalpy
+    H0 is already known."""
     n = T0.shape[1]
     L = link_a.size
     N = h.size
     n_out = w_ptr.size - 1
     T = T0[b].copy()
-    Y = np.empty(n)
-    C = np.empty(n)
-    H = np.empty(n)
-    H0 = np.empty(n)
-    R = np.empty(n)
-    r1 = np.empty(n)
-    r2 = np.empty(n)
-    tgt = np.empty(n)
-    A = np.empty((n, n))
-    piv = np.zeros(n, dtype=np.int64)
-    f1 = np.empty(L)
-    f2 = np.empty(L)
-    f3 = np.empty(L)
-    dfa = np.empty(L)
-    dfb = np.empty(L)
-    q2 = np.empty(n)
-    q3 = np.empty(n)
+    (Y, C, H, H0, R, r1, r2, tgt, A, piv, f1, f2, f3, dfa, dfb, q2, q3,
+     ax_i, ax_f, ax_ok) = _scratch(n, L, drv_grid.shape[1] + bk_grid.shape[1])
     lp = np.empty(max(n_out, 1))
-    n_ax = drv_grid.shape[1] + bk_grid.shape[1]
-    ax_i = np.zeros(n_ax, dtype=np.int64)
-    ax_f = np.zeros(n_ax)
-    ax_ok = np.zeros(n_ax, dtype=np.bool_)
     pb = par[b]
     tb_ix = tix[b]
     sx = six[b]
