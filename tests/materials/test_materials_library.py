@@ -114,6 +114,11 @@ def test_user_file_adds_a_material(tmp_path):
     (GOOD.replace('description = "an invented alloy for the test"\n', ""), "missing key"),
     (GOOD + '[test_alloy.emissivity]\nvalue = 1.5\nsource = "x"\n', r"emissivity must lie in \(0, 1\]"),
     (GOOD + '[test_alloy.emissivity]\nvalue = 0.5\nlow = 0.4\nsource = "x"\n', "both low and high"),
+    (GOOD + '[test_alloy.service_limit]\nvalue_k = 400.0\nsource = "x"\n',
+     r"\[test_alloy.service_limit\]: unknown key 'value_k'; did you mean 'value_c'"),
+    (GOOD + '[test_alloy.service_limit]\nvalue_c = "hot"\nsource = "x"\n', r"service_limit\] value_c: expected a number"),
+    (GOOD + '[test_alloy.service_limit]\nvalue_c = 200.0\n', r"\[test_alloy.service_limit\]: missing key\(s\) source"),
+    (GOOD + '[test_alloy.service_limit]\nvalue_c = -300.0\nsource = "x"\n', "service limit must be a temperature"),
 ])
 def test_bad_files_are_rejected_naming_the_key(tmp_path, bad, message):
     path = tmp_path / "bad.toml"
@@ -126,3 +131,61 @@ def test_bad_files_are_rejected_naming_the_key(tmp_path, bad, message):
 def test_missing_file_is_a_material_error(tmp_path):
     with pytest.raises(MaterialError, match="cannot read"):
         load_materials(tmp_path / "nope.toml")
+
+
+def test_service_limit_is_optional_and_read_in_kelvin(tmp_path):
+    path = tmp_path / "mine.toml"
+    path.write_text(GOOD + '[test_alloy.service_limit]\nvalue_c = 250.0\nbasis = "invented"\nsource = "invented"\n')
+    alloy = load_materials(path)["test_alloy"]
+    assert alloy.service_limit_k == pytest.approx(250.0 + KELVIN_AT_0C)
+    assert (alloy.service_limit_basis, alloy.service_limit_source) == ("invented", "invented")
+    (tmp_path / "plain.toml").write_text(GOOD)
+    plain = load_materials(tmp_path / "plain.toml")["test_alloy"]
+    assert plain.service_limit_k is None and plain.service_limit_source == ""
+
+
+@pytest.mark.parametrize("name, limit_c, cited", [
+    # Badea, Surand, Ruau, Viguier, U.P.B. Sci. Bull. B 76(1) 2014: industrial use of Ti-6Al-4V limited to 400 degC
+    ("titanium_6al_4v", 400.0, "Badea"),
+    # Donovan, Fortune, Trout, Cal Poly San Luis Obispo 2015: 6061-T6 yield held above the minimum at 350 degF (177 degC)
+    ("aluminium_6061_t6", 177.0, "Donovan"),
+    # producer's data bulletin for UNS S17400: good mechanical properties up to 600 degF (316 degC)
+    ("stainless_17_4ph", 316.0, "600 degF"),
+    # AA typical values: 7075-T6 tensile strength 572 MPa at room temperature, about 110 MPa at 205 degC,
+    # so it is halved below 205 degC; 140 degC sits between the 100 and 150 degC typical values (from memory)
+    ("aluminium_7075_t6", 140.0, "572 MPa"),
+    # from memory (Kaufman, ASM / Aluminum Association 1999, not checked): 2618-T61 strength halved near 200 degC
+    ("aluminium_2618_t61", 200.0, "from memory"),
+    # common practice, no published source: grey-iron disc sustained below about 700-800 degC
+    ("grey_cast_iron", 700.0, "common practice"),
+])
+def test_packaged_service_limits_and_their_sources(name, limit_c, cited):
+    material = get_material(name)
+    assert material.service_limit_k == pytest.approx(limit_c + KELVIN_AT_0C)
+    assert cited in material.service_limit_source and material.service_limit_basis
+
+
+def test_every_service_limit_has_a_source_and_lies_below_melting():
+    with_limit = [m for m in load_materials().values() if m.service_limit_k is not None]
+    assert {m.name for m in with_limit} >= {"titanium_6al_4v", "steel_4340", "stainless_17_4ph", "bearing_steel_52100",
+                                            "aluminium_2618_t61", "aluminium_6061_t6", "aluminium_7075_t6"}
+    for m in with_limit:
+        assert len(m.service_limit_source) > 10, m.name
+    # heat-treated aluminium alloys lose strength far below melting (solidus of 6061 about 582 degC, data sheet)
+    for name in ("aluminium_2618_t61", "aluminium_6061_t6", "aluminium_7075_t6"):
+        assert get_material(name).service_limit_k < 300.0 + KELVIN_AT_0C
+    # the fluid's limit is its boiling point (thermo.limits), not a material service limit
+    assert get_material("brake_fluid_glycol").service_limit_k is None
+
+
+def test_property_data_end_is_the_first_table_to_run_out():
+    # grey iron specific heat and conductivity tables of materials.toml both end at 800 degC
+    iron = get_material("grey_cast_iron")
+    assert iron.property_data_end_k == pytest.approx(800.0 + KELVIN_AT_0C)
+    assert iron.property_data_ranges_k["conductivity"] == pytest.approx((293.15, 1073.15))
+    # 7075-T6: specific heat to 200 degC, conductivity one row (a constant, no range)
+    alloy = get_material("aluminium_7075_t6")
+    assert alloy.property_data_end_k == pytest.approx(200.0 + KELVIN_AT_0C)
+    assert set(alloy.property_data_ranges_k) == {"specific heat"}
+    # every table of the organic pad has one row: no range to leave
+    assert get_material("pad_organic").property_data_end_k is None

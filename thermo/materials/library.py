@@ -27,11 +27,16 @@ TOML format (one table per material; the table name is the material name)::
     temperature_c = [200.0, 600.0]            # optional table, with value_table
     value_table = [0.64, 0.78]
     source = "..."
+    [grey_cast_iron.service_limit]                                    # optional
+    value_c = 700.0                           # highest temperature for service [degC]
+    basis = "what the limit is: strength halved, maker's continuous rating ..."   # optional
+    source = "..."
 
 Every section needs a non-empty ``source``. Unknown keys are errors (with a suggestion), as are
 missing keys, tables of unequal length, non-increasing temperatures and non-positive values.
-Tables are interpolated linearly in T and held constant beyond their ends. Temperatures are
-degC only in the file; the Material holds kelvin.
+Tables are interpolated linearly in T and held constant beyond their ends
+(:attr:`Material.property_data_end_k` says where the data of tables of two or more rows end).
+Temperatures are degC only in the file; the Material holds kelvin.
 """
 from __future__ import annotations
 
@@ -54,7 +59,7 @@ from thermo.network.elements import HeatCapacity
 PACKAGED_FILE = "materials.toml"
 
 _MATERIAL_KEYS = {"description", "density", "specific_heat", "conductivity", "conductivity_in_plane",
-                  "emissivity"}
+                  "emissivity", "service_limit"}
 _REQUIRED_KEYS = {"description", "density", "specific_heat", "conductivity"}
 _SECTION_KEYS = {
     "density": ({"value_kg_m3", "source"}, set()),
@@ -62,6 +67,7 @@ _SECTION_KEYS = {
     "conductivity": ({"temperature_c", "value_w_mk", "source"}, set()),
     "conductivity_in_plane": ({"temperature_c", "value_w_mk", "source"}, set()),
     "emissivity": ({"value", "source"}, {"low", "high", "temperature_c", "value_table"}),
+    "service_limit": ({"value_c", "source"}, {"basis"}),
 }
 
 Table = tuple[tuple[float, ...], tuple[float, ...]]
@@ -83,6 +89,8 @@ class Material:
     emissivity_range : tuple or None  (low, high) plausible emissivities [-]
     emissivity_table : tuple or None  (temperatures, emissivities) [K], [-]
     conductivity_in_plane_table : tuple or None  (temperatures, conductivities) in-plane [K], [W/(m K)]
+    service_limit_k : float or None  Highest temperature for service of a part of this material [K]
+    service_limit_basis : str  What that limit is (strength halved, maker's rating ...) [-]
     """
 
     name: str
@@ -95,6 +103,8 @@ class Material:
     emissivity_range: tuple[float, float] | None = None
     emissivity_table: Table | None = None
     conductivity_in_plane_table: Table | None = None
+    service_limit_k: float | None = None
+    service_limit_basis: str = ""
 
     def __post_init__(self):
         where = f"material '{self.name}'"
@@ -116,9 +126,33 @@ class Material:
         present = {"density", "specific_heat", "conductivity"}
         present |= {"emissivity"} if self.emissivity is not None else set()
         present |= {"conductivity_in_plane"} if self.conductivity_in_plane_table is not None else set()
+        if self.service_limit_k is not None:
+            if not (math.isfinite(self.service_limit_k) and self.service_limit_k > 0):
+                raise MaterialError(f"{where}: service limit must be a temperature above absolute zero, "
+                                    f"got {self.service_limit_k!r} K")
+            present.add("service_limit")
         for key in sorted(present):
             if not str(self.sources.get(key, "")).strip():
                 raise MaterialError(f"{where}: property '{key}' needs a source (or 'from memory')")
+
+    @property
+    def service_limit_source(self) -> str:
+        """Where the service limit comes from ('' when the material has none)."""
+        return str(self.sources.get("service_limit", "")) if self.service_limit_k is not None else ""
+
+    @property
+    def property_data_ranges_k(self) -> dict[str, tuple[float, float]]:
+        """(first, last) temperature [K] of each specific-heat or conductivity table of two or more rows."""
+        tables = {"specific heat": self.specific_heat_table, "conductivity": self.conductivity_table,
+                  "in-plane conductivity": self.conductivity_in_plane_table}
+        return {name: (float(t[0][0]), float(t[0][-1])) for name, t in tables.items()
+                if t is not None and len(t[0]) >= 2}
+
+    @property
+    def property_data_end_k(self) -> float | None:
+        """Temperature [K] where the first of those tables ends (None: only one-row constants)."""
+        ranges = self.property_data_ranges_k
+        return min(hi for _, hi in ranges.values()) if ranges else None
 
     def specific_heat(self, temperature_k):
         """Specific heat c(T) [J/(kg K)], held constant beyond the table."""
@@ -222,6 +256,13 @@ def material_from_dict(name: str, data: dict, origin: str = "materials") -> Mate
             raise MaterialError(f"{swhere}: give both temperature_c and value_table, or neither")
         if "temperature_c" in section:
             emissivity_table = _table(swhere, section, "value_table")
+    limit_k, basis = None, ""
+    if "service_limit" in sections:
+        section, swhere = sections["service_limit"]
+        limit_k = _number(f"{swhere} value_c", section["value_c"]) + KELVIN_AT_0C
+        basis = section.get("basis", "")
+        if not isinstance(basis, str):
+            raise MaterialError(f"{swhere}: basis must be a string saying what the limit is")
     in_plane = None
     if "conductivity_in_plane" in sections:
         in_plane = _table(sections["conductivity_in_plane"][1], sections["conductivity_in_plane"][0], "value_w_mk")
@@ -238,6 +279,8 @@ def material_from_dict(name: str, data: dict, origin: str = "materials") -> Mate
         emissivity_range=emissivity_range,
         emissivity_table=emissivity_table,
         conductivity_in_plane_table=in_plane,
+        service_limit_k=limit_k,
+        service_limit_basis=basis,
     )
 
 
