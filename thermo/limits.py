@@ -1,18 +1,23 @@
 """Temperature limits of a brake corner and the checks of a run against them.
 
 Brake fluid boiling points: the FMVSS No. 116 minimum equilibrium reflux boiling points (ERBP)
-are built in; racing fluids carry their maker's figures, entered by the user. The remaining
-limits (bearing grease, piston seal, caliper body, disc, pad) are common-practice defaults that
-the user overrides with the makers' figures.
+are built in; racing fluids carry their maker's figures, entered by the user. Between dry and
+wet the boiling point follows a published curve of boiling point against water content (see
+:func:`boiling_drop_share`). The remaining limits (bearing grease, piston seal, caliper body,
+disc, pad) are common-practice defaults that the user overrides with the makers' figures; parts
+with no such limit are checked against their material's service limit (materials.toml).
 """
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
+from typing import Mapping
 
 import numpy as np
 
-from lapdata.units import celsius_to_kelvin
+from lapdata.units import celsius_to_kelvin, kelvin_to_celsius
 from thermo.errors import ScenarioError
+from thermo.materials import Material
 from thermo.results import CheckResult
 
 # FMVSS No. 116, 49 CFR 571.116, S5.1.1 (dry ERBP) and S5.1.2 (wet ERBP), minimums [degC].
@@ -26,15 +31,66 @@ FMVSS116_SOURCE = "FMVSS No. 116 (49 CFR 571.116) minimum equilibrium reflux boi
 # "Wet" ERBP is measured after humidification to about 3.7 % water by mass (FMVSS 116 S7.2).
 WET_WATER_CONTENT_PCT = 3.7
 
+# Vapour lock point of glycol brake fluid against water content [(water %, degC)], as stated in
+# J. Keen, "Vapour lock in car braking systems", TRRL Laboratory Report LR 903, Transport and
+# Road Research Laboratory, Crowthorne, 1979 (abstract, TRID accession 00384731): "a water content
+# of 1 % ... reduces the vapour lock point from around 250 degC to around 180 degC, with further
+# increases in water content having progressively less effect"; "3 % or more water ...
+# corresponding to a vapour lock point of about 145 degC". Rounded values, as the report states them.
+KEEN_1979_POINTS_PCT_C = ((0.0, 250.0), (1.0, 180.0), (3.0, 145.0))
+KEEN_1979_SOURCE = ("Keen, Vapour lock in car braking systems, TRRL Laboratory Report LR 903 (1979): "
+                    "about 250, 180 and 145 degC at 0, 1 and 3 % water")
+
+
+def _keen_exponential() -> tuple[float, float]:
+    """(decay length w0 [% water], total drop A [K]) of B(w) = B0 - A (1 - exp(-w / w0)) through Keen's points.
+
+    The three points lie at 0, a and 3a % water, so with x = exp(-a / w0) the drops d1 = A (1 - x)
+    and d3 = A (1 - x^3) give 1 + x + x^2 = d3 / d1, a quadratic in x.
+    """
+    (w_0, b_0), (w_1, b_1), (w_3, b_3) = KEEN_1979_POINTS_PCT_C
+    assert w_0 == 0.0 and math.isclose(w_3, 3.0 * w_1)
+    ratio = (b_0 - b_3) / (b_0 - b_1)
+    x = (-1.0 + math.sqrt(4.0 * ratio - 3.0)) / 2.0
+    return -w_1 / math.log(x), (b_0 - b_1) / (1.0 - x)
+
+
+KEEN_DECAY_PCT, KEEN_TOTAL_DROP_K = _keen_exponential()
+
+
+def boiling_drop_share(water_pct):
+    """Share of the dry-to-wet boiling-point drop reached at a water content [-] (0 dry, 1 at 3.7 %).
+
+    An exponential fall B(w) = B0 - A (1 - exp(-w / w0)) passed exactly through the three points
+    of Keen (1979, ``KEEN_1979_POINTS_PCT_C``): w0 = 0.995 % water, A = 110.4 K. Normalised by
+    its drop at the FMVSS 116 wet water content (3.7 %) it scales to any fluid's dry and wet
+    points; about 65 % of the drop comes in the first percent of water. Glycol fluids measured in
+    1979: a modern or silicone fluid may fall otherwise; the maker's table governs where given.
+    Beyond 3.7 % the fit flattens (at most 2.5 % of the drop further) while real fluids keep
+    falling: no published point of this source lies there, so measure such a fluid.
+
+    Parameters
+    ----------
+    water_pct : float or array  Water content [% by mass]
+
+    Returns
+    -------
+    float or array  Share of the dry-to-wet drop [-]
+    """
+    w = np.maximum(np.asarray(water_pct, dtype=float), 0.0)
+    share = -np.expm1(-w / KEEN_DECAY_PCT) / -math.expm1(-WET_WATER_CONTENT_PCT / KEEN_DECAY_PCT)
+    return float(share) if share.ndim == 0 else share
+
 
 @dataclass(frozen=True)
 class FluidSpec:
     """A brake fluid's boiling points and its water content in service.
 
-    The boiling point at the stated water content is interpolated linearly between dry (0 %)
-    and wet (3.7 %) and held at the wet value beyond: a documented simplification (the real
-    curve falls most steeply over the first percent), unless the user gives a table of
-    (water %, boiling point) pairs, which is then interpolated instead.
+    The boiling point at the stated water content follows the published curve of Keen (1979,
+    TRRL LR 903; see :func:`boiling_drop_share`) scaled to this fluid's dry (0 %) and wet (3.7 %)
+    points: most of the drop comes in the first percent of water, so it lies below a straight
+    line from dry to wet (the safe side). A user table of (water %, boiling point) pairs, when
+    given, is interpolated instead (held at its end values beyond).
     """
 
     name: str
@@ -77,8 +133,14 @@ class FluidSpec:
         if self.boiling_table:
             water, boil = zip(*self.boiling_table)
             return float(np.interp(w, water, boil))
-        share = min(w / WET_WATER_CONTENT_PCT, 1.0)
-        return self.dry_boiling_c + share * (self.wet_boiling_c - self.dry_boiling_c)
+        return self.dry_boiling_c - boiling_drop_share(w) * (self.dry_boiling_c - self.wet_boiling_c)
+
+    @property
+    def water_curve_source(self) -> str:
+        """Where the boiling point at the stated water content comes from."""
+        if self.boiling_table:
+            return "user table, interpolated"
+        return f"published curve ({KEEN_1979_SOURCE}), scaled to this fluid's dry and wet points"
 
 
 @dataclass(frozen=True)
@@ -88,7 +150,8 @@ class Limits:
     Defaults (common practice, no published source): wheel-bearing grease 150 degC with caution
     from 120 degC; EPDM piston seal 175 degC (the SAE J1603 dry-air test temperature) with a 25 K
     band; aluminium caliper body 200 degC; grey-iron disc 750 degC; pad 650 degC (the pad maker's
-    window governs).
+    window governs). Parts with no limit here are checked against their material's service limit
+    (materials.toml) with a ``material_caution_band_k`` band.
     """
 
     bearing_c: float = 150.0
@@ -102,6 +165,7 @@ class Limits:
     pad_c: float = 650.0
     pad_caution_band_k: float = 50.0
     fluid_caution_band_k: float = 20.0
+    material_caution_band_k: float = 20.0
 
     def __post_init__(self):
         for key, value in self.__dict__.items():
@@ -123,30 +187,76 @@ class CheckSpec:
     source: str
 
 
-def check_specs(fluid: FluidSpec, limits: Limits, disc_node: str = "disc") -> tuple[CheckSpec, ...]:
+def check_specs(fluid: FluidSpec, limits: Limits, disc_node: str = "disc", *, fluid_node: str = "fluid",
+                node_materials: Mapping[str, Material] | None = None) -> tuple[CheckSpec, ...]:
     """The checks of one corner, in report order.
 
     ``disc_node`` is the disc temperature checked against the disc limit: the friction surface
-    (``disc_surface``) when the disc is layered, else the lumped ``disc``.
+    (``disc_surface``) when the disc is layered, else the lumped ``disc``. ``fluid_node`` is the
+    node every fluid boiling check reads (e.g. the fluid at the piston face, its hottest place).
     Fluid vapour forms when line pressure is released, so the fluid is compared with the
     atmospheric boiling point (common practice, no published source).
+
+    ``node_materials`` (node name -> Material) adds, after the checks above, one check
+    ``<node>_material`` (e.g. ``piston_material``) for each node whose material has a service
+    limit and that no check above already watches; its limit and source are the material's.
     """
     c2k = celsius_to_kelvin
     band = limits.fluid_caution_band_k
-    return (
-        CheckSpec("fluid_boiling_dry", "fluid", c2k(fluid.dry_boiling_c), band, f"{fluid.name}: {fluid.source}, dry"),
-        CheckSpec("fluid_boiling_wet", "fluid", c2k(fluid.wet_boiling_c), band,
+    specs = [
+        CheckSpec("fluid_boiling_dry", fluid_node, c2k(fluid.dry_boiling_c), band, f"{fluid.name}: {fluid.source}, dry"),
+        CheckSpec("fluid_boiling_wet", fluid_node, c2k(fluid.wet_boiling_c), band,
                   f"{fluid.name}: {fluid.source}, wet ({WET_WATER_CONTENT_PCT} % water)"),
-        CheckSpec("fluid_boiling_at_water_content", "fluid", c2k(fluid.boiling_at_water_c()), band,
-                  f"{fluid.name} at {fluid.water_content_pct:g} % water: "
-                  + ("user table, interpolated" if fluid.boiling_table else "linear between dry and wet")),
+        CheckSpec("fluid_boiling_at_water_content", fluid_node, c2k(fluid.boiling_at_water_c()), band,
+                  f"{fluid.name} at {fluid.water_content_pct:g} % water: {fluid.water_curve_source}"),
         CheckSpec("bearing_grease", "bearing", c2k(limits.bearing_c), limits.bearing_caution_band_k, LIMIT_SOURCE_PRACTICE),
         CheckSpec("piston_seal", "piston_seal", c2k(limits.piston_seal_c), limits.piston_seal_caution_band_k,
                   "SAE J1603 dry-air seal test temperature as default; seal maker governs"),
         CheckSpec("caliper_body", "caliper", c2k(limits.caliper_c), limits.caliper_caution_band_k, LIMIT_SOURCE_PRACTICE),
         CheckSpec("disc_max", disc_node, c2k(limits.disc_c), limits.disc_caution_band_k, LIMIT_SOURCE_PRACTICE),
         CheckSpec("pad_max", "pad", c2k(limits.pad_c), limits.pad_caution_band_k, "pad maker's window governs; default common practice"),
-    )
+    ]
+    watched = {s.node for s in specs}
+    for node, material in (node_materials or {}).items():
+        if material.service_limit_k is None or node in watched:
+            continue
+        specs.append(CheckSpec(f"{node}_material", node, material.service_limit_k, limits.material_caution_band_k,
+                               f"{material.name} service limit ({material.service_limit_basis}): "
+                               f"{material.service_limit_source}"))
+        watched.add(node)
+    return tuple(specs)
+
+
+def property_range_warnings(corner_name: str, node_materials: Mapping[str, Material],
+                            node_peaks_k: Mapping[str, float]) -> list[str]:
+    """One warning line per node whose peak lies above the end of its material's property tables.
+
+    Beyond the last row of its specific-heat or conductivity table a material's properties are
+    held constant (see :mod:`thermo.materials`), so the temperatures there rest on extrapolated
+    data. Tables of one row declare a constant and set no range. Nodes without a peak are skipped.
+
+    Parameters
+    ----------
+    corner_name : str  Corner named in each line [-]
+    node_materials : mapping  Node name -> Material [-]
+    node_peaks_k : mapping  Node name -> peak temperature of the run [K]
+
+    Returns
+    -------
+    list of str  One line per node out of range, in the order of ``node_materials`` [-]
+    """
+    lines = []
+    for node, material in node_materials.items():
+        peak = node_peaks_k.get(node)
+        end = material.property_data_end_k
+        if peak is None or end is None or not math.isfinite(peak) or peak <= end:
+            continue
+        ranges = ", ".join(f"{name} {kelvin_to_celsius(lo):.0f}-{kelvin_to_celsius(hi):.0f} degC"
+                           for name, (lo, hi) in material.property_data_ranges_k.items())
+        lines.append(f"corner {corner_name}: node {node} peaks at {kelvin_to_celsius(peak):.1f} degC, above the "
+                     f"end of the property data of {material.name} ({ranges}); properties are held constant "
+                     f"beyond, so this temperature rests on extrapolated data")
+    return lines
 
 
 def status_of(margin_k: float, caution_band_k: float) -> str:
