@@ -105,6 +105,8 @@ LIMITS = {
     "disc_c": f("disc_c", 750.0), "disc_caution_band_k": f("disc_caution_band_k", 50.0, minimum=0.0),
     "pad_c": f("pad_c", 650.0), "pad_caution_band_k": f("pad_caution_band_k", 50.0, minimum=0.0),
     "fluid_caution_band_k": f("fluid_caution_band_k", 20.0, minimum=0.0),
+    "material_caution_band_k": f("material_caution_band_k", 20.0, minimum=0.0,
+                                 doc="band of the checks against a part's material service limit"),
 }
 
 CORNER = {
