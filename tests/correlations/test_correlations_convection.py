@@ -172,3 +172,32 @@ def test_arrays_go_through():
     with warnings.catch_warnings():
         warnings.simplefilter("error")
         forced.nusselt_flat_plate_incropera(np.linspace(1e3, 1e7, 9), 0.7)
+
+
+@pytest.mark.parametrize("re", [10.0, 300.0, 1000.0, 2299.0])
+@pytest.mark.parametrize("length", [0.03, 0.065, 1.0])
+def test_baehr_stephan_developing_laminar_against_ht(re, length):
+    # oracle: ht.conv_internal.laminar_entry_Baehr_Stephan (Baehr & Stephan, Heat and Mass Transfer)
+    assert forced.nusselt_internal_laminar_developing_baehr_stephan(re, 0.7, 0.012, length) == pytest.approx(
+        conv_internal.laminar_entry_Baehr_Stephan(re, 0.7, length, 0.012), rel=1e-12)
+
+
+@pytest.mark.parametrize("re", [2300.0, 6000.0, 1.0e5])
+def test_gnielinski_developing_is_gnielinski_times_the_entry_factor(re):
+    # oracle: ht.conv_internal.turbulent_Gnielinski with Petukhov's f (Incropera eq. 8.21), times
+    # Gnielinski's (1976) mean entry factor 1 + (d/L)^(2/3) for d/L = 0.2 (hand value: 1.34200)
+    f = (0.790 * np.log(re) - 1.64) ** -2
+    factor = 1.0 + 0.2 ** (2.0 / 3.0)
+    assert factor == pytest.approx(1.34200, abs=1e-5)
+    assert forced.nusselt_internal_developing_gnielinski(re, 0.7, 0.01, 0.05) == pytest.approx(
+        conv_internal.turbulent_Gnielinski(re, 0.7, f) * factor, rel=1e-9)
+
+
+def test_vented_disc_passage_takes_the_larger_of_its_two_published_parts():
+    # definition of the combination: max(Gnielinski developing on Re_relative, Baehr-Stephan on Re_through)
+    d_h, length = 0.011, 0.055
+    turbulent = forced.nusselt_internal_developing_gnielinski(5000.0, 0.7, d_h, length)
+    laminar = forced.nusselt_internal_laminar_developing_baehr_stephan(1500.0, 0.7, d_h, length)
+    assert forced.nusselt_vented_disc_passage(5000.0, 1500.0, 0.7, d_h, length) == pytest.approx(max(turbulent, laminar))
+    # at rest both Reynolds numbers are zero: the fully developed laminar 3.657 (Baehr & Stephan limit)
+    assert forced.nusselt_vented_disc_passage(0.0, 0.0, 0.7, d_h, length) == pytest.approx(3.657, rel=1e-3)
