@@ -76,7 +76,7 @@ def test_disc_eye_duct_conductance_is_the_ntu_form_of_its_own_h(front):
     v, ts, ta = _grid()
     film = np.maximum(0.5 * (ts + ta), 200.0)
     mdot = front.ducts[0].mass_flow_kg_s(v, air.air_density(101300.0, ta))
-    h_area = front.airflow.duct_effectiveness_multiplier * paths.passage_h_area(mdot, film, path.passages)
+    h_area = front.airflow.duct_effectiveness_multiplier * paths.passage_h_area(mdot, film, path.passages, v)
     c_rate = mdot * air.air_specific_heat(film)
     expected = c_rate * (1.0 - np.exp(-h_area / c_rate))          # Kays & London eps-NTU
     assert path(v, ts, ta) == pytest.approx(expected, rel=1e-12)
@@ -135,3 +135,119 @@ def test_limpert_disc_form_against_its_formula_and_it_cools_more_than_the_rotati
     limpert = RotatingDiscFaces(*args, face_correlation="limpert")(speeds, 900.0, 300.0)
     # the two readings differ by about 3x at speed (physics reference, section 3)
     assert np.all(limpert > 1.5 * rotating)
+
+
+# --- vane passages and disc faces against published measurements ------------------------------
+# McPhee & Johnson, "Experimental heat transfer and flow analysis of a vented brake rotor",
+# Int. J. Thermal Sciences 47 (2008) 458-467, abstract: a rotor spun on a rig in still air, cooled
+# transiently; passage (fin) h = 27.0, 52.7, 78.3 W/(m^2 K) at 342, 684, 1025 rpm, "indicating a
+# linear relationship"; internal convection 45.5 % of the total heat transfer at 342 rpm, 55.4 %
+# at 1025 rpm. The rotor's dimensions are not in the text read (abstract only), so the rig rotor
+# is stood in for by typical passenger-car vented rotors (from memory, no single published rotor):
+MCPHEE_RPM = np.array([342.0, 684.0, 1025.0])
+MCPHEE_H = np.array([27.0, 52.7, 78.3])                               # [W/(m^2 K)], measured
+TYPICAL_ROTORS = [  # outer, inner diameter, thickness, cheek, vane count, vane thickness [m] (from memory)
+    (0.300, 0.190, 0.028, 0.0085, 36, 0.006),
+    (0.280, 0.180, 0.026, 0.0080, 37, 0.007),
+    (0.320, 0.200, 0.030, 0.0090, 40, 0.006),
+    (0.300, 0.200, 0.024, 0.0075, 30, 0.008),
+]
+
+
+def _rig_passages(outer, inner, thickness, cheek, vanes, vane_t):
+    from thermo.corner.geometry import DiscGeometry
+    d = DiscGeometry("grey_cast_iron", outer, inner, thickness, True, cheek, vanes, vane_t)
+    # rolling radius 1 m: the "car speed" in m/s is the rotor's angular speed in rad/s
+    return paths.VanePassages(d.passage_wetted_area_m2, d.passage_flow_area_m2, d.passage_hydraulic_diameter_m,
+                              d.passage_length_m, outer / 2, 1.0, d.vane_pumping_coefficient, 1.0, 101325.0)
+
+
+def _passage_h(passages, omega, surface_k, air_k=295.0):
+    air_k = np.full(np.shape(omega), air_k)
+    film = 0.5 * (surface_k + air_k)
+    h_area = paths.passage_h_area(passages.pumped_mass_flow(omega, air_k), film, passages, omega)
+    return h_area / passages.wetted_area_m2
+
+
+@pytest.mark.parametrize("rotor", TYPICAL_ROTORS)
+@pytest.mark.parametrize("surface_k", [330.0, 400.0])
+def test_vane_passage_h_against_mcphee_johnson_2008(rotor, surface_k):
+    omega = MCPHEE_RPM * np.pi / 30
+    h = _passage_h(_rig_passages(*rotor), omega, surface_k)
+    # McPhee & Johnson (2008), abstract: 27.0, 52.7, 78.3 W/(m^2 K). Tolerance 25 %: the rig
+    # rotor's dimensions are unknown here (the typical rotors above spread the prediction by
+    # about +-10 %) and a transient cooling test separating internal from external convection
+    # is itself uncertain by some 10 % (from memory)
+    assert h == pytest.approx(MCPHEE_H, rel=0.25)
+
+
+def test_vane_passage_h_rises_about_linearly_with_speed_as_measured():
+    omega = MCPHEE_RPM * np.pi / 30
+    for rotor in TYPICAL_ROTORS:
+        h = _passage_h(_rig_passages(*rotor), omega, 350.0)
+        # McPhee & Johnson (2008), abstract: measured ratios 52.7/27.0 = 1.95 and 78.3/27.0 = 2.90
+        # (linear in rpm); within 20 %, where a fully developed laminar tube's cube root gives 1.26, 1.44
+        assert h[1:] / h[0] == pytest.approx(MCPHEE_H[1:] / MCPHEE_H[0], rel=0.20)
+
+
+def test_fully_developed_tube_correlation_reads_low_as_the_issue_says():
+    # the former vane model (Sieder-Tate / Gnielinski, fully developed, on the through-flow only)
+    # against McPhee & Johnson (2008), abstract, 78.3 W/(m^2 K) at 1025 rpm: less than 60 % of it
+    from thermo.correlations import forced
+    p = _rig_passages(*TYPICAL_ROTORS[0])
+    omega = np.array([1025.0 * np.pi / 30])
+    film = np.array([322.5])
+    u = p.pumped_mass_flow(omega, 295.0) / (air.air_density(101325.0, film) * p.flow_area_m2)
+    re = u * p.hydraulic_diameter_m / air.air_kinematic_viscosity(101325.0, film)
+    old = forced.nusselt_internal_vented_vane(re, air.air_prandtl(film), p.hydraulic_diameter_m, p.passage_length_m) \
+        * air.air_conductivity(film) / p.hydraulic_diameter_m
+    assert old[0] < 0.6 * 78.3
+
+
+def test_disc_face_h_rises_with_speed_as_the_measured_external_share_implies():
+    # McPhee & Johnson (2008), abstract: internal share s = 0.455 at 342 rpm, 0.554 at 1025 rpm, so
+    # h_ext(1025)/h_ext(342) = (78.3/27.0) x [(1 - 0.554)/0.554] / [(1 - 0.455)/0.455] = 1.949
+    # (areas cancel; hand calculation). Rotor in still air: rotating-disc face path, airflow ~ 0.
+    measured_ratio = (78.3 / 27.0) * ((1 - 0.554) / 0.554) / ((1 - 0.455) / 0.455)
+    assert measured_ratio == pytest.approx(1.949, abs=1e-3)
+    omega = np.array([342.0, 1025.0]) * np.pi / 30
+    for outer_radius in (0.14, 0.15, 0.165):
+        faces = paths.RotatingDiscFaces(1.0, outer_radius, 1.0, 1e-9, 1.0, 101325.0)
+        h = faces(omega, np.full(2, 350.0), np.full(2, 295.0))
+        # within 20 %: Cobb & Saunders' laminar Re^0.5 gives 1.70 (the external h measured also
+        # includes the rim and hat, which the ratio cannot separate)
+        assert h[1] / h[0] == pytest.approx(measured_ratio, rel=0.20)
+
+
+def test_stationary_disc_face_natural_convection_against_topouris_2020():
+    # Topouris, Stamenkovic, Olphe-Galliard, Popovic, Tirovic, "Heat dissipation from stationary
+    # passenger car brake discs", Strojniski vestnik 66 (2020) 15-28, abstract: convective h of
+    # stationary discs "typically between 3 and 5 W/(m2K)", increasing with temperature.
+    faces = paths.RotatingDiscFaces(1.0, 0.15, 0.3, 0.5, 1.0, 101325.0)
+    surface = np.array([373.15, 473.15, 573.15, 673.15])
+    h = faces(np.zeros(4), surface, np.full(4, 298.15))
+    assert np.all(np.diff(h) > 0)                     # rises with temperature, as measured
+    # Churchill & Chu's isolated vertical plate (multiplier 1) reads 6-8.5: above the measured band
+    # by up to a factor 2 (the real disc sits on its hub, in its own plume); kept as the published
+    # correlation and stated in README, the bound checks it stays within that factor
+    assert np.all((h > 3.0) & (h < 2 * 5.0))
+
+
+def _paths_of_demo_front(front):
+    model = build_corner(front, 101300.0, grid=None)
+    names = ("disc_vane_convection", "disc_face_convection")
+    found = [link.conductance for link in model.network.links if link.name in names or link.group == "duct"]
+    assert len(found) >= 3
+    return found
+
+
+def test_disc_paths_finite_and_non_negative_over_the_table_grid(front):
+    # the conductance tables (thermo/network/tabulate.py) span speed 0-120 m/s, node T 200-1800 K
+    v, ts = np.meshgrid(np.linspace(0.0, 120.0, 49), np.linspace(200.0, 1800.0, 33), indexing="ij")
+    import warnings
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        for path in _paths_of_demo_front(front):
+            for air_k in (230.0, 300.0, 340.0):
+                g = path(v.ravel(), ts.ravel(), np.full(v.size, air_k))
+                assert np.all(np.isfinite(g)) and np.all(g >= 0.0), type(path).__name__
