@@ -5,6 +5,8 @@ the tests follows from the formulas here (no solver, no hard-coded results).
 """
 from __future__ import annotations
 
+import dataclasses
+
 import numpy as np
 import pytest
 
@@ -96,6 +98,27 @@ def make_results(scale_rear=0.8, **corner_kwargs) -> Results:
         corners=corners, caution=CAUTION, warnings=("duct flow outside correlation range at lap 3",))
 
 
+def lumped_rise(time_s, start_s, t0_k, t_inf_k, tau_s):
+    """Lumped-capacitance approach to a steady temperature after start_s (Incropera, Fundamentals of
+    Heat and Mass Transfer, ch. 5: T - T_inf = (T0 - T_inf) exp(-t / tau)); t0_k before it."""
+    t = np.maximum(np.asarray(time_s, dtype=float) - start_s, 0.0)
+    return t_inf_k + (t0_k - t_inf_k) * np.exp(-t / tau_s)
+
+
+def make_rising_fluid_corner(tau_s=600.0):
+    """The front corner with its fluid still heating when the soak ends: it climbs from 150 degC at
+    the stop towards 200 degC with time constant tau_s (600 s: 300 s of soak leave it rising)."""
+    corner = make_corner()
+    temps = corner.temperatures_k.copy()
+    j = NODES.index("fluid")
+    temps[:, j] = np.where(corner.time_s < STOP_S, AMBIENT_K + 120.0 * corner.time_s / STOP_S,
+                           lumped_rise(corner.time_s, STOP_S, AMBIENT_K + 120.0, AMBIENT_K + 170.0, tau_s))
+    fluid = temps[:, j]
+    checks = (_check("fluid_boiling_dry", "fluid", 503.15, 20.0, fluid, corner.time_s, "FMVSS 116 DOT 4 dry"),
+              corner.checks[2])
+    return dataclasses.replace(corner, temperatures_k=temps, checks=checks)
+
+
 @pytest.fixture
 def results() -> Results:
     return make_results()
@@ -106,4 +129,6 @@ def factory():
     """The builders, for tests that need a variant (more laps, no stop, other extras)."""
     return type("Factory", (), {"results": staticmethod(make_results), "corner": staticmethod(make_corner),
                                 "temperatures": staticmethod(temperatures), "NODES": NODES,
-                                "BUMPS": BUMPS, "STOP_S": STOP_S, "LINKS": LINKS})
+                                "BUMPS": BUMPS, "STOP_S": STOP_S, "LINKS": LINKS,
+                                "rising_fluid_corner": staticmethod(make_rising_fluid_corner),
+                                "lumped_rise": staticmethod(lumped_rise)})

@@ -5,7 +5,10 @@ import numpy as np
 import pytest
 
 from thermo.output import OutputError
-from thermo.output.analysis import heat_path_shares, soak_rows
+from thermo.output.analysis import (
+    STILL_RISING_MIN_RATE_K_S, check_still_rising, heat_path_shares, soak_rows, still_rising_at_end,
+)
+from thermo.results import CheckResult
 
 
 def _corner(factory, time_s, fluid_k, stop):
@@ -62,3 +65,56 @@ def test_link_to_boundary_flags_take_precedence(factory):
     wrong = dataclasses.replace(corner, extras={"link_to_boundary": [True, False]})
     with pytest.raises(OutputError, match="expected 4 true/false values"):
         heat_path_shares(wrong)
+
+
+SOAK_T = np.arange(0.0, 1001.0, 1.0)          # stop at 0 s, a 1000 s soak sampled every second
+
+
+def test_lumped_rise_to_the_end_is_still_rising(factory):
+    # Incropera ch. 5 lumped capacitance: T rises monotonically towards T_inf; with tau 600 s the
+    # 1000 s soak ends at T_inf - 50 exp(-1000/600), 9.4 K short of T_inf and still climbing
+    series = factory.lumped_rise(SOAK_T, 0.0, 400.0, 450.0, 600.0)
+    assert series[-1] == pytest.approx(450.0 - 50.0 * np.exp(-1000.0 / 600.0))
+    assert still_rising_at_end(SOAK_T, series, 0.0)
+
+
+def test_settled_node_is_not_still_rising(factory):
+    # tau 60 s: after 1000 s the last step climbs 50/60 exp(-1000/60) ~ 5e-8 K/s, below the 1e-4 K/s tolerance
+    series = factory.lumped_rise(SOAK_T, 0.0, 400.0, 450.0, 60.0)
+    assert (series[-1] - series[-2]) < STILL_RISING_MIN_RATE_K_S
+    assert not still_rising_at_end(SOAK_T, series, 0.0)
+
+
+def test_peak_in_the_tail_then_falling_is_not_rising():
+    series = 400.0 + 0.05 * SOAK_T
+    series[-1] = series[-2] - 0.5                  # peaked one sample before the end, now falling
+    assert not still_rising_at_end(SOAK_T, series, 0.0)
+
+
+def test_peak_in_the_last_two_percent_with_a_rising_end_is_flagged():
+    series = 400.0 + 0.05 * SOAK_T
+    series[-5:] = series[-6] - np.array([1.0, 0.8, 0.6, 0.4, 0.2])   # dip 5 s before the end, climbing again
+    assert int(np.argmax(series)) == SOAK_T.size - 6                 # peak 5 s before the end: in the last 2 %
+    assert still_rising_at_end(SOAK_T, series, 0.0)
+    series[:500] += 100.0                                            # a higher peak mid-soak: not at the end
+    assert not still_rising_at_end(SOAK_T, series, 0.0)
+
+
+def test_soak_row_and_check_flag_a_rising_fluid(factory):
+    corner = factory.rising_fluid_corner()
+    rows = {r.node: r for r in soak_rows(corner)}
+    assert rows["fluid"].still_rising and rows["fluid"].after_stop_s == pytest.approx(300.0)
+    # the fixture's other bumps peak inside the soak or before the stop
+    assert [n for n, r in rows.items() if r.still_rising] == ["fluid"]
+    fluid_check, bearing_check = corner.checks
+    assert fluid_check.peak_time_s == pytest.approx(1200.0) and check_still_rising(corner, fluid_check)
+    assert not check_still_rising(corner, bearing_check)             # bearing peaks at 1150 s and falls
+    settled = factory.rising_fluid_corner(tau_s=10.0)
+    assert not soak_rows(settled)[0].still_rising
+
+
+def test_check_on_a_missing_node_or_without_soak_is_not_rising(factory):
+    corner = factory.rising_fluid_corner()
+    ghost = CheckResult("x", "fluid_at_piston", 500.0, 450.0, 1200.0, 50.0, "ok", 20.0, "test")
+    assert not check_still_rising(corner, ghost)
+    assert not check_still_rising(dataclasses.replace(corner, stop_time_s=None), corner.checks[0])

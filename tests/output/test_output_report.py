@@ -5,7 +5,7 @@ import pytest
 
 from thermo import CAUTION
 from thermo.output import format_run_report
-from thermo.output.report import AFTER_STOP_MARK
+from thermo.output.report import AFTER_STOP_MARK, STILL_RISING_MARK
 
 
 def _section(text, title):
@@ -100,3 +100,15 @@ def test_bad_pad_thickness_raises(factory):
         format_run_report(factory.results(extras={"pad_thickness_m": {"start": "thick"}}))
     with pytest.raises(OutputError, match="pad_thickness_mm"):
         format_run_report(factory.results(extras={"pad_thickness_mm": [{"when": "race", "mm": 22.0}]}))
+
+
+def test_still_rising_soak_asks_for_a_longer_soak(results, factory):
+    assert "still rising" not in format_run_report(results)
+    text = format_run_report(dataclasses.replace(results, corners=(factory.rising_fluid_corner(),)))
+    rows = _section(text, "Soak after the stop at 900.0 s (15:00)")
+    by_node = {line.split()[0]: line for line in rows[3:-2]}
+    assert STILL_RISING_MARK in by_node["fluid"] and STILL_RISING_MARK not in by_node["bearing"]
+    assert rows[-1].strip() == "! fluid still rising at the end of the soak: run a longer soak (plan soak duration_s)"
+    checks = _section(text, "Limit checks")
+    assert checks[-1].strip().startswith("! fluid_boiling_dry: peak still rising at the end of the soak")
+    assert checks[-1].rstrip().endswith("run a longer soak (plan soak duration_s)")

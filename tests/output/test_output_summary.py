@@ -1,4 +1,5 @@
 """The JSON summary: the promised keys (a contract with users' scripts) and their values."""
+import dataclasses
 import json
 import math
 
@@ -10,9 +11,9 @@ from thermo.output.summary import summary_json
 
 TOP_KEYS = {"scenario", "version", "solver", "solver_status", "caution", "warnings", "references", "corners"}
 CORNER_KEYS = {"name", "peak_c", "peak_time_s", "checks", "energy", "heat_paths", "soak", "laps", "extras"}
-CHECK_KEYS = {"name", "node", "limit_c", "peak_c", "margin_k", "status", "peak_time_s", "source"}
+CHECK_KEYS = {"name", "node", "limit_c", "peak_c", "margin_k", "status", "peak_time_s", "source", "still_rising"}
 ENERGY_KEYS = {"heat_in_j", "stored_j", "lost_j", "balance_rel_error"}
-SOAK_KEYS = {"peak_c", "peak_after_stop_s", "worst_after_stop"}
+SOAK_KEYS = {"peak_c", "peak_after_stop_s", "worst_after_stop", "still_rising"}
 LAP_KEYS = {"index", "phase", "t_start_s", "t_end_s", "braking_energy_j", "max_c", "min_c"}
 # BIPM, The International System of Units (SI Brochure, 9th ed., 2019), 2.3.1: t/degC = T/K - 273.15
 K_AT_0C = 273.15
@@ -153,3 +154,15 @@ def test_write_summary_json(results, tmp_path):
     write_summary_json(results, path)
     assert json.loads(path.read_text(encoding="utf-8")) == summary_dict(results)
     assert [p.name for p in tmp_path.iterdir()] == ["run.json"]
+
+
+def test_still_rising_flags_in_the_json(results, factory):
+    # the fixture's bumps all peak and fall inside the soak: nothing is still rising
+    front = summary_dict(results)["corners"][0]
+    assert front["soak"]["still_rising"] == []
+    assert [c["still_rising"] for c in front["checks"]] == [False] * 3
+    rising = summary_dict(dataclasses.replace(results, corners=(factory.rising_fluid_corner(),)))["corners"][0]
+    assert rising["soak"]["still_rising"] == ["fluid"]
+    by_name = {c["name"]: c for c in rising["checks"]}
+    assert by_name["fluid_boiling_dry"]["still_rising"] and not by_name["bearing_grease"]["still_rising"]
+    assert json.loads(summary_json(dataclasses.replace(results, corners=(factory.rising_fluid_corner(),))))

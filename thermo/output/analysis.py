@@ -19,6 +19,11 @@ LINK_TO_BOUNDARY_KEY = "link_to_boundary"
 # Without that key: a link group whose name starts with this prefix carries heat between nodes of
 # the corner (conduction, contact); every other named group is a path out of the corner.
 INTERNAL_GROUP_PREFIX = "internal"
+# A soak peak within this share of the soak's duration (or the last sample step) of its end, with
+# the temperature still climbing at the last sample, is "still rising": the true peak comes later.
+STILL_RISING_TAIL_SHARE = 0.02
+# Slower than this at the last sample [K/s] (0.36 K an hour) a node counts as settled, not rising.
+STILL_RISING_MIN_RATE_K_S = 1e-4
 
 
 @dataclass(frozen=True)
@@ -31,6 +36,7 @@ class SoakRow:
     run_peak_k: float            # highest temperature of the whole run [K]
     run_peak_time_s: float       # time of the whole-run peak [s]
     worst_after_stop: bool       # the whole-run peak came after the stop
+    still_rising: bool = False   # the soak peak is at the end of the soak and still climbing there
 
 
 def _check_samples(corner: CornerResult) -> None:
@@ -62,6 +68,36 @@ def soak_node_order(corner: CornerResult) -> list[str]:
     return first + [n for n in corner.node_names if n not in first]
 
 
+def still_rising_at_end(time_s: np.ndarray, series: np.ndarray, start_s: float) -> bool:
+    """Whether a series peaks at the end of the window from ``start_s`` and still climbs there.
+
+    True when the highest sample at or after ``start_s`` lies within the window's last
+    ``STILL_RISING_TAIL_SHARE`` of its duration (at least its last sample step) and the last
+    step climbs faster than ``STILL_RISING_MIN_RATE_K_S``: the run ended before the peak.
+    """
+    time_s, series = np.asarray(time_s, dtype=float), np.asarray(series, dtype=float)
+    inside = time_s >= start_s
+    t, y = time_s[inside], series[inside]
+    if t.size < 2 or np.all(np.isnan(y)) or t[-1] <= t[-2]:
+        return False
+    if not (y[-1] - y[-2]) / (t[-1] - t[-2]) > STILL_RISING_MIN_RATE_K_S:
+        return False
+    tail = max(STILL_RISING_TAIL_SHARE * (t[-1] - t[0]), t[-1] - t[-2])
+    return bool(t[int(np.nanargmax(y))] >= t[-1] - tail)
+
+
+def check_still_rising(corner: CornerResult, check: CheckResult) -> bool:
+    """Whether a check's peak falls at the end of the run, in the soak, with its node still heating.
+
+    Its margin then holds only for the soak as run: a longer soak would find a higher peak.
+    False when the run has no soak or the checked node is not among the output nodes.
+    """
+    if corner.stop_time_s is None or check.node not in corner.node_names:
+        return False
+    stop = float(corner.stop_time_s)
+    return check.peak_time_s >= stop and still_rising_at_end(corner.time_s, corner.temperature(check.node), stop)
+
+
 def soak_rows(corner: CornerResult) -> list[SoakRow] | None:
     """The soak table of a corner, or None when the run has no stop (``stop_time_s`` is None)."""
     if corner.stop_time_s is None:
@@ -77,7 +113,8 @@ def soak_rows(corner: CornerResult) -> list[SoakRow] | None:
         series = corner.temperature(node)
         peak_k, peak_t = _peak(series[after], corner.time_s[after])
         run_k, run_t = _peak(series, corner.time_s)
-        rows.append(SoakRow(node, peak_k, peak_t - stop, run_k, run_t, bool(run_t > stop)))
+        rising = still_rising_at_end(corner.time_s, series, stop)
+        rows.append(SoakRow(node, peak_k, peak_t - stop, run_k, run_t, bool(run_t > stop), rising))
     return rows
 
 

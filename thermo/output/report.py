@@ -10,7 +10,9 @@ import math
 
 from lapdata.units import MM, kelvin_to_celsius
 from thermo import CAUTION
-from thermo.output.analysis import heat_path_shares, laps_to_show, node_peaks, soak_rows, worst_lap
+from thermo.output.analysis import (
+    check_still_rising, heat_path_shares, laps_to_show, node_peaks, soak_rows, worst_lap,
+)
 from thermo.output.errors import OutputError
 from thermo.results import CornerResult, Results
 
@@ -21,6 +23,8 @@ PAD_THICKNESS_KEYS = {"pad_thickness_m": 1.0 / MM, "pad_thickness_mm": 1.0}
 PAD_MINIMUM_KEYS = {"pad_minimum_thickness_m": 1.0 / MM, "pad_minimum_thickness_mm": 1.0}
 STATUS_WORDS = {"ok": "ok", "caution": "CAUTION", "exceeded": "EXCEEDED"}
 AFTER_STOP_MARK = "<< worst of the run came AFTER the stop"
+STILL_RISING_MARK = "still rising at the end"
+LONGER_SOAK_ADVICE = "run a longer soak (plan soak duration_s)"
 
 
 def _c(kelvin) -> str:
@@ -76,7 +80,12 @@ def _checks_section(corner: CornerResult) -> list[str]:
     rows = [[c.name, c.node, _c(c.limit_k), _c(c.peak_k), _num(c.margin_k, "+.1f"),
              STATUS_WORDS.get(c.status, c.status.upper()), _num(c.peak_time_s), c.source] for c in corner.checks]
     headers = ["check", "node", "limit [degC]", "peak [degC]", "margin [K]", "status", "peak at [s]", "source"]
-    return ["Limit checks (margin = limit - peak)", *_table(headers, rows)]
+    lines = ["Limit checks (margin = limit - peak)", *_table(headers, rows)]
+    rising = [c.name for c in corner.checks if check_still_rising(corner, c)]
+    if rising:
+        lines.append(f"  ! {', '.join(rising)}: peak still rising at the end of the soak, so the margin may be "
+                     f"smaller: {LONGER_SOAK_ADVICE}")
+    return lines
 
 
 def _energy_lines(corner: CornerResult) -> list[str]:
@@ -97,12 +106,17 @@ def _soak_section(corner: CornerResult) -> list[str]:
         return ["Soak: the run has no stop"]
     stop = float(corner.stop_time_s)
     table = [[r.node, _c(r.peak_k), _num(r.after_stop_s), _clock(r.after_stop_s), _c(r.run_peak_k),
-              AFTER_STOP_MARK if r.worst_after_stop else ""] for r in rows]
+              "; ".join(([AFTER_STOP_MARK] if r.worst_after_stop else []) +
+                        ([STILL_RISING_MARK] if r.still_rising else []))] for r in rows]
     headers = ["node", "peak after stop [degC]", "after stop [s]", "[m:s]", "run peak [degC]", "note"]
     worst = [r.node for r in rows if r.worst_after_stop]
     summary = (f"  Peak of the whole run came after the stop for: {', '.join(worst)}" if worst
                else "  No node reached its run peak after the stop.")
-    return [f"Soak after the stop at {stop:.1f} s ({_clock(stop)})", *_table(headers, table), summary]
+    lines = [f"Soak after the stop at {stop:.1f} s ({_clock(stop)})", *_table(headers, table), summary]
+    rising = [r.node for r in rows if r.still_rising]
+    if rising:
+        lines.append(f"  ! {', '.join(rising)} still rising at the end of the soak: {LONGER_SOAK_ADVICE}")
+    return lines
 
 
 def _laps_section(corner: CornerResult) -> list[str]:

@@ -2,7 +2,8 @@
 
 Top level: scenario, version, solver, solver_status, caution, warnings, references, corners.
 Each corner: name, peak_c, peak_time_s, checks, energy, heat_paths, soak (only when the run
-has a stop), laps, extras. Temperatures in degC (keys end in ``_c``), margins in K, times in s,
+has a stop), laps, extras. A check's ``still_rising`` and the soak's ``still_rising`` (nodes) say
+where a peak came at the very end of the soak with the temperature still climbing. Temperatures in degC (keys end in ``_c``), margins in K, times in s,
 energies in J. Rounded to 0.01 degC / K / s, 0.1 J, 4 decimals for shares; a value that is not
 finite is written as null, never NaN.
 """
@@ -13,7 +14,7 @@ import math
 
 from lapdata.units import kelvin_to_celsius
 from thermo import CAUTION
-from thermo.output.analysis import heat_path_shares, node_peaks, soak_rows
+from thermo.output.analysis import check_still_rising, heat_path_shares, node_peaks, soak_rows
 from thermo.output.atomic import atomic_write
 from thermo.output.jsonable import json_ready
 from thermo.results import CheckResult, CornerResult, LapSpan, Results
@@ -42,7 +43,7 @@ def _significant(value, digits: int):
     return float(f"{number:.{digits}g}") if math.isfinite(number) else None
 
 
-def _check_dict(check: CheckResult) -> dict:
+def _check_dict(check: CheckResult, corner: CornerResult) -> dict:
     return {
         "name": check.name,
         "node": check.node,
@@ -52,6 +53,7 @@ def _check_dict(check: CheckResult) -> dict:
         "status": check.status,
         "peak_time_s": _num(check.peak_time_s, TIME_DECIMALS),
         "source": check.source,
+        "still_rising": check_still_rising(corner, check),
     }
 
 
@@ -75,6 +77,7 @@ def _soak_dict(corner: CornerResult) -> dict | None:
         "peak_c": {r.node: _c(r.peak_k) for r in rows},
         "peak_after_stop_s": {r.node: _num(r.after_stop_s, TIME_DECIMALS) for r in rows},
         "worst_after_stop": [r.node for r in rows if r.worst_after_stop],
+        "still_rising": [r.node for r in rows if r.still_rising],
     }
 
 
@@ -86,7 +89,7 @@ def corner_summary(corner: CornerResult) -> dict:
         "name": corner.name,
         "peak_c": {node: _c(k) for node, (k, _) in peaks.items()},
         "peak_time_s": {node: _num(t, TIME_DECIMALS) for node, (_, t) in peaks.items()},
-        "checks": [_check_dict(c) for c in corner.checks],
+        "checks": [_check_dict(c, corner) for c in corner.checks],
         "energy": {
             "heat_in_j": _num(energy.heat_in_j, ENERGY_DECIMALS),
             "stored_j": _num(energy.stored_j, ENERGY_DECIMALS),
