@@ -42,9 +42,13 @@ def test_layered_disc_bulk_agrees_with_lumped(short_run, layered):
     bulk, lumped = run.temperature("disc"), short_run.temperature("disc")
     assert bulk.shape == lumped.shape
     rise = short_run.peak("disc")[0] - short_run.temperature("disc")[0]
-    # the mass-weighted mean of the layers holds the same heat as the lumped disc; they differ only
-    # through the paths that see the surface (faces, radiation) and the core (vanes, bell): < 0.5 %
-    assert np.max(np.abs(bulk - lumped)) < 0.005 * rise
+    # the mass-weighted mean of the layers holds about the same heat as the lumped disc; they differ
+    # through the paths that see the surface (faces, radiation) and the core (vanes, bell), and
+    # through the pad-disc interface: its split follows the resistance of half the first layer
+    # (thermo.corner.interface), so a finer disc takes a little more of the friction heat (1.5 %
+    # of the rise with 6 layers against the lumped disc; the lumped disc is the less accurate)
+    assert np.max(np.abs(bulk - lumped)) < 0.02 * rise
+    assert np.max(bulk - lumped) >= -0.005 * rise
     assert run.energy.balance_rel_error < 1e-5
 
 

@@ -185,10 +185,10 @@ def test_repeated_laps_linearised_and_full_newton_agree(lap):
 
 
 def test_a_failure_in_a_later_lap_names_that_lap(lap):
-    # 3.5 times the brake heat: the disc climbs lap after lap until it leaves the top of the
+    # 4.5 times the brake heat: the disc climbs lap after lap until it leaves the top of the
     # convection tables (the network's conductance grid) in a later lap
     model, net, s, T0 = lap["model"], lap["net"], lap["s"], lap["T0"][0]
-    hot = Schedule(s.time_s, {k: v * 3.5 if k in net.source_signals else v for k, v in s.signals.items()})
+    hot = Schedule(s.time_s, {k: v * 4.5 if k in net.source_signals else v for k, v in s.signals.items()})
     grid = graded_grid(hot, net, hot.t_start_s, hot.t_end_s, 1, DEFAULT_MAX_STRIDE)
     inputs = kernel_inputs(net, hot, grid)
     top = net.conv_grid.node_max_k

@@ -53,6 +53,7 @@ def test_settled_lap_refuses_a_setup_of_another_corner(demo):
 def test_repeated_laps_follow_the_full_grid_newton_solve(demo):
     # the race path (graded grid, linearised kernel) against the default 'fast' solve lap by lap,
     # itself tested against scipy's Radau (tests/solver); issue 8 bound 0.05 K, measured a few mK
+    # (23 mK on the disc face with the automatic thin first layers of the friction faces)
     _, model, net, s, _ = lap_setup(demo, "front")
     T0 = np.full(net.n_nodes, float(demo.ambient.temperature_at(0.0)))
     fast = repeated_laps(model, net, s, T0, 3)
@@ -63,8 +64,8 @@ def test_repeated_laps_follow_the_full_grid_newton_solve(demo):
         peaks.append(model.outputs(sol.temperatures_k).max(axis=0))
     assert fast.lap_peaks_k.shape == (3, len(model.output_nodes))
     assert fast.steps_per_lap < 0.4 * s.time_s.size
-    np.testing.assert_allclose(fast.lap_peaks_k, np.array(peaks), atol=0.02)
-    np.testing.assert_allclose(fast.final_k, T, atol=0.02)
+    np.testing.assert_allclose(fast.lap_peaks_k, np.array(peaks), atol=0.05)
+    np.testing.assert_allclose(fast.final_k, T, atol=0.05)
     assert np.all(fast.lap_peaks_k[2] > fast.lap_peaks_k[0]), "from ambient, the third lap runs hotter than the first"
     with pytest.raises(ModelError, match="n_laps must be >= 1"):
         repeated_laps(model, net, s, T0, 0)

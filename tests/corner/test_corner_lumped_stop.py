@@ -31,6 +31,7 @@ def insulated(design):
     """The design with every path out of the disc made negligible: no duct, tiny convection,
     tiny contact conductances, near-black-body-free (emissivity ~ 0) disc."""
     airflow = AirflowSettings(local_airflow_factor=design.airflow.local_airflow_factor, disc_convection_multiplier=TINY,
+                              vane_convection_multiplier=TINY,
                               caliper_convection_multiplier=TINY, hub_convection_multiplier=TINY,
                               duct_effectiveness_multiplier=TINY, contact_conductance_multiplier=TINY)
     return replace(design, ducts=(), airflow=airflow, disc=replace(design.disc, emissivity_override=TINY))
@@ -51,7 +52,11 @@ def test_partition_is_the_area_weighted_effusivity_form(front):
 
 
 def test_lumped_single_stop_puts_gamma_e_into_the_disc(front):
+    # the classic lumped stop takes the partition as given: a fixed share (the formula's), with the
+    # pad held off the disc (no resting contact), so the disc takes exactly gamma E
+    formula = build_corner(front, grid=None).heat_partition
     design = insulated(front)
+    design = replace(design, pad=replace(design.pad, partition_override=formula, rest_contact_conductance_w_m2k=0.0))
     model = build_corner(design, grid=None)
     gamma = model.heat_partition
     vehicle = VehicleParameters(mass_kg=1098.0, fuel_kg=0.0, drag_cd_a_m2=0.0, downforce_cl_a_m2=0.0,
@@ -74,6 +79,7 @@ def test_lumped_single_stop_puts_gamma_e_into_the_disc(front):
 
     ambient = np.full_like(t, 301.15)
     schedule = Schedule(t, {"disc_heat_w": duty.disc_heat_w, "pad_heat_w": duty.pad_heat_w,
+                            "pad_clamp": (duty.brake_heat_w > 0).astype(float),
                             "vehicle_speed_m_s": v, "ambient_k": ambient, "duct_air_k": ambient})
     T0 = np.full(len(model.network.node_names), 301.15)
     sol = solve_network(model.network, schedule, T0, SolverSettings(method="LSODA", rtol=1e-9, atol_k=1e-7))

@@ -22,7 +22,7 @@ def test_readme_minimal_scenario_loads_with_the_documented_defaults(tmp_path):
     assert [c.name for c in scenario.corners] == ["front", "rear"]
     front = scenario.corners[0]
     assert front.piston.piston_type == "solid"            # README: type defaults to solid
-    assert front.disc.layers == 1                         # README: layers [1]
+    assert front.disc.layers == 0                         # README: layers [0: automatic ...]
     assert scenario.solver.method == "fast"               # README: the scenario default
     assert scenario.fluid.dry_boiling_c == 230.0          # FMVSS No. 116 S5.1.1, DOT 4 dry ERBP
     assert [p.kind for p in scenario.plan.phases] == ["laps", "in_lap", "soak"]

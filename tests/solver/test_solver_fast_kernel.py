@@ -91,8 +91,13 @@ def test_demo_corner_braking_zones_against_radau(demo_lap):
     assert out_r[:, model.output_nodes.index("disc_surface")].max() > 720.0
     # issue 8 target: peaks within 0.05 K of a tight-tolerance Radau reference
     np.testing.assert_allclose(out_f.max(axis=0), out_r.max(axis=0), atol=0.05)
-    # mid-rise, on the 0.05 s sample grid, the second-order scheme lags by up to ~0.25 K (measured)
-    np.testing.assert_allclose(out_f, out_r, atol=0.3)
+    # mid-rise, on the 0.05 s sample grid, the second-order scheme lags the friction faces (first
+    # layers of 1.1 mm of iron and 0.2 mm of pad, chosen from the penetration depth) by up to
+    # ~1.1 K (measured); every other output by less than 0.3 K
+    np.testing.assert_allclose(out_f, out_r, atol=1.5)
+    faces = [model.output_nodes.index(n) for n in ("disc_surface", "pad_surface")]
+    others = [i for i in range(len(model.output_nodes)) if i not in faces]
+    np.testing.assert_allclose(out_f[:, others], out_r[:, others], atol=0.3)
     assert sol.balance_rel_error < 1e-8
 
 

@@ -10,13 +10,14 @@ import thermo
 from thermo.chain.plan import PlanSegment, expand_plan
 from thermo.chain.validity import check_validity
 from thermo.corner.build import (
-    SIGNAL_AMBIENT, SIGNAL_DISC_HEAT, SIGNAL_DUCT_AIR, SIGNAL_PAD_HEAT, SIGNAL_SPEED, CornerModel, build_corner, duct_air_signals,
+    SIGNAL_AMBIENT, SIGNAL_CLAMP, SIGNAL_DISC_HEAT, SIGNAL_DUCT_AIR, SIGNAL_PAD_HEAT, SIGNAL_SPEED, CornerModel, build_corner,
+    duct_air_signals, pad_layers,
 )
 from thermo.corner.geometry import CornerDesign
 from thermo.correlations import correlation_reference
 from thermo.duty.corner_duty import CornerBrake, corner_heat_inputs
 from thermo.errors import SolveError
-from thermo.limits import check_specs, evaluate_check
+from thermo.limits import check_specs, evaluate_check, property_range_warnings
 from thermo.materials import get_material
 from thermo.network.assemble import compile_network
 from thermo.network.schedule import Schedule
@@ -72,7 +73,8 @@ def corner_duties(scenario: Scenario, segment: PlanSegment, brakes: list[CornerB
 def _schedule(scenario: Scenario, design: CornerDesign, segment: PlanSegment, duty: SegmentDuty) -> Schedule:
     t = segment.t_start_s + duty.time_s
     ambient = scenario.ambient.temperature_at(t)
-    signals = {SIGNAL_DISC_HEAT: duty.disc_heat_w, SIGNAL_PAD_HEAT: duty.pad_heat_w,
+    clamp = ((duty.disc_heat_w + duty.pad_heat_w) > 0.0).astype(float)   # 1 while the brake is applied
+    signals = {SIGNAL_DISC_HEAT: duty.disc_heat_w, SIGNAL_PAD_HEAT: duty.pad_heat_w, SIGNAL_CLAMP: clamp,
                SIGNAL_SPEED: duty.speed_m_s, SIGNAL_AMBIENT: ambient, SIGNAL_DUCT_AIR: ambient}
     for signal, rise in duct_air_signals(design):
         signals[signal] = ambient + rise
@@ -101,15 +103,18 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
     """Solve one corner across all segments, carrying its state, with pad wear and pad changes."""
     grid = conductance_grid(scenario)
 
+    pad_layer_count = len(pad_layers(design))     # kept as the pad wears, so the state maps node for node
+
     def with_pad(thickness_m: float):
         """The corner rebuilt with another pad thickness (conduction path and pad mass)."""
-        built = build_corner(replace(design, pad=replace(design.pad, thickness_m=thickness_m)),
-                             scenario.ambient.pressure_pa, grid)
+        pad = replace(design.pad, thickness_m=thickness_m, layers=pad_layer_count)
+        built = build_corner(replace(design, pad=pad), scenario.ambient.pressure_pa, grid)
         return built, compile_network(built.network)
 
     model, compiled = with_pad(design.pad.thickness_m)
     names = model.network.node_names
-    i_pad, i_back = names.index("pad"), names.index("backing_plate")
+    i_pads = [names.index(node) for node in model.pad_nodes]     # the pad layers keep their count as the pad wears
+    i_back = names.index("backing_plate")
     T = np.full(len(names), float(scenario.ambient.temperature_at(0.0)))
     T_initial = T.copy()
     thickness = design.pad.thickness_m
@@ -122,11 +127,11 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
         duty = duties[design.name]
         if segment.phase.kind == "pit_stop" and segment.phase.pad_change:
             stint_thickness.append((segment.phase.name, thickness))
-            old = [model.network.nodes[k].heat_capacity.enthalpy(T[k]) for k in (i_pad, i_back)]
+            old = [model.network.nodes[k].heat_capacity.enthalpy(T[k]) for k in (*i_pads, i_back)]
             thickness = design.pad.thickness_m
             model, compiled = with_pad(thickness)
-            T[[i_pad, i_back]] = float(scenario.ambient.temperature_at(segment.t_start_s))
-            new = [model.network.nodes[k].heat_capacity.enthalpy(T[k]) for k in (i_pad, i_back)]
+            T[[*i_pads, i_back]] = float(scenario.ambient.temperature_at(segment.t_start_s))
+            new = [model.network.nodes[k].heat_capacity.enthalpy(T[k]) for k in (*i_pads, i_back)]
             removed += sum(old) - sum(new)
             warned.clear()
         schedule = _schedule(scenario, design, segment, duty)
@@ -155,16 +160,16 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
                                 dict(zip(model.output_nodes, map(float, out.min(axis=0)))),
                                 dict(zip(model.output_nodes, map(float, out.max(axis=0)))), energy_lap))
         if scenario.pad_wear.enabled and segment.moving and energy_lap > 0:
-            pad_series = sol.temperature("pad")
+            pad_series = out[:, model.output_nodes.index("pad")]
             weight = np.interp(sol.time_s, schedule.time_s, duty.pad_heat_w)
             pad_k = float(np.sum(weight * pad_series) / max(np.sum(weight), 1e-12))
             wear = (scenario.pad_wear.wear_coefficient_m3_per_j * energy_lap / (2 * design.pad.area_m2)
                     * _wear_factor(scenario, pad_k))
             new_thickness = max(thickness - wear, MIN_PAD_THICKNESS_M)
             if new_thickness < thickness:
-                old_h = model.network.nodes[i_pad].heat_capacity.enthalpy(T[i_pad])
+                old_h = sum(model.network.nodes[k].heat_capacity.enthalpy(T[k]) for k in i_pads)
                 model, compiled = with_pad(new_thickness)
-                removed += old_h - model.network.nodes[i_pad].heat_capacity.enthalpy(T[i_pad])
+                removed += old_h - sum(model.network.nodes[k].heat_capacity.enthalpy(T[k]) for k in i_pads)
                 warns += _pad_warnings(design, scenario.pad_wear.warn_margin_m, new_thickness, segment.lap_index, warned)
                 thickness = new_thickness
         if segment.lap_index:
@@ -178,9 +183,14 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
     time_s = np.concatenate(times)
     stored = h1 - h0
     energy = EnergyBalance(heat_in, stored, lost + removed)
-    specs = check_specs(scenario.fluid, scenario.limits, model.disc_check_node)
     temps_all = np.concatenate(temps)
     node_index = {n: i for i, n in enumerate(model.output_nodes)}
+    node_materials = {node: get_material(name) for node, name in _node_materials(design, model).items()
+                      if node in node_index}
+    specs = check_specs(scenario.fluid, scenario.limits, model.disc_check_node, fluid_node=model.fluid_check_node,
+                        node_materials=node_materials)
+    warns += property_range_warnings(design.name, node_materials,
+                                     {n: float(temps_all[:, i].max()) for n, i in node_index.items() if n in node_materials})
     checks = tuple(evaluate_check(s, time_s, temps_all[:, node_index[s.node]]) for s in specs)
     phases = _phase_spans(segments)
     stop = next((s.t_start_s for s in segments if s.phase.kind == "soak"), None)
@@ -199,6 +209,18 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
         link_names=tuple(link.name for link in links), link_groups=tuple(link.group for link in links),
         link_flows_w=np.concatenate(flows), link_energy_j=link_energy, energy=energy, checks=checks,
         laps=tuple(laps), phases=phases, stop_time_s=stop, extras=extras)
+
+
+def _node_materials(design: CornerDesign, model: CornerModel) -> dict[str, str]:
+    """The material of each output node a material check or data-range warning reads."""
+    # the pad's face is the interface (the disc's face temperature): the pad maker's window is read
+    # on the pad bulk (pad_max), so the face gets no material check of its own
+    out = {"disc": design.disc.material, model.disc_check_node: design.disc.material, "pad": design.pad.material,
+           "backing_plate": design.pad.backing_material,
+           "piston": design.piston.material, "caliper": design.caliper.material, "hub": design.hub.hub_material,
+           "bearing": design.hub.bearing_material, "upright": design.hub.upright_material,
+           "disc_bell": design.disc.bell_material, "fluid_at_piston": design.fluid_material, "fluid": design.fluid_material}
+    return out
 
 
 def _pad_warnings(design: CornerDesign, margin_m: float, thickness_m: float, lap: int, warned: set) -> list[str]:

@@ -34,8 +34,8 @@ def check_validity(network, states: list[tuple[np.ndarray, np.ndarray, np.ndarra
     with recording_calls() as used, warnings.catch_warnings(record=True) as caught, set_validity_policy("warn"):
         warnings.simplefilter("always", CorrelationWarning)
         for link in network.links:
-            if not isinstance(link, Convection):
-                continue
+            if not isinstance(link, Convection) or link.boundary not in b_index:
+                continue                      # node-to-node links (the pad-disc interface) use no correlation
             fn = link.conductance.function if isinstance(link.conductance, TabulatedConductance) else link.conductance
             start = len(caught)
             fn(speed, nodes[:, index[link.node]], bounds[:, b_index[link.boundary]])

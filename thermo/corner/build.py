@@ -1,11 +1,14 @@
 """Build the default brake-corner heat network from a CornerDesign.
 
 Nodes (network names): disc (or disc_layer_1 ... disc_layer_N through each cheek), disc_bell,
-pad (both pads), backing_plate, piston (all pistons), fluid (the fluid in the caliper), caliper,
-hub, bearing, upright. Boundaries: ambient (wheel-well air) and duct_air (the first duct's air;
-further ducts get duct_air_2, duct_air_3 ...).
-Schedule signals the network reads: disc_heat_w, pad_heat_w [W], vehicle_speed_m_s [m/s],
-ambient_k and duct_air_k [K].
+pad (or pad_layer_1 ... pad_layer_M through the friction material of both pads), backing_plate,
+piston (all pistons), fluid_at_piston (the fluid between the pistons and their bore bottoms,
+the hottest wetted fluid), fluid (the rest of the fluid in the caliper), caliper, hub, bearing,
+upright. Boundaries: ambient (wheel-well air) and duct_air (the first duct's air; further ducts
+get duct_air_2, duct_air_3 ...).
+Schedule signals the network reads: disc_heat_w, pad_heat_w [W] (their sum is the friction
+heat; see ``thermo.corner.interface`` for how it is split), pad_clamp [0-1], vehicle_speed_m_s
+[m/s], ambient_k and duct_air_k [K].
 
 The wheel rim and tyre are not modelled: the disc radiates to "ambient" for the share of its
 view that does not see the caliper.
@@ -20,7 +23,8 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 from lapdata.units import STEFAN_BOLTZMANN
-from thermo.corner import paths
+from thermo.corner import interface, paths
+from thermo.corner import layers as layers_mod
 from thermo.corner.geometry import CornerDesign
 from thermo.correlations.partition import effusivity, heat_partition_area_weighted
 from thermo.correlations.radiation import (
@@ -35,10 +39,13 @@ SIGNAL_PAD_HEAT = "pad_heat_w"
 SIGNAL_SPEED = "vehicle_speed_m_s"
 SIGNAL_AMBIENT = "ambient_k"
 SIGNAL_DUCT_AIR = "duct_air_k"
+SIGNAL_CLAMP = "pad_clamp"
 ROOM_K = 293.15
-LAYER_GROWTH = 1.8              # each disc layer this much thicker than the one nearer the surface
+LAYER_GROWTH = 1.8              # with a given layer count, each layer this much thicker than the one nearer the face
+PAD_MAX_LAYERS = 6
+PAD_ASPECT_RATIO = 3.0          # pad length / radial height, for its edge area; common practice, no published source
 HOLE_FLOW_COEFFICIENT = 0.5     # vent-hole air speed / local airflow speed; common practice, no published source
-OUTPUT_NODES = ("disc", "pad", "piston", "fluid", "caliper", "upright", "bearing", "hub",
+OUTPUT_NODES = ("disc", "pad", "piston", "fluid_at_piston", "fluid", "caliper", "upright", "bearing", "hub",
                 "disc_bell", "backing_plate", "piston_seal")
 # The piston seal sits in a groove of the caliper bore, against the piston wall: its temperature is
 # taken as the mean of piston and caliper (common practice, no published source).
@@ -54,8 +61,10 @@ class CornerModel:
     output_nodes: tuple[str, ...]
     output_weights: np.ndarray        # (n_outputs, n_network_nodes): output T = weights @ T_network
     disc_check_node: str              # 'disc_surface' when layered, else 'disc'
-    heat_partition: float             # disc share of the friction heat
+    heat_partition: float             # disc share of the friction heat (formula, or the user's fixed share)
     materials_used: tuple[str, ...]
+    pad_nodes: tuple[str, ...] = ("pad",)   # network nodes of the friction material, face first
+    fluid_check_node: str = "fluid_at_piston"
 
     def outputs(self, temperatures_k: np.ndarray) -> np.ndarray:
         """Output-node temperatures (n_t, n_outputs) from network temperatures (n_t, n_nodes) [K]."""
@@ -66,6 +75,31 @@ def layer_thicknesses(total_m: float, layers: int, growth: float = LAYER_GROWTH)
     """Graded layer thicknesses from the friction face inwards, summing to total_m [m]."""
     weights = growth ** np.arange(layers)
     return total_m * weights / weights.sum()
+
+
+def _diffusivity(material) -> float:
+    return material.conductivity(ROOM_K) / (material.density_kg_m3 * material.specific_heat(ROOM_K))
+
+
+def solid_layers(total_m: float, requested: int, material, max_layers: int = layers_mod.MAX_LAYERS) -> np.ndarray:
+    """Layers through a heated solid, the first from the braking pulse's penetration depth
+    (``thermo.corner.layers``): as many as needed (``requested`` 0) or exactly ``requested`` [m]."""
+    if requested >= 1:
+        return layers_mod.layers_of_count(total_m, layers_mod.first_layer_m(_diffusivity(material)), requested)
+    return layers_mod.auto_layers(total_m, _diffusivity(material), max_layers)
+
+
+def disc_layers(design: CornerDesign) -> np.ndarray:
+    """Layer thicknesses through one cheek (vented) or half the thickness (solid disc) [m]."""
+    d = design.disc
+    half = d.cheek_thickness_m if d.vented else d.thickness_m / 2
+    return solid_layers(half, d.layers, get_material(d.material))
+
+
+def pad_layers(design: CornerDesign) -> np.ndarray:
+    """Layer thicknesses through the friction material of a pad [m]."""
+    p = design.pad
+    return solid_layers(p.thickness_m, p.layers, get_material(p.material), PAD_MAX_LAYERS)
 
 
 def duct_air_boundary(index: int) -> str:
@@ -122,29 +156,44 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
 
     # --- disc: one node, or graded layers through each cheek (symmetric: both faces heated alike)
     ring = d.ring_area_m2
-    solid_half = d.cheek_thickness_m if d.vented else d.thickness_m / 2
-    if d.layers == 1:
+    disc_face_area = 2 * ring
+    k_disc = mat["disc"].conductivity(ROOM_K)
+    dx_disc = disc_layers(design)
+    if len(dx_disc) == 1:
         disc_nodes = ["disc"]
         disc_masses = [d.metal_volume_m3 * mat["disc"].density_kg_m3]
     else:
-        dx = layer_thicknesses(solid_half, d.layers)
-        disc_nodes = [f"disc_layer_{i + 1}" for i in range(d.layers)]
-        disc_masses = list(2 * ring * dx * mat["disc"].density_kg_m3)
+        disc_nodes = [f"disc_layer_{i + 1}" for i in range(len(dx_disc))]
+        disc_masses = list(disc_face_area * dx_disc * mat["disc"].density_kg_m3)
         disc_masses[-1] += d.vane_volume_m3 * mat["disc"].density_kg_m3
-        k_disc = mat["disc"].conductivity(ROOM_K)
-        for i in range(d.layers - 1):
-            g = k_disc * 2 * ring / (dx[i] / 2 + dx[i + 1] / 2)
+        for i in range(len(dx_disc) - 1):
+            g = k_disc * disc_face_area / (dx_disc[i] / 2 + dx_disc[i + 1] / 2)
             links.append(Conduction(f"{disc_nodes[i]}_to_{disc_nodes[i + 1]}", disc_nodes[i], disc_nodes[i + 1], g, "disc_internal"))
     for name, mass in zip(disc_nodes, disc_masses):
         nodes.append(Node(name, mat["disc"].heat_capacity(mass)))
     surface, core = disc_nodes[0], disc_nodes[-1]
 
+    # --- pad: one node, or graded layers from the friction face to the backing plate
+    pad_area2 = 2 * p.area_m2
+    k_pad = mat["pad"].conductivity(ROOM_K)
+    dx_pad = pad_layers(design)
+    pad_nodes = ["pad"] if len(dx_pad) == 1 else [f"pad_layer_{i + 1}" for i in range(len(dx_pad))]
+    pad_masses = pad_area2 * dx_pad * mat["pad"].density_kg_m3
+    for name, mass in zip(pad_nodes, pad_masses):
+        nodes.append(Node(name, mat["pad"].heat_capacity(mass)))
+    for i in range(len(dx_pad) - 1):
+        g = k_pad * pad_area2 / (dx_pad[i] / 2 + dx_pad[i + 1] / 2)
+        links.append(Conduction(f"{pad_nodes[i]}_to_{pad_nodes[i + 1]}", pad_nodes[i], pad_nodes[i + 1], g, "pad_conduction"))
+    pad_face, pad_back = pad_nodes[0], pad_nodes[-1]
+
+    gap_volume = 2 * pi_.area_one_side_m2 * cal.piston_fluid_gap_m
+    fluid_density = mat["fluid"].density_kg_m3
     nodes += [
         Node("disc_bell", mat["bell"].heat_capacity(d.bell_mass_kg)),
-        Node("pad", mat["pad"].heat_capacity(2 * p.area_m2 * p.thickness_m * mat["pad"].density_kg_m3)),
-        Node("backing_plate", mat["backing"].heat_capacity(2 * p.area_m2 * p.backing_thickness_m * mat["backing"].density_kg_m3)),
+        Node("backing_plate", mat["backing"].heat_capacity(pad_area2 * p.backing_thickness_m * mat["backing"].density_kg_m3)),
         Node("piston", mat["piston"].heat_capacity(pi_.metal_volume_m3 * mat["piston"].density_kg_m3)),
-        Node("fluid", mat["fluid"].heat_capacity(cal.fluid_volume_m3 * mat["fluid"].density_kg_m3)),
+        Node("fluid_at_piston", mat["fluid"].heat_capacity(gap_volume * fluid_density)),
+        Node("fluid", mat["fluid"].heat_capacity((cal.fluid_volume_m3 - gap_volume) * fluid_density)),
         Node("caliper", mat["caliper"].heat_capacity(cal.mass_kg)),
         Node("hub", mat["hub"].heat_capacity(hub.hub_mass_kg)),
         Node("bearing", mat["bearing"].heat_capacity(hub.bearing_mass_kg)),
@@ -154,10 +203,9 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
         Boundary(duct_air_boundary(i), signal) for i, (signal, _) in enumerate(duct_air_signals(design)) if i > 0)
 
     # --- conduction: pad -> backing plate -> (shim, insert, crown contact) -> piston -> fluid -> caliper
-    pad_area2 = 2 * p.area_m2
-    r_pad = (p.thickness_m / 2) / (mat["pad"].conductivity(ROOM_K) * pad_area2)
+    r_pad_back = (dx_pad[-1] / 2) / (k_pad * pad_area2)
     r_backing_half = (p.backing_thickness_m / 2) / (mat["backing"].conductivity(ROOM_K) * pad_area2)
-    links.append(Conduction("pad_to_backing_plate", "pad", "backing_plate", _series(r_pad, r_backing_half), "pad_conduction"))
+    links.append(Conduction("pad_to_backing_plate", pad_back, "backing_plate", _series(r_pad_back, r_backing_half), "pad_conduction"))
 
     n_pistons = 2 * pi_.count_per_side
     face_area = 2 * pi_.area_one_side_m2
@@ -170,7 +218,14 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
     if pi_.insert_thickness_m > 0:
         resistances.append(pi_.insert_thickness_m / (mat["insert"].conductivity(ROOM_K) * contact_area))
     links.append(Conduction("backing_plate_to_piston", "backing_plate", "piston", _series(*resistances), "piston_path"))
-    links.append(Conduction("piston_to_fluid", "piston", "fluid", cal.fluid_film_conductance_w_m2k * face_area, "piston_path"))
+    # the fluid behind each piston: conduction across half the gap to the piston's back face and
+    # half to the bore bottom (stagnant fluid); it mixes with the rest of the fluid through a film
+    g_gap = mat["fluid"].conductivity(ROOM_K) * face_area / (cal.piston_fluid_gap_m / 2)
+    links += [
+        Conduction("piston_to_fluid_at_piston", "piston", "fluid_at_piston", g_gap, "piston_path"),
+        Conduction("fluid_at_piston_to_caliper", "fluid_at_piston", "caliper", g_gap, "fluid_path"),
+        Conduction("fluid_at_piston_to_fluid", "fluid_at_piston", "fluid", cal.fluid_film_conductance_w_m2k * face_area, "fluid_path"),
+    ]
     seal_area = sum(math.pi * dia * pi_.height_m / 2 for dia in pi_.diameters_m) * 2
     links.append(Conduction("piston_to_caliper", "piston", "caliper", contact_mult * pi_.seal_gap_conductance_w_m2k * seal_area, "piston_path"))
     links.append(Conduction("fluid_to_caliper", "fluid", "caliper", cal.fluid_film_conductance_w_m2k * cal.fluid_wetted_area_m2, "fluid_path"))
@@ -188,7 +243,7 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
     factor = air_.local_airflow_factor
     disc_ducts = [dt for dt in design.ducts if dt.target == "disc_eye"]
     links.append(Convection("disc_face_convection", surface, "ambient", SIGNAL_SPEED, paths.RotatingDiscFaces(
-        2 * ring, d.outer_diameter_m / 2, design.rolling_radius_m, factor, air_.disc_convection_multiplier, pressure_pa,
+        disc_face_area, d.outer_diameter_m / 2, design.rolling_radius_m, factor, air_.disc_convection_multiplier, pressure_pa,
         d.face_correlation),
         "disc_convection"))
     passages = None
@@ -196,7 +251,7 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
         passages = paths.VanePassages(
             d.passage_wetted_area_m2, d.passage_flow_area_m2, d.passage_hydraulic_diameter_m, d.passage_length_m,
             d.outer_diameter_m / 2, design.rolling_radius_m, d.vane_pumping_coefficient,
-            air_.disc_convection_multiplier, pressure_pa, ducted=disc_ducts[0] if disc_ducts else None)
+            air_.vane_convection_multiplier, pressure_pa, ducted=disc_ducts[0] if disc_ducts else None)
         links.append(Convection("disc_vane_convection", core, "ambient", SIGNAL_SPEED, passages, "disc_convection"))
     for i, duct in enumerate(design.ducts):
         tag = f"duct_{i + 1}_{duct.target}"
@@ -205,15 +260,15 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
             fn = paths.DuctToDiscEye(duct, passages, mult, pressure_pa)
             node = core
         elif duct.target in ("disc_eye", "disc_face"):
-            fn = paths.DuctJetOnSurface(duct, duct.face_area_share * 2 * ring, d.outer_diameter_m - d.inner_diameter_m, mult, pressure_pa)
+            fn = paths.DuctJetOnSurface(duct, duct.face_area_share * disc_face_area, d.outer_diameter_m - d.inner_diameter_m, mult, pressure_pa)
             node = surface
         else:
             fn = paths.DuctJetOnSurface(duct, duct.face_area_share * cal.area_m2, math.sqrt(cal.area_m2), mult, pressure_pa)
             node = "caliper"
         links.append(Convection(tag, node, duct_air_boundary(i), SIGNAL_SPEED, fn, "duct"))
 
-    def plate(area, mult):
-        return paths.PlateInAirflow(area, math.sqrt(area), factor, mult, pressure_pa)
+    def plate(area, mult, length=None):
+        return paths.PlateInAirflow(area, math.sqrt(area) if length is None else length, factor, mult, pressure_pa)
 
     links += [
         Convection("bell_convection", "disc_bell", "ambient", SIGNAL_SPEED, plate(d.bell_area_m2, air_.hub_convection_multiplier), "hub_convection"),
@@ -222,16 +277,42 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
         Convection("hub_convection", "hub", "ambient", SIGNAL_SPEED, plate(hub.hub_area_m2, air_.hub_convection_multiplier), "hub_convection"),
         Convection("upright_convection", "upright", "ambient", SIGNAL_SPEED, plate(hub.upright_area_m2, air_.hub_convection_multiplier), "upright_convection"),
     ]
+    # the pads' edges (perimeter x thickness of each pad) in the wheel-well air, shared among the
+    # pad layers by thickness
+    pad_length = math.sqrt(PAD_ASPECT_RATIO * p.area_m2)
+    pad_perimeter = 2 * (pad_length + p.area_m2 / pad_length)
+    eps_pad = mat["pad"].emissivity
+    edge_per_m2 = plate(1.0, air_.caliper_convection_multiplier, pad_length)  # one table, scaled by each layer's edge area
+    for name, dx in zip(pad_nodes, dx_pad):
+        links.append(Convection(f"{name}_edge_convection", name, "ambient", SIGNAL_SPEED, edge_per_m2, "pad_convection",
+                                scale=2 * pad_perimeter * dx))
     if pi_.piston_type == "vented":
         inner = sum(math.pi / 4 * (dia - 2 * pi_.wall_thickness_m) ** 2 for dia in pi_.diameters_m) * 2
         links.append(Convection("piston_vent_convection", "piston", "ambient", SIGNAL_SPEED, paths.PistonVentHoles(
             pi_.vent_hole_count * n_pistons, pi_.vent_hole_diameter_m, pi_.wall_thickness_m, inner, factor,
             HOLE_FLOW_COEFFICIENT, air_.caliper_convection_multiplier, pressure_pa), "piston_vents"))
 
-    # --- radiation: disc to caliper (view factor) and to the surroundings; caliper, upright, bell out
+    # --- the pad-disc interface (thermo.corner.interface): the friction heat split by the two
+    # bodies' resistances to the interface, plus their exchange while clamped and while resting
+    r_disc_face = interface.half_layer_resistance(dx_disc[0], k_disc, disc_face_area)
+    r_pad_face = interface.half_layer_resistance(dx_pad[0], k_pad, pad_area2)
+    g_rest = interface.rest_conductance(r_disc_face, r_pad_face, contact_mult * p.rest_contact_conductance_w_m2k, pad_area2)
+    if p.partition_override is None:
+        direct = interface.interface_disc_share(r_disc_face, r_pad_face)
+        sources = [HeatSource(surface, SIGNAL_DISC_HEAT, direct), HeatSource(surface, SIGNAL_PAD_HEAT, direct),
+                   HeatSource(pad_face, SIGNAL_DISC_HEAT, 1.0 - direct), HeatSource(pad_face, SIGNAL_PAD_HEAT, 1.0 - direct)]
+        g_applied = interface.applied_conductance(r_disc_face, r_pad_face)
+        links.append(Convection("pad_disc_interface", pad_face, surface, SIGNAL_CLAMP,
+                                interface.ClampedContact(g_applied, g_rest), "pad_interface"))
+    else:
+        sources = [HeatSource(surface, SIGNAL_DISC_HEAT, 1.0), HeatSource(pad_face, SIGNAL_PAD_HEAT, 1.0)]
+        links.append(Conduction("pad_disc_interface", pad_face, surface, g_rest, "pad_interface"))
+
+    # --- radiation: disc to caliper (view factor) and to the surroundings; caliper, upright, bell,
+    # backing plate and pad edges out
     eps_disc = d.emissivity_override if d.emissivity_override is not None else mat["disc"].emissivity
     eps_cal = cal.emissivity_override if cal.emissivity_override is not None else mat["caliper"].emissivity
-    disc_rad_area = 2 * ring + math.pi * d.outer_diameter_m * d.thickness_m
+    disc_rad_area = disc_face_area + math.pi * d.outer_diameter_m * d.thickness_m
     view = cal.view_factor_from_disc
     links += [
         Radiation("disc_to_caliper_radiation", surface, "caliper", radiation_coefficient_grey_two_surface(
@@ -240,25 +321,42 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
         Radiation("caliper_radiation", "caliper", "ambient", radiation_coefficient_to_surroundings(eps_cal, cal.area_m2), "radiation"),
         Radiation("upright_radiation", "upright", "ambient", radiation_coefficient_to_surroundings(mat["upright"].emissivity, hub.upright_area_m2), "radiation"),
         Radiation("bell_radiation", "disc_bell", "ambient", radiation_coefficient_to_surroundings(mat["bell"].emissivity, d.bell_area_m2), "radiation"),
+        Radiation("backing_plate_radiation", "backing_plate", "ambient",
+                  radiation_coefficient_to_surroundings(mat["backing"].emissivity, pad_area2), "radiation"),
     ]
+    for name, dx in zip(pad_nodes, dx_pad):
+        links.append(Radiation(f"{name}_edge_radiation", name, "ambient",
+                               radiation_coefficient_to_surroundings(eps_pad, 2 * pad_perimeter * dx), "radiation"))
 
     if grid is not None:
         links = [replace(link, conductance=_tabulated(link.conductance, grid)) if isinstance(link, Convection) else link
                  for link in links]
-    gamma = heat_partition(design)
-    sources = [HeatSource(surface, SIGNAL_DISC_HEAT, 1.0), HeatSource("pad", SIGNAL_PAD_HEAT, 1.0)]
     network = Network(tuple(nodes), boundaries, tuple(links), tuple(sources))
 
     names = network.node_names
-    outputs = ["disc"] + ([] if d.layers == 1 else ["disc_surface"]) + [n for n in OUTPUT_NODES[1:]]
+    outputs = (["disc"] + ([] if len(disc_nodes) == 1 else ["disc_surface"]) + ["pad"]
+               + ([] if len(pad_nodes) == 1 else ["pad_surface"]) + list(OUTPUT_NODES[2:]))
     weights = np.zeros((len(outputs), len(names)))
-    masses = np.array(disc_masses)
+
+    def mean_of(row, members, masses):
+        for node, m in zip(members, masses):
+            weights[row, names.index(node)] = m / np.sum(masses)
+
+    def face_of(row, members, dx):
+        w1, w2 = layers_mod.face_extrapolation(dx)
+        weights[row, names.index(members[0])] = w1
+        if len(members) > 1:
+            weights[row, names.index(members[1])] = w2
+
     for row, out in enumerate(outputs):
         if out == "disc":
-            for node, m in zip(disc_nodes, masses):
-                weights[row, names.index(node)] = m / masses.sum()
+            mean_of(row, disc_nodes, disc_masses)
         elif out == "disc_surface":
-            weights[row, names.index(surface)] = 1.0
+            face_of(row, disc_nodes, dx_disc)
+        elif out == "pad":
+            mean_of(row, pad_nodes, pad_masses)
+        elif out == "pad_surface":
+            face_of(row, pad_nodes, dx_pad)
         elif out == "piston_seal":
             for node, w in SEAL_WEIGHTS.items():
                 weights[row, names.index(node)] = w
@@ -266,4 +364,5 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
             weights[row, names.index(out)] = 1.0
     used = tuple(sorted({m.name for key, m in mat.items()
                          if not (key == "insert" and pi_.insert_thickness_m == 0) and not (key == "shim" and pi_.shim_thickness_m == 0)}))
-    return CornerModel(design, network, tuple(outputs), weights, "disc_surface" if d.layers > 1 else "disc", gamma, used)
+    return CornerModel(design, network, tuple(outputs), weights, "disc_surface" if len(disc_nodes) > 1 else "disc",
+                       heat_partition(design), used, tuple(pad_nodes), "fluid_at_piston")

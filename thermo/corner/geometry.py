@@ -38,7 +38,8 @@ class DiscGeometry:
 
     outer_diameter_m, inner_diameter_m : swept ring [m]; thickness_m : overall [m];
     vented : vane passages between two cheeks; cheek_thickness_m, vane_count, vane_thickness_m :
-    for vented discs; layers : nodes through each cheek's half (1 = lumped; more resolve the
+    for vented discs; layers : nodes through each cheek's half (0 = automatic from the braking
+    pulse's penetration depth, ``thermo.corner.layers``; 1 = lumped; more resolve the
     friction-surface temperature an infra-red sensor reads); vane_pumping_coefficient : vane exit
     air speed as a share of the disc rim speed (centrifugal pumping, common practice 0.1-0.3).
     """
@@ -51,7 +52,7 @@ class DiscGeometry:
     cheek_thickness_m: float = 0.0
     vane_count: int = 0
     vane_thickness_m: float = 0.0
-    layers: int = 1
+    layers: int = 0
     vane_pumping_coefficient: float = 0.2
     bell_mass_kg: float = 0.8
     bell_material: str = "aluminium_7075_t6"
@@ -64,8 +65,8 @@ class DiscGeometry:
         _require_positive(self, "outer_diameter_m", "inner_diameter_m", "thickness_m", "bell_mass_kg", "bell_area_m2")
         if self.inner_diameter_m >= self.outer_diameter_m:
             raise ScenarioError(f"[{self.section}] inner_diameter_mm must be less than outer_diameter_mm")
-        if not (isinstance(self.layers, int) and 1 <= self.layers <= 12):
-            raise ScenarioError(f"[{self.section}] layers must be a whole number from 1 to 12, got {self.layers!r}")
+        if not (isinstance(self.layers, int) and 0 <= self.layers <= 12):
+            raise ScenarioError(f"[{self.section}] layers must be a whole number from 0 (automatic) to 12, got {self.layers!r}")
         if self.vented:
             _require_positive(self, "cheek_thickness_m", "vane_thickness_m", "vane_pumping_coefficient")
             if not (isinstance(self.vane_count, int) and self.vane_count >= 3):
@@ -140,7 +141,11 @@ class PadGeometry:
     """Both pads of the corner together (one each side of the disc).
 
     area_m2 : friction face of ONE pad [m^2]; thickness_m : friction material now [m];
-    minimum_thickness_m : replace-by thickness [m]; backing_* : steel backing plate of one pad.
+    minimum_thickness_m : replace-by thickness [m]; backing_* : steel backing plate of one pad;
+    partition_override : fixed disc share of the friction heat (None: the pad-disc interface
+    splits it by the two bodies' thermal resistances); layers : nodes through the friction
+    material (0 = automatic from the penetration depth); rest_contact_conductance_w_m2k : the
+    pad resting on the disc between brake applications [W/(m^2 K)].
     """
 
     material: str
@@ -150,11 +155,15 @@ class PadGeometry:
     backing_thickness_m: float = 0.005
     backing_material: str = "steel_4340"
     partition_override: float | None = None
+    layers: int = 0
+    rest_contact_conductance_w_m2k: float = 400.0
     section: str = "pad"
 
     def __post_init__(self):
         _require_positive(self, "area_m2", "thickness_m", "backing_thickness_m")
-        _require_positive(self, "minimum_thickness_m", allow_zero=True)
+        _require_positive(self, "minimum_thickness_m", "rest_contact_conductance_w_m2k", allow_zero=True)
+        if not (isinstance(self.layers, int) and 0 <= self.layers <= 12):
+            raise ScenarioError(f"[{self.section}] layers must be a whole number from 0 (automatic) to 12, got {self.layers!r}")
         # a worn pad may go below its minimum during a run (the run warns); the scenario reader
         # rejects a starting thickness at or below the minimum
         if self.partition_override is not None:
@@ -237,6 +246,7 @@ class CaliperGeometry:
     fluid_wetted_area_m2: float
     fluid_volume_m3: float
     fluid_film_conductance_w_m2k: float = 150.0
+    piston_fluid_gap_m: float = 0.001
     mount_conductance_w_k: float = 2.0
     view_factor_from_disc: float = 0.08
     emissivity_override: float | None = None
@@ -244,7 +254,7 @@ class CaliperGeometry:
 
     def __post_init__(self):
         _require_positive(self, "mass_kg", "area_m2", "fluid_wetted_area_m2", "fluid_volume_m3",
-                          "fluid_film_conductance_w_m2k")
+                          "fluid_film_conductance_w_m2k", "piston_fluid_gap_m")
         _require_positive(self, "mount_conductance_w_k", allow_zero=True)
         _require_fraction(self, "view_factor_from_disc")
 
@@ -320,6 +330,7 @@ class AirflowSettings:
 
     local_airflow_factor: float = 0.35
     disc_convection_multiplier: float = 1.0
+    vane_convection_multiplier: float = 1.0
     caliper_convection_multiplier: float = 1.0
     hub_convection_multiplier: float = 1.0
     duct_effectiveness_multiplier: float = 1.0
@@ -327,7 +338,8 @@ class AirflowSettings:
     section: str = "airflow"
 
     def __post_init__(self):
-        _require_positive(self, "local_airflow_factor", "disc_convection_multiplier", "caliper_convection_multiplier",
+        _require_positive(self, "local_airflow_factor", "disc_convection_multiplier", "vane_convection_multiplier",
+                          "caliper_convection_multiplier",
                           "hub_convection_multiplier", "duct_effectiveness_multiplier", "contact_conductance_multiplier")
 
 
@@ -353,6 +365,11 @@ class CornerDesign:
             raise ScenarioError(f"[corners.{self.name}] axle must be 'front' or 'rear'")
         if not (0.05 <= self.pad_mu <= 1.5):
             raise ScenarioError(f"[corners.{self.name}] pad_mu must be between 0.05 and 1.5, got {self.pad_mu!r}")
+        gap_volume = 2 * self.piston.area_one_side_m2 * self.caliper.piston_fluid_gap_m
+        if gap_volume >= self.caliper.fluid_volume_m3:
+            raise ScenarioError(
+                f"[corners.{self.name}.caliper] the fluid behind the pistons (piston_fluid_gap_mm x piston area, "
+                f"{gap_volume * 1e6:.1f} cm3) must be less than fluid_volume_cm3 ({self.caliper.fluid_volume_m3 * 1e6:.1f} cm3)")
         _require_positive(type("x", (), {"section": f"corners.{self.name}", "rolling_radius_m": self.rolling_radius_m})(),
                           "rolling_radius_m")
 

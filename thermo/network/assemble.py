@@ -79,6 +79,7 @@ class CompiledNetwork:
         self.rad_idx = np.array([i for i, k in enumerate(kinds) if k is Radiation], dtype=int)
         self.rad_c = np.array([network.links[i].coefficient_w_k4 for i in self.rad_idx], dtype=float)
         self.conv_idx = np.array([i for i, k in enumerate(kinds) if k is Convection], dtype=int)
+        self.conv_scale = np.array([network.links[i].scale for i in self.conv_idx], dtype=float)
         unknown = [network.links[i].name for i, k in enumerate(kinds) if k not in (Conduction, Radiation, Convection)]
         if unknown:
             raise ModelError(f"network: link '{unknown[0]}' is of no known kind (conduction, convection, radiation)")
@@ -177,6 +178,7 @@ class CompiledNetwork:
             out = np.empty(Ta.shape[:-1] + (len(self._conv),))
             for k, (li, fn, di) in enumerate(self._conv):
                 out[..., k] = fn(None if di < 0 else drv[..., di], Ta[..., li], Tb[..., li])
+        out = out * self.conv_scale
         ok = np.isfinite(out) & (out >= 0)
         if not np.all(ok):
             bad = int(np.argmax(~ok.reshape(-1, len(self._conv)).all(axis=0)))

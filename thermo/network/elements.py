@@ -116,12 +116,15 @@ class Conduction:
 
 @dataclass(frozen=True)
 class Convection:
-    """A conductance between a node and a boundary that depends on a driver signal and temperature.
+    """A conductance between a node and a boundary (or a second node) that depends on a driver
+    signal and temperature.
 
     ``conductance(driver_value, node_temperature_k, boundary_temperature_k) -> G [W/K]`` must accept
     numpy arrays (it is tabulated and vectorised). ``driver`` names the schedule signal (for example a
     speed [m/s]); ``None`` means the conductance depends on temperatures only.
-    q = G (T_node - T_boundary).
+    q = G (T_node - T_boundary). A link between two nodes is tabulated like any other; the fast
+    kernels read it without leaving the table only when G does not depend on the second end's
+    temperature (the table's boundary axis spans air temperatures).
     """
 
     name: str
@@ -130,6 +133,7 @@ class Convection:
     driver: str | None
     conductance: Callable[..., np.ndarray]
     group: str = ""
+    scale: float = 1.0      # G = scale x conductance(...): links that differ only by area share one table
 
     @property
     def a(self) -> str:
@@ -197,10 +201,10 @@ class Network:
                 raise ModelError(f"network: link '{link.name}' must start at a node, not boundary '{link.a}'")
             if isinstance(link, (Conduction,)) and not (np.isfinite(link.conductance_w_k) and link.conductance_w_k >= 0):
                 raise ModelError(f"network: link '{link.name}' needs a conductance >= 0 W/K, got {link.conductance_w_k!r}")
+            if isinstance(link, Convection) and not (np.isfinite(link.scale) and link.scale >= 0):
+                raise ModelError(f"network: link '{link.name}' needs a scale >= 0, got {link.scale!r}")
             if isinstance(link, Radiation) and not (np.isfinite(link.coefficient_w_k4) and link.coefficient_w_k4 >= 0):
                 raise ModelError(f"network: link '{link.name}' needs a coefficient >= 0 W/K^4")
-            if isinstance(link, Convection) and link.b not in {b.name for b in self.boundaries}:
-                raise ModelError(f"network: convection link '{link.name}' must end at a boundary, not '{link.b}'")
         for source in self.sources:
             if source.node not in node_names:
                 raise ModelError(f"network: heat source '{source.signal}' feeds '{source.node}', which is no node")

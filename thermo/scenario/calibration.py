@@ -29,6 +29,7 @@ PEAK_KINDS = ("reached", "not_reached")
 PARAMETER_KEYS = {
     "airflow.local_airflow_factor": (0.0, None),
     "airflow.disc_convection_multiplier": (0.0, None),
+    "airflow.vane_convection_multiplier": (0.0, None),
     "airflow.caliper_convection_multiplier": (0.0, None),
     "airflow.hub_convection_multiplier": (0.0, None),
     "airflow.duct_effectiveness_multiplier": (0.0, None),
@@ -36,8 +37,8 @@ PARAMETER_KEYS = {
     "pad.heat_partition": (0.0, 1.0),
 }
 # nodes a channel or a peak may name (disc_surface only for a layered disc)
-NODES = ("disc", "disc_surface", "pad", "piston", "fluid", "caliper", "upright", "bearing", "hub", "disc_bell",
-         "backing_plate", "piston_seal")
+NODES = ("disc", "disc_surface", "pad", "pad_surface", "piston", "fluid_at_piston", "fluid", "caliper", "upright",
+         "bearing", "hub", "disc_bell", "backing_plate", "piston_seal")
 CHANNEL_NAME = re.compile(r"temp_[a-z0-9_]+")
 
 CALIBRATION = {

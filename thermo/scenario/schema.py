@@ -122,7 +122,8 @@ DISC = {
     "cheek_thickness_mm": mm("cheek_thickness_m", 0.0),
     "vane_count": f("vane_count", 0, kind=int, minimum=0),
     "vane_thickness_mm": mm("vane_thickness_m", 0.0),
-    "layers": f("layers", 1, kind=int, minimum=1, maximum=12),
+    "layers": f("layers", 0, kind=int, minimum=0, maximum=12,
+                doc="nodes through each cheek; 0 = automatic, from the braking pulse's penetration depth"),
     "vane_pumping_coefficient": f("vane_pumping_coefficient", 0.2, minimum=0.0, maximum=1.0),
     "bell_mass_kg": f("bell_mass_kg", 0.8, minimum=0.0),
     "bell_material": f("bell_material", "aluminium_7075_t6", kind=str),
@@ -139,7 +140,12 @@ PAD = {
     "minimum_thickness_mm": mm("minimum_thickness_m", 3.0),
     "backing_thickness_mm": mm("backing_thickness_m", 5.0),
     "backing_material": f("backing_material", "steel_4340", kind=str),
-    "heat_partition": f("partition_override", None, minimum=0.0, maximum=1.0, doc="disc share; omit for the effusivity formula"),
+    "heat_partition": f("partition_override", None, minimum=0.0, maximum=1.0,
+                        doc="fixed disc share; omit to let the interface split the heat"),
+    "layers": f("layers", 0, kind=int, minimum=0, maximum=12,
+                doc="nodes through the friction material; 0 = automatic, from the penetration depth"),
+    "rest_contact_conductance_w_m2k": f("rest_contact_conductance_w_m2k", 400.0, minimum=0.0,
+                                        doc="pad resting on the disc between applications"),
 }
 
 PISTON = {
@@ -167,6 +173,7 @@ CALIPER = {
     "fluid_wetted_area_mm2": f("fluid_wetted_area_m2", factor=MM2, minimum=0.0),
     "fluid_volume_cm3": f("fluid_volume_m3", factor=CM3, minimum=0.0),
     "fluid_film_conductance_w_m2k": f("fluid_film_conductance_w_m2k", 150.0, minimum=0.0),
+    "piston_fluid_gap_mm": mm("piston_fluid_gap_m", 1.0, doc="fluid layer between each piston and its bore bottom"),
     "mount_conductance_w_k": f("mount_conductance_w_k", 2.0, minimum=0.0),
     "view_factor_from_disc": f("view_factor_from_disc", 0.08, minimum=0.0, maximum=1.0),
     "emissivity": f("emissivity_override", None, minimum=0.0, maximum=1.0),
@@ -203,7 +210,8 @@ DUCT = {
 
 AIRFLOW = {
     "local_airflow_factor": f("local_airflow_factor", 0.35, minimum=0.0),
-    "disc_convection_multiplier": f("disc_convection_multiplier", 1.0, minimum=0.0),
+    "disc_convection_multiplier": f("disc_convection_multiplier", 1.0, minimum=0.0, doc="disc faces"),
+    "vane_convection_multiplier": f("vane_convection_multiplier", 1.0, minimum=0.0, doc="vane passages"),
     "caliper_convection_multiplier": f("caliper_convection_multiplier", 1.0, minimum=0.0),
     "hub_convection_multiplier": f("hub_convection_multiplier", 1.0, minimum=0.0),
     "duct_effectiveness_multiplier": f("duct_effectiveness_multiplier", 1.0, minimum=0.0),

@@ -224,13 +224,18 @@ class KernelNetwork:
         for l in np.flatnonzero(self.kind == kernel.KIND_CONVECTION):
             s, q = int(self.conv_slot[l]), int(self.link_b[l]) - n
             if q < 0:
-                continue                             # a node-to-node link keeps the full table
-            series = np.concatenate([inputs.bk_grid[:, q], inputs.bk_mid[:, q]])
-            if np.ptp(series) != 0.0:
-                continue
-            k, fk, inside = kernel._axis(float(series[0]), gp[6], 1.0 / gp[7], int(gp[8]))
-            if not inside:
-                continue                             # off the table: the kernel flags it as usual
+                # a node-to-node link: sliced only where no table of the slot varies along the
+                # second end's temperature axis (then its value there is irrelevant)
+                if any(np.ptp(self.tables[int(t)], axis=2).max() != 0.0 for t in np.unique(self.tix[:, s])):
+                    continue
+                k, fk = 0, 0.0
+            else:
+                series = np.concatenate([inputs.bk_grid[:, q], inputs.bk_mid[:, q]])
+                if np.ptp(series) != 0.0:
+                    continue
+                k, fk, inside = kernel._axis(float(series[0]), gp[6], 1.0 / gp[7], int(gp[8]))
+                if not inside:
+                    continue                             # off the table: the kernel flags it as usual
             slot_sliced[s] = True
             used, which = np.unique(self.tix[:, s], return_inverse=True)
             for u, table in enumerate(used):
@@ -364,6 +369,7 @@ def batch_network(networks) -> KernelNetwork:
     for b, net in enumerate(nets):
         par[b, net.cond_idx] = net.cond_g
         par[b, net.rad_idx] = net.rad_c
+        par[b, net.conv_idx] = net.conv_scale
     caps = [net.capacities for net in nets]
     seg_start = np.searchsorted(caps[0].seg_node, np.arange(n + 1)).astype(np.int64)
     return KernelNetwork(

@@ -98,7 +98,7 @@ def _flows_lanes(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, 
                     g = gi * (gj * c00 + fj * c01) + fi * (gj * c10 + fj * c11)
                     ga = (gi * (c01 - c00) + fi * (c11 - c10)) * inv_j
                     m = par[l, c]
-                    dT = ta - tbk
+                    dT = ta - (T[b, c] if on_node else tbk)
                     f[l, c] = m * g * dT
                     dfa[l, c] = m * (g + ga * dT)
                     dfb[l, c] = -m * g
