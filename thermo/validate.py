@@ -151,9 +151,12 @@ def repeated_stops(front) -> list[Comparison]:
     """Stops every t_c seconds into one node cooled by a constant h A (Newcomb 1960).
 
     The node is the demo front ring with c held at its 20 degC value, as the series assumes; h A
-    is the demo disc's own convection (faces, vanes, duct) at 150 km/h and 300 degC.
+    is the demo disc's own convection (faces, vanes, duct; every multiplier 1, the correlations as
+    published) at 150 km/h and 300 degC.
     """
-    model = build_corner(front, grid=None)
+    published_paths = replace(front.airflow, **{f.name: 1.0 for f in fields(AirflowSettings)
+                                                if f.name.endswith("_multiplier")})
+    model = build_corner(replace(front, airflow=published_paths), grid=None)
     speed, surface, air_k = np.array([150.0 / 3.6]), np.array([573.15]), np.array([301.15])
     h_area = float(sum(link.scale * link.conductance(speed, surface, air_k)[0] for link in model.network.links
                        if isinstance(link, Convection) and link.node.startswith("disc")))   # faces, vanes, ducts
