@@ -158,8 +158,10 @@ def repeated_stops(front) -> list[Comparison]:
                                                 if f.name.endswith("_multiplier")})
     model = build_corner(replace(front, airflow=published_paths), grid=None)
     speed, surface, air_k = np.array([150.0 / 3.6]), np.array([573.15]), np.array([301.15])
+    boundaries = set(model.network.boundary_names)   # to the air only (not the layers' own conduction)
     h_area = float(sum(link.scale * link.conductance(speed, surface, air_k)[0] for link in model.network.links
-                       if isinstance(link, Convection) and link.node.startswith("disc")))   # faces, vanes, ducts
+                       if isinstance(link, Convection) and link.node.startswith("disc")
+                       and link.boundary in boundaries))   # faces, vanes, ducts
     disc = get_material(front.disc.material)
     mass = front.disc.metal_volume_m3 * disc.density_kg_m3
     c = float(disc.specific_heat(ROOM_K))

@@ -126,6 +126,14 @@ def heat_partition(design: CornerDesign) -> float:
     return float(heat_partition_area_weighted(e_disc, e_pad, 2 * design.disc.ring_area_m2, 2 * design.pad.area_m2))
 
 
+def _solid_conduction(name: str, a: str, b: str, g_room_w_k: float, group: str, material):
+    """A conduction through a solid: fixed where the material gives one conductivity, else following
+    its k(T) table (``paths.ConductivityRatio``, scaled by the conductance at 20 degC)."""
+    if len(material.conductivity_table[0]) < 2:
+        return Conduction(name, a, b, g_room_w_k, group)
+    return Convection(name, a, b, None, paths.ConductivityRatio.of(material), group, scale=g_room_w_k)
+
+
 def _series(*resistances_k_w):
     return 1.0 / sum(resistances_k_w)
 
@@ -168,7 +176,8 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
         disc_masses[-1] += d.vane_volume_m3 * mat["disc"].density_kg_m3
         for i in range(len(dx_disc) - 1):
             g = k_disc * disc_face_area / (dx_disc[i] / 2 + dx_disc[i + 1] / 2)
-            links.append(Conduction(f"{disc_nodes[i]}_to_{disc_nodes[i + 1]}", disc_nodes[i], disc_nodes[i + 1], g, "disc_internal"))
+            links.append(_solid_conduction(f"{disc_nodes[i]}_to_{disc_nodes[i + 1]}", disc_nodes[i], disc_nodes[i + 1], g,
+                                           "disc_internal", mat["disc"]))
     for name, mass in zip(disc_nodes, disc_masses):
         nodes.append(Node(name, mat["disc"].heat_capacity(mass)))
     surface, core = disc_nodes[0], disc_nodes[-1]
@@ -183,7 +192,8 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
         nodes.append(Node(name, mat["pad"].heat_capacity(mass)))
     for i in range(len(dx_pad) - 1):
         g = k_pad * pad_area2 / (dx_pad[i] / 2 + dx_pad[i + 1] / 2)
-        links.append(Conduction(f"{pad_nodes[i]}_to_{pad_nodes[i + 1]}", pad_nodes[i], pad_nodes[i + 1], g, "pad_conduction"))
+        links.append(_solid_conduction(f"{pad_nodes[i]}_to_{pad_nodes[i + 1]}", pad_nodes[i], pad_nodes[i + 1], g,
+                                       "pad_conduction", mat["pad"]))
     pad_face, pad_back = pad_nodes[0], pad_nodes[-1]
 
     gap_volume = 2 * pi_.area_one_side_m2 * cal.piston_fluid_gap_m

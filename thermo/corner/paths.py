@@ -257,3 +257,31 @@ class PistonVentHoles:
         length = math.sqrt(self.inner_area_m2)
         natural_g = _natural_nusselt_vertical(length, surface_k, air_k, self.pressure_pa) * k_air / length * self.inner_area_m2
         return np.maximum(forced_g, self.multiplier * natural_g)
+
+
+@dataclass(frozen=True)
+class ConductivityRatio:
+    """k(T) / k(20 degC) of a solid, at the temperature of a conduction's first end [-].
+
+    Used as the conductance function of a node-to-node link whose ``scale`` is the conductance at
+    20 degC [W/K], so a conduction through a disc or pad layer follows the material's k(T) table
+    (interpolated linearly, held beyond its ends, as ``Material.conductivity``). k is taken at the
+    first end (the layer nearer the friction face): between neighbouring layers the two ends differ
+    by tens of kelvin, a change of k of a few per cent at most for grey iron. One table serves
+    every link of the material (it depends on neither the driver nor the second end).
+    """
+
+    temperatures_k: tuple[float, ...]
+    conductivities_w_mk: tuple[float, ...]
+    reference_k: float = 293.15
+
+    @classmethod
+    def of(cls, material) -> "ConductivityRatio":
+        temps, values = material.conductivity_table
+        return cls(tuple(float(t) for t in temps), tuple(float(k) for k in values))
+
+    def __call__(self, driver, first_k, second_k):
+        shape = np.broadcast_shapes(np.shape(driver) if driver is not None else (), np.shape(first_k), np.shape(second_k))
+        k_ref = np.interp(self.reference_k, self.temperatures_k, self.conductivities_w_mk)
+        ratio = np.interp(np.asarray(first_k, dtype=float), self.temperatures_k, self.conductivities_w_mk) / k_ref
+        return np.broadcast_to(ratio, shape).copy()
