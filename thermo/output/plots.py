@@ -64,7 +64,8 @@ def _shade_phases(axes, corner: CornerResult) -> None:
 
 def plot_corner_temperatures(corner: CornerResult, path: Path, title: str = "") -> Path:
     """Every output node against time [degC vs min], limit lines for the checks, phases shaded."""
-    figure = _new_figure()
+    entries = len(corner.node_names) + len(corner.checks)
+    figure = _new_figure(width=13.0 if entries > 20 else 10.0, height=6.5 if entries > 20 else 5.5)
     axes = figure.add_subplot()
     colours = _node_colours(corner.node_names)
     minutes = np.asarray(corner.time_s) / MINUTE
@@ -78,7 +79,9 @@ def plot_corner_temperatures(corner: CornerResult, path: Path, title: str = "") 
     axes.set_ylabel("temperature [degC]")
     axes.set_title(f"{title}{corner.name}: temperatures")
     axes.grid(True, alpha=0.3)
-    axes.legend(loc="center left", bbox_to_anchor=(1.01, 0.5), fontsize="small")
+    # many nodes and limits: two columns, so that the legend fits beside the axes
+    axes.legend(loc="center left", bbox_to_anchor=(1.01, 0.5), fontsize="x-small" if entries > 20 else "small",
+                ncol=2 if entries > 20 else 1)
     return _save(figure, path)
 
 
