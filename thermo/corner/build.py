@@ -287,15 +287,16 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
         Convection("hub_convection", "hub", "ambient", SIGNAL_SPEED, plate(hub.hub_area_m2, air_.hub_convection_multiplier), "hub_convection"),
         Convection("upright_convection", "upright", "ambient", SIGNAL_SPEED, plate(hub.upright_area_m2, air_.hub_convection_multiplier), "upright_convection"),
     ]
-    # the pads' edges (perimeter x thickness of each pad) in the wheel-well air, shared among the
-    # pad layers by thickness
+    # the pads' edges (perimeter x thickness of each pad) in the wheel-well air, from the layer at
+    # mid-thickness (the edges carry about 1 % of the corner's heat: one node stands for them all)
     pad_length = math.sqrt(PAD_ASPECT_RATIO * p.area_m2)
     pad_perimeter = 2 * (pad_length + p.area_m2 / pad_length)
+    pad_edge_area = 2 * pad_perimeter * p.thickness_m
+    pad_mid = pad_nodes[int(np.searchsorted(np.cumsum(dx_pad), p.thickness_m / 2))]
     eps_pad = mat["pad"].emissivity
-    edge_per_m2 = plate(1.0, air_.caliper_convection_multiplier, pad_length)  # one table, scaled by each layer's edge area
-    for name, dx in zip(pad_nodes, dx_pad):
-        links.append(Convection(f"{name}_edge_convection", name, "ambient", SIGNAL_SPEED, edge_per_m2, "pad_convection",
-                                scale=2 * pad_perimeter * dx))
+    edge_per_m2 = plate(1.0, air_.caliper_convection_multiplier, pad_length)  # one table, scaled by the edge area
+    links.append(Convection("pad_edge_convection", pad_mid, "ambient", SIGNAL_SPEED, edge_per_m2, "pad_convection",
+                            scale=pad_edge_area))
     if pi_.piston_type == "vented":
         inner = sum(math.pi / 4 * (dia - 2 * pi_.wall_thickness_m) ** 2 for dia in pi_.diameters_m) * 2
         links.append(Convection("piston_vent_convection", "piston", "ambient", SIGNAL_SPEED, paths.PistonVentHoles(
@@ -334,9 +335,8 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
         Radiation("backing_plate_radiation", "backing_plate", "ambient",
                   radiation_coefficient_to_surroundings(mat["backing"].emissivity, pad_area2), "radiation"),
     ]
-    for name, dx in zip(pad_nodes, dx_pad):
-        links.append(Radiation(f"{name}_edge_radiation", name, "ambient",
-                               radiation_coefficient_to_surroundings(eps_pad, 2 * pad_perimeter * dx), "radiation"))
+    links.append(Radiation("pad_edge_radiation", pad_mid, "ambient",
+                           radiation_coefficient_to_surroundings(eps_pad, pad_edge_area), "radiation"))
 
     if grid is not None:
         links = [replace(link, conductance=_tabulated(link.conductance, grid)) if isinstance(link, Convection) else link
