@@ -388,7 +388,13 @@ def render(rows: list[Comparison]) -> str:
     lines += [f"{number[key]}. {SOURCES[key]}" for key in keys]
     lines += ["", "## Not yet compared", "",
               "- Measured brake-fluid and caliper temperatures from vehicle tests: the report of Emery, Kumar & "
-              "Firey (1997) measured them, but only its abstract was reachable here, without numbers.",
+              "Firey (1997) measured them, but only its abstract was reachable here, without numbers. Keen "
+              "(TRRL LR 903, 1979, abstract) measured brake-fluid temperatures of 50-60 degC in normal driving "
+              "and 150-160 degC on an extremely severe hill descent of a fully laden car; the cars' masses and "
+              "brakes and the descent are not in the abstract, so no run here reproduces that test.",
+              "- Measured disc, caliper or fluid temperatures of racing cars: none found in published papers or "
+              "theses reachable here, so the heavy-GT test car (tests/data/heavy_gt.toml) is checked on the "
+              "model's invariants and option comparisons, not on absolute peaks.",
               "- The rig rotor of McPhee & Johnson (2008): its dimensions were not reachable, so typical rotors "
               "stand in for it (from memory) and the comparison carries their spread.",
               "- Per-temperature stationary-disc coefficients of Topouris et al. (2020) and their radiative "
