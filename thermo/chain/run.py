@@ -199,6 +199,7 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
               "pad_minimum_thickness_m": design.pad.minimum_thickness_m,
               "link_to_boundary": [link.b in model.network.boundary_names for link in model.network.links],
               "heat_partition_disc": model.heat_partition,
+              "heat_partition_realised": _realised_partition(model, heat_in, link_energy),
               "removed_with_pad_material_j": removed,
               "initial_temperature_k": float(T_initial[0]),
               "warnings": warns,
@@ -209,6 +210,19 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
         link_names=tuple(link.name for link in links), link_groups=tuple(link.group for link in links),
         link_flows_w=np.concatenate(flows), link_energy_j=link_energy, energy=energy, checks=checks,
         laps=tuple(laps), phases=phases, stop_time_s=stop, extras=extras)
+
+
+def _realised_partition(model: CornerModel, heat_in_j: float, link_energy_j: np.ndarray) -> float:
+    """Share of the run's friction heat that ended up in the disc: what the sources put into its
+    face layer plus what crossed the pad-disc interface (pad to disc positive) [-]."""
+    if heat_in_j <= 0:
+        return float(model.heat_partition)
+    face = model.network.node_names[0]          # the disc's face layer (or the lumped disc) comes first
+    # the duty splits the friction heat into disc_heat_w (share heat_partition) and pad_heat_w
+    signal_share = {SIGNAL_DISC_HEAT: model.heat_partition, SIGNAL_PAD_HEAT: 1.0 - model.heat_partition}
+    direct = sum(s.fraction * signal_share[s.signal] for s in model.network.sources if s.node == face)
+    crossed = float(link_energy_j[model.network.link_names.index("pad_disc_interface")])
+    return float(direct + crossed / heat_in_j)
 
 
 def _node_materials(design: CornerDesign, model: CornerModel) -> dict[str, str]:
