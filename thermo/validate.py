@@ -14,6 +14,7 @@ import argparse
 import math
 import sys
 from dataclasses import dataclass, fields, replace
+from importlib.resources import files
 from pathlib import Path
 
 import numpy as np
@@ -27,9 +28,8 @@ from thermo.materials import get_material
 from thermo.network import Boundary, Conduction, Convection, HeatCapacity, HeatSource, Network, Node, Schedule
 from thermo.solver import SolverSettings, solve_network
 
-ROOT = Path(__file__).resolve().parents[1]
-DEMO = ROOT / "scenarios" / "demo.toml"
-DOC = ROOT / "docs" / "validation.md"
+DEMO = Path(str(files("brakeheat_scenarios") / "demo.toml"))   # the packaged demo, as `brakeheat demo` reads it
+DOC = Path("docs") / "validation.md"                            # run from the top of a clone
 TIGHT = SolverSettings(method="LSODA", rtol=1e-8, atol_k=1e-7)
 TINY = 1e-9                     # every path out of a body scaled down to this (they must stay > 0)
 SMALL_FLUX_W_M2 = 1.0e5         # small, so that c(T) of the iron stays within 1 % of its 20 degC value
