@@ -106,6 +106,7 @@ class Results:
     corners: tuple[CornerResult, ...]
     caution: str
     warnings: tuple[str, ...] = ()
+    overrides: tuple[tuple[str, str], ...] = ()   # (dotted key, TOML value text) applied on top of scenario_text
 
     def corner(self, name: str) -> CornerResult:
         for c in self.corners:

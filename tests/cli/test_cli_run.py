@@ -50,6 +50,10 @@ def test_text_report_names_corners_checks_and_caution(small_runs):
 def test_json_contract(small_runs):
     data = small_runs["json"]
     assert data["scenario"] == "small test scenario"
+    # the --set overrides of the run, in order, as TOML text (the scenario text alone is not this run)
+    assert [o["key"] for o in data["overrides"]][:3] == ["plan.phases.1.count", "plan.phases.4.count",
+                                                         "plan.phases.5.duration_s"]
+    assert {"key": "limits.bearing_c", "value": "30"} in data["overrides"]
     assert data["caution"] == thermo.CAUTION
     assert [c["name"] for c in data["corners"]] == ["front", "rear"]
     for corner in data["corners"]:

@@ -95,7 +95,8 @@ def make_results(scale_rear=0.8, **corner_kwargs) -> Results:
         scenario_name="invented_car_at_invented_circuit", scenario_text='name = "demo"\nlaps = 10\n',
         version=__version__, solver="LSODA", solver_status="success",
         references=("Incropera et al., Fundamentals of Heat and Mass Transfer", "FMVSS No. 116"),
-        corners=corners, caution=CAUTION, warnings=("duct flow outside correlation range at lap 3",))
+        corners=corners, caution=CAUTION, warnings=("duct flow outside correlation range at lap 3",),
+        overrides=(("corners.front.piston.shim_thickness_mm", "1.0"), ("corners.front.pad.material", '"pad = odd"')))
 
 
 def lumped_rise(time_s, start_s, t0_k, t_inf_k, tau_s):

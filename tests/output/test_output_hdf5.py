@@ -39,6 +39,7 @@ def test_round_trip_exact(results, tmp_path):
     back = read_results_hdf5(path)
     assert_same(results, back)
     # spot checks that the comparison itself bites
+    assert back.overrides == (("corners.front.piston.shim_thickness_mm", "1.0"), ("corners.front.pad.material", '"pad = odd"'))
     assert back.corners[1].name == "rear_left"
     assert back.corners[0].temperatures_k.shape == (2401, 8)
 

@@ -23,6 +23,7 @@ def test_report_basics(results):
     for name in ("front_left", "rear_left", "invented_car_at_invented_circuit", "LSODA", "FMVSS No. 116"):
         assert name in text
     assert "! duct flow outside correlation range at lap 3" in text
+    assert "Overrides applied on top of the scenario file:\n  corners.front.piston.shim_thickness_mm = 1.0\n" in text
     for header in ("peak [degC]", "limit [degC]", "margin [K]", "after stop [s]", "braking [kJ]"):
         assert header in text
 

@@ -9,7 +9,7 @@ import pytest
 from thermo.output import OutputError, summary_dict, write_summary_json
 from thermo.output.summary import summary_json
 
-TOP_KEYS = {"scenario", "version", "solver", "solver_status", "caution", "warnings", "references", "corners"}
+TOP_KEYS = {"scenario", "version", "solver", "solver_status", "caution", "overrides", "warnings", "references", "corners"}
 CORNER_KEYS = {"name", "peak_c", "peak_time_s", "checks", "energy", "heat_paths", "soak", "laps", "extras"}
 CHECK_KEYS = {"name", "node", "limit_c", "peak_c", "margin_k", "status", "peak_time_s", "source", "still_rising"}
 ENERGY_KEYS = {"heat_in_j", "stored_j", "lost_j", "balance_rel_error"}
@@ -40,6 +40,9 @@ def test_header_values(results):
     assert summary["caution"].startswith("CAUTION")
     assert summary["warnings"] == list(results.warnings)
     assert summary["references"] == list(results.references)
+    # the run says which overrides it applied on top of its scenario text
+    assert summary["overrides"] == [{"key": "corners.front.piston.shim_thickness_mm", "value": "1.0"},
+                                    {"key": "corners.front.pad.material", "value": '"pad = odd"'}]
 
 
 def test_peaks_equal_max_of_series(results, factory):

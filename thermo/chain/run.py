@@ -289,4 +289,22 @@ def run_scenario(scenario: Scenario, *, progress=None, segments=None) -> Results
     return Results(
         scenario_name=scenario.name, scenario_text=scenario.text, version=thermo.__version__,
         solver=settings.method, solver_status="success", references=references_for(scenario, models, {n for c in corners for n in c.extras["correlations_used"]}),
-        corners=corners, caution=thermo.CAUTION, warnings=run_warnings)
+        corners=corners, caution=thermo.CAUTION, warnings=run_warnings, overrides=applied_overrides(scenario))
+
+
+def applied_overrides(scenario: Scenario) -> tuple[tuple[str, str], ...]:
+    """The --set and variant overrides a run applied on top of its scenario text, as (dotted key,
+    TOML value text), so that a result says which run it is. ``[calibrated]`` values are part of
+    the text itself and are not repeated."""
+    return tuple((str(key), toml_value_text(value)) for key, value in scenario.overrides)
+
+
+def toml_value_text(value) -> str:
+    """A value as TOML would write it: true/false, numbers, "text", [lists]."""
+    if isinstance(value, bool):
+        return "true" if value else "false"
+    if isinstance(value, (int, float)):
+        return repr(value)
+    if isinstance(value, (list, tuple)):
+        return "[" + ", ".join(toml_value_text(v) for v in value) + "]"
+    return '"' + str(value).replace("\\", "\\\\").replace('"', '\\"') + '"'

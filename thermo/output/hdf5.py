@@ -3,7 +3,9 @@
 Layout (format "brakeheat-results", format_version 1; every array kept bit for bit):
 
 - root attrs: format, format_version, scenario_name, scenario_text, version, solver,
-  solver_status, caution, references (string array), warnings (string array), corners
+  solver_status, caution, references (string array), warnings (string array), overrides (string
+  array of "dotted.key = TOML value", the --set and variant overrides applied on top of
+  scenario_text; absent in files written before it), corners
   (string array: corner order)
 - ``/corners/<corner>/`` attrs name, nodes, stop_time_s (NaN: no stop), extras_json
   - ``time_s`` (n_t) [s]; ``temperature_k`` (n_t x n_nodes) [K], attr nodes;
@@ -39,6 +41,12 @@ _STR = h5py.string_dtype()
 
 def _strings(values) -> np.ndarray:
     return np.array([str(v) for v in values], dtype=_STR)
+
+
+def _override(line: str) -> tuple[str, str]:
+    """("dotted.key", "TOML value") from the "dotted.key = TOML value" the file stores."""
+    key, _, value = line.partition(" = ")
+    return key, value
 
 
 def _name_ok(name: str, what: str, where: str) -> str:
@@ -156,6 +164,7 @@ def write_results_hdf5(results: Results, path) -> None:
                 f.attrs[key] = getattr(results, key)
             f.attrs["references"] = _strings(results.references)
             f.attrs["warnings"] = _strings(results.warnings)
+            f.attrs["overrides"] = _strings(f"{key} = {value}" for key, value in results.overrides)
             f.attrs["corners"] = _strings(c.name for c in results.corners)
             corners = f.create_group("corners", track_order=True)
             for corner in results.corners:
@@ -278,4 +287,5 @@ def read_results_hdf5(path) -> Results:
             scenario_name=r.text(f, "scenario_name"), scenario_text=r.text(f, "scenario_text"),
             version=r.text(f, "version"), solver=r.text(f, "solver"), solver_status=r.text(f, "solver_status"),
             references=r.texts(f, "references"), corners=corners, caution=r.text(f, "caution"),
-            warnings=r.texts(f, "warnings"))
+            warnings=r.texts(f, "warnings"),
+            overrides=tuple(_override(line) for line in (r.texts(f, "overrides") if "overrides" in f.attrs else ())))

@@ -199,6 +199,8 @@ def format_run_report(results: Results) -> str:
     """
     head = [f"brakeheat run report: {results.scenario_name}",
             f"brakeheat {results.version}, solver {results.solver}: {results.solver_status}"]
+    if results.overrides:
+        head += ["Overrides applied on top of the scenario file:"] + [f"  {k} = {v}" for k, v in results.overrides]
     if results.warnings:
         head += ["Warnings:"] + [f"  ! {w}" for w in results.warnings]
     body = [format_corner_report(c) for c in results.corners]

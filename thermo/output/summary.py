@@ -115,7 +115,7 @@ def summary_dict(results: Results) -> dict:
 
     Returns
     -------
-    dict  Keys scenario, version, solver, solver_status, caution, warnings, references, corners [-]
+    dict  Keys scenario, version, solver, solver_status, caution, overrides, warnings, references, corners [-]
     """
     return {
         "scenario": results.scenario_name,
@@ -123,6 +123,7 @@ def summary_dict(results: Results) -> dict:
         "solver": results.solver,
         "solver_status": results.solver_status,
         "caution": results.caution or CAUTION,
+        "overrides": [{"key": key, "value": value} for key, value in results.overrides],
         "warnings": list(results.warnings),
         "references": list(results.references),
         "corners": [corner_summary(c) for c in results.corners],
