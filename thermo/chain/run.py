@@ -143,9 +143,10 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
             raise SolveError(f"corner {design.name}, {segment.phase.name}: {sol.status}")
         skip = 1 if times else 0
         out = model.outputs(sol.temperatures_k)
-        times.append(sol.time_s[skip:])
-        temps.append(out[skip:])
-        flows.append(sol.link_flows_w[skip:])
+        keep = stored_rows(sol.time_s, out, scenario.solver.output_hz)[skip:]
+        times.append(sol.time_s[keep])
+        temps.append(out[keep])
+        flows.append(sol.link_flows_w[keep])
         link_energy += sol.link_energy_j
         heat_in += sol.heat_in_j
         lost += sol.lost_j
@@ -210,6 +211,23 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
         link_names=tuple(link.name for link in links), link_groups=tuple(link.group for link in links),
         link_flows_w=np.concatenate(flows), link_energy_j=link_energy, energy=energy, checks=checks,
         laps=tuple(laps), phases=phases, stop_time_s=stop, extras=extras)
+
+
+def stored_rows(time_s: np.ndarray, outputs: np.ndarray, output_hz: float) -> np.ndarray:
+    """Indices of the rows of one segment to store: all of them (``output_hz`` 0), else the first
+    row at or after each 1/output_hz step, the segment's ends, and every row where an output node
+    reaches its maximum or minimum in the segment, so that thinning the stored series never moves
+    a peak, a margin or a lap's extremes."""
+    n = len(time_s)
+    if output_hz <= 0 or n <= 2:
+        return np.arange(n)
+    slot = np.floor(np.asarray(time_s) * output_hz + 1e-9)
+    keep = np.zeros(n, dtype=bool)
+    keep[0] = keep[-1] = True
+    keep[1:] |= slot[1:] != slot[:-1]
+    keep[np.argmax(outputs, axis=0)] = True
+    keep[np.argmin(outputs, axis=0)] = True
+    return np.flatnonzero(keep)
 
 
 def _realised_partition(model: CornerModel, heat_in_j: float, link_energy_j: np.ndarray) -> float:

@@ -44,14 +44,15 @@ class PadWear:
     the corner's friction energy E and area A_pads = 2 x one pad's face); T is the pad
     temperature weighted by the pad heat over the lap. An illustrative model (wear in proportion
     to friction work, rising with temperature) whose coefficients must be calibrated against
-    measured wear; the defaults are illustrative only.
+    measured wear. The defaults are declared once, in the scenario schema ([pad_wear] in
+    ``thermo/scenario/schema.py``: off; 0.25 mm^3/kJ, 450 degC and 150 K, illustrative only).
     """
 
-    enabled: bool = False
-    wear_coefficient_m3_per_j: float = 0.0
-    reference_temperature_k: float = 623.15
-    temperature_scale_k: float = 100.0
-    warn_margin_m: float = 0.001
+    enabled: bool
+    wear_coefficient_m3_per_j: float
+    reference_temperature_k: float
+    temperature_scale_k: float
+    warn_margin_m: float
 
 
 @dataclass(frozen=True)
@@ -84,10 +85,12 @@ class Plan:
 
 @dataclass(frozen=True)
 class SolverChoice:
-    method: str = "LSODA"
-    rtol: float = 1e-6
-    atol_k: float = 1e-4
-    output_hz: float = 0.0
+    """The [solver] table (defaults declared once, in ``thermo/scenario/schema.py``: method 'fast')."""
+
+    method: str
+    rtol: float
+    atol_k: float
+    output_hz: float                # stored series rate [Hz]; 0 = every sample (peaks always kept)
 
 
 @dataclass(frozen=True)

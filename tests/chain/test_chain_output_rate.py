@@ -1,0 +1,29 @@
+"""[solver] output_hz thins the stored series, never the peaks, margins or laps."""
+from __future__ import annotations
+
+import numpy as np
+
+from chain_runs import NO_WEAR, SHORT_PLAN, small_scenario, solve_one
+from thermo.chain.run import stored_rows
+
+
+def test_stored_rows_keep_the_ends_the_extremes_and_one_row_a_step():
+    t = np.arange(0.0, 10.0, 0.05)
+    out = np.column_stack([np.sin(t), -t])
+    rows = stored_rows(t, out, 1.0)
+    assert rows[0] == 0 and rows[-1] == t.size - 1
+    assert {int(np.argmax(np.sin(t))), int(np.argmin(np.sin(t))), int(np.argmin(-t))} <= set(rows.tolist())
+    assert set(np.floor(t[rows])) == set(np.floor(t))          # every 1 s step has a row
+    assert rows.size < 20
+    assert np.array_equal(stored_rows(t, out, 0.0), np.arange(t.size))
+
+
+def test_a_thinned_run_has_the_same_peaks_checks_and_laps(short_run):
+    thin = solve_one(small_scenario(SHORT_PLAN, NO_WEAR + [("solver.output_hz", 0.5)]))
+    assert thin.time_s.size < 0.2 * short_run.time_s.size
+    assert thin.node_names == short_run.node_names
+    np.testing.assert_array_equal(thin.temperatures_k.max(axis=0), short_run.temperatures_k.max(axis=0))
+    for a, b in zip(thin.checks, short_run.checks):
+        assert (a.name, a.peak_k, a.peak_time_s, a.margin_k) == (b.name, b.peak_k, b.peak_time_s, b.margin_k)
+    assert thin.laps == short_run.laps
+    assert thin.energy == short_run.energy
