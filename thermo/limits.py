@@ -17,6 +17,7 @@ import numpy as np
 
 from lapdata.units import celsius_to_kelvin, kelvin_to_celsius
 from thermo.errors import ScenarioError
+from thermo.keys import check_declared, key
 from thermo.materials import Material
 from thermo.results import CheckResult
 
@@ -154,23 +155,22 @@ class Limits:
     (materials.toml) with a ``material_caution_band_k`` band.
     """
 
-    bearing_c: float = 150.0
-    bearing_caution_band_k: float = 30.0
-    piston_seal_c: float = 175.0
-    piston_seal_caution_band_k: float = 25.0
-    caliper_c: float = 200.0
-    caliper_caution_band_k: float = 20.0
-    disc_c: float = 750.0
-    disc_caution_band_k: float = 50.0
-    pad_c: float = 650.0
-    pad_caution_band_k: float = 50.0
-    fluid_caution_band_k: float = 20.0
-    material_caution_band_k: float = 20.0
+    bearing_c: float = key("bearing_c", 150.0, minimum=-273.15, doc="wheel-bearing grease")
+    bearing_caution_band_k: float = key("bearing_caution_band_k", 30.0, minimum=0.0)
+    piston_seal_c: float = key("piston_seal_c", 175.0, minimum=-273.15)
+    piston_seal_caution_band_k: float = key("piston_seal_caution_band_k", 25.0, minimum=0.0)
+    caliper_c: float = key("caliper_c", 200.0, minimum=-273.15, doc="caliper body")
+    caliper_caution_band_k: float = key("caliper_caution_band_k", 20.0, minimum=0.0)
+    disc_c: float = key("disc_c", 750.0, minimum=-273.15, doc="read on the disc face")
+    disc_caution_band_k: float = key("disc_caution_band_k", 50.0, minimum=0.0)
+    pad_c: float = key("pad_c", 650.0, minimum=-273.15, doc="read on the pad bulk")
+    pad_caution_band_k: float = key("pad_caution_band_k", 50.0, minimum=0.0)
+    fluid_caution_band_k: float = key("fluid_caution_band_k", 20.0, minimum=0.0)
+    material_caution_band_k: float = key("material_caution_band_k", 20.0, minimum=0.0,
+                                         doc="band of the checks against a part's material service limit")
 
     def __post_init__(self):
-        for key, value in self.__dict__.items():
-            if not (np.isfinite(value) and (value >= 0 if key.endswith("_k") else True)):
-                raise ScenarioError(f"[limits] {key} must be a finite number (bands >= 0), got {value!r}")
+        check_declared(self, "limits")
 
 
 LIMIT_SOURCE_PRACTICE = "common practice default, no published source; the maker's figure governs"

@@ -1,6 +1,7 @@
-"""Until each key is declared once (issue 18), the defaults the dataclasses still carry must equal
-the scenario schema's, converted to SI: a drift would give a Python user another car than a TOML
-user (the four that had drifted, in PadWear and SolverChoice, are gone from the dataclasses)."""
+"""A Python user and a TOML user get the same car: the corner parts' and the limits' keys are
+declared once, on the dataclass fields (``thermo.keys.key``), and the schema tables are derived
+from them; their Python defaults are the TOML defaults converted to SI. PadWear and SolverChoice
+(whose defaults had drifted) carry none of their own."""
 from __future__ import annotations
 
 import dataclasses

@@ -14,7 +14,7 @@ EXIT_OK, EXIT_INPUT, EXIT_USAGE, EXIT_EXCEEDED = 0, 1, 2, 3
 
 
 def build_parser() -> argparse.ArgumentParser:
-    from thermo.cli import compare_cmd, fit_cmd, lap_cmd, run_cmd, settle_cmd
+    from thermo.cli import compare_cmd, fit_cmd, keys_cmd, lap_cmd, run_cmd, settle_cmd
     parser = argparse.ArgumentParser(
         prog="brakeheat",
         description="Transient heat in race-car brake corners: fluid boiling margin, bearing heat soak, options compared.")
@@ -26,6 +26,7 @@ def build_parser() -> argparse.ArgumentParser:
     compare_cmd.add_parser(sub)
     fit_cmd.add_parser(sub)
     settle_cmd.add_parser(sub)
+    keys_cmd.add_parser(sub)
     return parser
 
 

@@ -6,30 +6,16 @@ reader converts the user's unit-suffixed keys (mm, mm^2, degC ...) into these on
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, fields
+from dataclasses import dataclass
 
+from lapdata.units import CM3, KMH, MM, MM2
 from thermo.errors import ScenarioError
+from thermo.keys import check_declared, key
 
 PISTON_TYPES = ("solid", "vented")
 DUCT_TARGETS = ("disc_eye", "disc_face", "caliper")
 FACE_CORRELATIONS = ("rotating", "limpert")
 DUCT_FLOW_MODES = ("area", "volume_flow", "duct_velocity")
-
-
-def _require_positive(obj, *names, allow_zero=False):
-    for name in names:
-        value = getattr(obj, name)
-        ok = isinstance(value, (int, float)) and math.isfinite(value) and (value >= 0 if allow_zero else value > 0)
-        if not ok:
-            want = ">= 0" if allow_zero else "> 0"
-            raise ScenarioError(f"[{obj.section}] {name} must be a number {want}, got {value!r}")
-
-
-def _require_fraction(obj, *names):
-    for name in names:
-        value = getattr(obj, name)
-        if not (isinstance(value, (int, float)) and 0.0 <= value <= 1.0):
-            raise ScenarioError(f"[{obj.section}] {name} must be between 0 and 1, got {value!r}")
 
 
 @dataclass(frozen=True)
@@ -44,41 +30,44 @@ class DiscGeometry:
     air speed as a share of the disc rim speed (centrifugal pumping, common practice 0.1-0.3).
     """
 
-    material: str
-    outer_diameter_m: float
-    inner_diameter_m: float
-    thickness_m: float
-    vented: bool
-    cheek_thickness_m: float = 0.0
-    vane_count: int = 0
-    vane_thickness_m: float = 0.0
-    layers: int = 0
-    vane_pumping_coefficient: float = 0.2
-    bell_mass_kg: float = 0.8
-    bell_material: str = "aluminium_7075_t6"
-    bell_area_m2: float = 0.04
-    emissivity_override: float | None = None
-    face_correlation: str = "rotating"
+    material: str = key("material", kind=str)
+    outer_diameter_m: float = key("outer_diameter_mm", factor=MM, above=0.0, doc="the swept ring")
+    inner_diameter_m: float = key("inner_diameter_mm", factor=MM, above=0.0)
+    thickness_m: float = key("thickness_mm", factor=MM, above=0.0)
+    vented: bool = key("vented", kind=bool)
+    cheek_thickness_m: float = key("cheek_thickness_mm", 0.0, factor=MM, minimum=0.0, doc="vented")
+    vane_count: int = key("vane_count", 0, kind=int, minimum=0, doc="vented")
+    vane_thickness_m: float = key("vane_thickness_mm", 0.0, factor=MM, minimum=0.0, doc="vented")
+    layers: int = key("layers", 0, kind=int, minimum=0, maximum=12,
+                      doc="nodes through each cheek; 0 = automatic, the first from the braking pulse's penetration "
+                          "depth, as many as fill the cheek (at most 8); 1 lumps the disc, which cannot resolve the "
+                          "friction face an IR sensor reads")
+    vane_pumping_coefficient: float = key("vane_pumping_coefficient", 0.2, minimum=0.0, maximum=1.0,
+                                          doc="vane exit air speed / rim speed")
+    bell_mass_kg: float = key("bell_mass_kg", 0.8, above=0.0)
+    bell_material: str = key("bell_material", "aluminium_7075_t6", kind=str)
+    bell_area_m2: float = key("bell_area_m2", 0.04, above=0.0)
+    emissivity_override: float | None = key("emissivity", None, minimum=0.0, maximum=1.0, doc="omit: the material's")
+    face_correlation: str = key("face_correlation", "rotating", kind=str, choices=FACE_CORRELATIONS,
+                                doc="rotating: Cobb & Saunders on the wheel speed, or the cross-flow where larger; "
+                                    "limpert: Limpert's disc form on the local air speed (about three times more cooling)")
     section: str = "disc"
 
     def __post_init__(self):
-        _require_positive(self, "outer_diameter_m", "inner_diameter_m", "thickness_m", "bell_mass_kg", "bell_area_m2")
+        check_declared(self, self.section)
         if self.inner_diameter_m >= self.outer_diameter_m:
             raise ScenarioError(f"[{self.section}] inner_diameter_mm must be less than outer_diameter_mm")
-        if not (isinstance(self.layers, int) and 0 <= self.layers <= 12):
-            raise ScenarioError(f"[{self.section}] layers must be a whole number from 0 (automatic) to 12, got {self.layers!r}")
         if self.vented:
-            _require_positive(self, "cheek_thickness_m", "vane_thickness_m", "vane_pumping_coefficient")
+            for name, value in (("cheek_thickness_mm", self.cheek_thickness_m), ("vane_thickness_mm", self.vane_thickness_m),
+                                ("vane_pumping_coefficient", self.vane_pumping_coefficient)):
+                if value <= 0:
+                    raise ScenarioError(f"[{self.section}] a vented disc needs {name} > 0, got {value!r}")
             if not (isinstance(self.vane_count, int) and self.vane_count >= 3):
                 raise ScenarioError(f"[{self.section}] vane_count must be a whole number >= 3 for a vented disc")
             if 2 * self.cheek_thickness_m >= self.thickness_m:
                 raise ScenarioError(f"[{self.section}] two cheeks (2 x cheek_thickness_mm) must be thinner than thickness_mm")
             if self.vane_count * self.vane_thickness_m >= math.pi * self.inner_diameter_m:
                 raise ScenarioError(f"[{self.section}] vanes ({self.vane_count} x vane_thickness_mm) do not fit round the inner diameter")
-        if self.emissivity_override is not None:
-            _require_fraction(self, "emissivity_override")
-        if self.face_correlation not in FACE_CORRELATIONS:
-            raise ScenarioError(f"[{self.section}] face_correlation must be one of {', '.join(FACE_CORRELATIONS)}")
 
     @property
     def ring_area_m2(self) -> float:
@@ -148,26 +137,24 @@ class PadGeometry:
     pad resting on the disc between brake applications [W/(m^2 K)].
     """
 
-    material: str
-    area_m2: float
-    thickness_m: float
-    minimum_thickness_m: float = 0.003
-    backing_thickness_m: float = 0.005
-    backing_material: str = "steel_4340"
-    partition_override: float | None = None
-    layers: int = 0
-    rest_contact_conductance_w_m2k: float = 400.0
+    material: str = key("material", kind=str)
+    area_m2: float = key("area_mm2", factor=MM2, above=0.0, doc="friction face of one pad")
+    thickness_m: float = key("thickness_mm", factor=MM, above=0.0)
+    minimum_thickness_m: float = key("minimum_thickness_mm", 3.0, factor=MM, minimum=0.0)
+    backing_thickness_m: float = key("backing_thickness_mm", 5.0, factor=MM, above=0.0)
+    backing_material: str = key("backing_material", "steel_4340", kind=str)
+    partition_override: float | None = key("heat_partition", None, minimum=0.0, maximum=1.0,
+                                           doc="fixed disc share; omit to let the interface split the heat")
+    layers: int = key("layers", 0, kind=int, minimum=0, maximum=12,
+                      doc="nodes through the friction material; 0 = automatic, from the penetration depth (at most 6)")
+    rest_contact_conductance_w_m2k: float = key("rest_contact_conductance_w_m2k", 400.0, minimum=0.0,
+                                                doc="pad resting on the disc between applications")
     section: str = "pad"
 
     def __post_init__(self):
-        _require_positive(self, "area_m2", "thickness_m", "backing_thickness_m")
-        _require_positive(self, "minimum_thickness_m", "rest_contact_conductance_w_m2k", allow_zero=True)
-        if not (isinstance(self.layers, int) and 0 <= self.layers <= 12):
-            raise ScenarioError(f"[{self.section}] layers must be a whole number from 0 (automatic) to 12, got {self.layers!r}")
+        check_declared(self, self.section)
         # a worn pad may go below its minimum during a run (the run warns); the scenario reader
         # rejects a starting thickness at or below the minimum
-        if self.partition_override is not None:
-            _require_fraction(self, "partition_override")
 
 
 @dataclass(frozen=True)
@@ -181,38 +168,33 @@ class PistonGeometry:
     and pistons (thickness 0 = none); contact_conductance_w_m2k : crown on backing plate.
     """
 
-    material: str
-    diameters_m: tuple[float, ...]
-    height_m: float = 0.025
-    wall_thickness_m: float = 0.003
-    crown_thickness_m: float = 0.004
-    crown_contact_fraction: float = 0.6
-    piston_type: str = "solid"
-    vent_hole_count: int = 0
-    vent_hole_diameter_m: float = 0.0
-    insert_material: str = "ceramic_zirconia"
-    insert_thickness_m: float = 0.0
-    shim_material: str = "mica_ceramic_fibre_shim"
-    shim_thickness_m: float = 0.0
-    contact_conductance_w_m2k: float = 3000.0
-    seal_gap_conductance_w_m2k: float = 300.0
+    material: str = key("material", kind=str)
+    diameters_m: tuple[float, ...] = key("diameters_mm", factor=MM, kind=list, doc="one per piston on ONE side")
+    height_m: float = key("height_mm", 25.0, factor=MM, above=0.0)
+    wall_thickness_m: float = key("wall_thickness_mm", 3.0, factor=MM, above=0.0)
+    crown_thickness_m: float = key("crown_thickness_mm", 4.0, factor=MM, above=0.0)
+    crown_contact_fraction: float = key("crown_contact_fraction", 0.6, above=0.0, maximum=1.0,
+                                        doc="share of the piston face touching the backing plate")
+    piston_type: str = key("type", "solid", kind=str, choices=PISTON_TYPES)
+    vent_hole_count: int = key("vent_hole_count", 0, kind=int, minimum=0, doc="per piston (vented)")
+    vent_hole_diameter_m: float = key("vent_hole_diameter_mm", 0.0, factor=MM, minimum=0.0, doc="vented")
+    insert_material: str = key("insert_material", "ceramic_zirconia", kind=str)
+    insert_thickness_m: float = key("insert_thickness_mm", 0.0, factor=MM, minimum=0.0, doc="0: none")
+    shim_material: str = key("shim_material", "mica_ceramic_fibre_shim", kind=str)
+    shim_thickness_m: float = key("shim_thickness_mm", 0.0, factor=MM, minimum=0.0, doc="0: none")
+    contact_conductance_w_m2k: float = key("contact_conductance_w_m2k", 3000.0, above=0.0, doc="crown on backing plate")
+    seal_gap_conductance_w_m2k: float = key("seal_gap_conductance_w_m2k", 300.0, above=0.0)
     section: str = "piston"
 
     def __post_init__(self):
         if not self.diameters_m or any(not (isinstance(d, (int, float)) and d > 0) for d in self.diameters_m):
             raise ScenarioError(f"[{self.section}] diameters_mm must be a list of positive diameters, one per piston on one side")
-        _require_positive(self, "height_m", "wall_thickness_m", "crown_thickness_m", "contact_conductance_w_m2k",
-                          "seal_gap_conductance_w_m2k")
-        _require_positive(self, "insert_thickness_m", "shim_thickness_m", allow_zero=True)
-        _require_fraction(self, "crown_contact_fraction")
-        if self.crown_contact_fraction == 0:
-            raise ScenarioError(f"[{self.section}] crown_contact_fraction must be above 0")
-        if self.piston_type not in PISTON_TYPES:
-            raise ScenarioError(f"[{self.section}] type must be one of {', '.join(PISTON_TYPES)}, got {self.piston_type!r}")
+        check_declared(self, self.section)
         if self.piston_type == "vented":
-            if not (isinstance(self.vent_hole_count, int) and self.vent_hole_count >= 1):
+            if self.vent_hole_count < 1:
                 raise ScenarioError(f"[{self.section}] a vented piston needs vent_hole_count >= 1")
-            _require_positive(self, "vent_hole_diameter_m")
+            if self.vent_hole_diameter_m <= 0:
+                raise ScenarioError(f"[{self.section}] a vented piston needs vent_hole_diameter_mm > 0")
         if 2 * self.wall_thickness_m >= min(self.diameters_m):
             raise ScenarioError(f"[{self.section}] wall_thickness_mm is too thick for the smallest piston")
 
@@ -240,45 +222,44 @@ class PistonGeometry:
 class CaliperGeometry:
     """Caliper body, its fluid, and its mounting to the upright."""
 
-    material: str
-    mass_kg: float
-    area_m2: float
-    fluid_wetted_area_m2: float
-    fluid_volume_m3: float
-    fluid_film_conductance_w_m2k: float = 150.0
-    piston_fluid_gap_m: float = 0.001
-    mount_conductance_w_k: float = 2.0
-    view_factor_from_disc: float = 0.08
-    emissivity_override: float | None = None
+    material: str = key("material", kind=str)
+    mass_kg: float = key("mass_kg", above=0.0)
+    area_m2: float = key("area_m2", above=0.0, doc="outer surface in the airflow")
+    fluid_wetted_area_m2: float = key("fluid_wetted_area_mm2", factor=MM2, above=0.0)
+    fluid_volume_m3: float = key("fluid_volume_cm3", factor=CM3, above=0.0)
+    fluid_film_conductance_w_m2k: float = key("fluid_film_conductance_w_m2k", 150.0, above=0.0,
+                                              doc="bulk fluid to its walls and to the fluid at the pistons")
+    piston_fluid_gap_m: float = key("piston_fluid_gap_mm", 1.0, factor=MM, above=0.0,
+                                    doc="fluid between each piston and its bore bottom: the fluid_at_piston node")
+    mount_conductance_w_k: float = key("mount_conductance_w_k", 2.0, minimum=0.0)
+    view_factor_from_disc: float = key("view_factor_from_disc", 0.08, minimum=0.0, maximum=1.0)
+    emissivity_override: float | None = key("emissivity", None, minimum=0.0, maximum=1.0, doc="omit: the material's")
     section: str = "caliper"
 
     def __post_init__(self):
-        _require_positive(self, "mass_kg", "area_m2", "fluid_wetted_area_m2", "fluid_volume_m3",
-                          "fluid_film_conductance_w_m2k", "piston_fluid_gap_m")
-        _require_positive(self, "mount_conductance_w_k", allow_zero=True)
-        _require_fraction(self, "view_factor_from_disc")
+        check_declared(self, self.section)
 
 
 @dataclass(frozen=True)
 class HubGeometry:
     """Hub, wheel bearing and upright, with the joints between them [W/K]."""
 
-    hub_mass_kg: float = 2.5
-    hub_material: str = "steel_4340"
-    hub_area_m2: float = 0.03
-    bearing_mass_kg: float = 0.9
-    bearing_material: str = "bearing_steel_52100"
-    upright_mass_kg: float = 3.0
-    upright_material: str = "aluminium_6061_t6"
-    upright_area_m2: float = 0.12
-    disc_to_bell_w_k: float = 4.0
-    bell_to_hub_w_k: float = 3.0
-    hub_to_bearing_w_k: float = 2.5
-    bearing_to_upright_w_k: float = 3.0
+    hub_mass_kg: float = key("hub_mass_kg", 2.5, above=0.0)
+    hub_material: str = key("hub_material", "steel_4340", kind=str)
+    hub_area_m2: float = key("hub_area_m2", 0.03, above=0.0)
+    bearing_mass_kg: float = key("bearing_mass_kg", 0.9, above=0.0)
+    bearing_material: str = key("bearing_material", "bearing_steel_52100", kind=str)
+    upright_mass_kg: float = key("upright_mass_kg", 3.0, above=0.0)
+    upright_material: str = key("upright_material", "aluminium_6061_t6", kind=str)
+    upright_area_m2: float = key("upright_area_m2", 0.12, above=0.0)
+    disc_to_bell_w_k: float = key("disc_to_bell_w_k", 4.0, above=0.0, doc="joint")
+    bell_to_hub_w_k: float = key("bell_to_hub_w_k", 3.0, above=0.0, doc="joint")
+    hub_to_bearing_w_k: float = key("hub_to_bearing_w_k", 2.5, above=0.0, doc="joint")
+    bearing_to_upright_w_k: float = key("bearing_to_upright_w_k", 3.0, above=0.0, doc="joint")
     section: str = "hub"
 
     def __post_init__(self):
-        _require_positive(self, *(f.name for f in fields(self) if f.name.endswith(("_kg", "_m2", "_w_k"))))
+        check_declared(self, self.section)
 
 
 @dataclass(frozen=True)
@@ -290,26 +271,22 @@ class DuctGeometry:
     speed over the outlet area, scaled with speed. air_rise_k: duct air warmer than ambient [K].
     """
 
-    target: str = "disc_eye"
-    flow_mode: str = "area"
-    inlet_area_m2: float = 0.0
-    effectiveness_coefficient: float = 0.6
-    volume_flow_m3_s: float = 0.0
-    duct_velocity_m_s: float = 0.0
-    outlet_area_m2: float = 0.004
-    reference_speed_m_s: float = 200 / 3.6
-    air_rise_k: float = 5.0
-    face_area_share: float = 0.3
+    target: str = key("target", "disc_eye", kind=str, choices=DUCT_TARGETS)
+    flow_mode: str = key("flow", "area", kind=str, choices=DUCT_FLOW_MODES)
+    inlet_area_m2: float = key("inlet_area_mm2", 0.0, factor=MM2, minimum=0.0, doc="flow = area")
+    effectiveness_coefficient: float = key("duct_quality", 0.6, minimum=0.0, maximum=1.0,
+                                           doc="C_eff: delivered flow / (rho v A_inlet)")
+    volume_flow_m3_s: float = key("volume_flow_m3_s", 0.0, minimum=0.0, doc="flow = volume_flow, at reference_speed_kmh")
+    duct_velocity_m_s: float = key("duct_velocity_m_s", 0.0, minimum=0.0,
+                                   doc="flow = duct_velocity, over outlet_area_mm2 at reference_speed_kmh")
+    outlet_area_m2: float = key("outlet_area_mm2", 4000.0, factor=MM2, above=0.0)
+    reference_speed_m_s: float = key("reference_speed_kmh", 200.0, factor=KMH, minimum=1.0)
+    air_rise_k: float = key("air_rise_k", 5.0, minimum=0.0, doc="the duct's air warmer than ambient by this")
+    face_area_share: float = key("face_area_share", 0.3, minimum=0.0, maximum=1.0)
     section: str = "duct"
 
     def __post_init__(self):
-        if self.target not in DUCT_TARGETS:
-            raise ScenarioError(f"[{self.section}] target must be one of {', '.join(DUCT_TARGETS)}, got {self.target!r}")
-        if self.flow_mode not in DUCT_FLOW_MODES:
-            raise ScenarioError(f"[{self.section}] flow must be one of {', '.join(DUCT_FLOW_MODES)}, got {self.flow_mode!r}")
-        _require_positive(self, "inlet_area_m2", "volume_flow_m3_s", "duct_velocity_m_s", "air_rise_k", allow_zero=True)
-        _require_positive(self, "outlet_area_m2", "reference_speed_m_s")
-        _require_fraction(self, "effectiveness_coefficient", "face_area_share")
+        check_declared(self, self.section)
         needed = {"area": "inlet_area_m2", "volume_flow": "volume_flow_m3_s", "duct_velocity": "duct_velocity_m_s"}[self.flow_mode]
         if getattr(self, needed) <= 0:
             raise ScenarioError(f"[{self.section}] flow = '{self.flow_mode}' needs {needed.replace('_m2', '_mm2')} > 0")
@@ -328,19 +305,20 @@ class DuctGeometry:
 class AirflowSettings:
     """How the wheel-well air moves: local speed = factor x car speed; calibration multipliers."""
 
-    local_airflow_factor: float = 0.35
-    disc_convection_multiplier: float = 1.0
-    vane_convection_multiplier: float = 1.0
-    caliper_convection_multiplier: float = 1.0
-    hub_convection_multiplier: float = 1.0
-    duct_effectiveness_multiplier: float = 1.0
-    contact_conductance_multiplier: float = 1.0
+    local_airflow_factor: float = key("local_airflow_factor", 0.35, above=0.0,
+                                      doc="air in the wheel moves slower than the car")
+    disc_convection_multiplier: float = key("disc_convection_multiplier", 1.0, above=0.0,
+                                            doc="calibration multiplier (1 = the published correlation): disc faces")
+    vane_convection_multiplier: float = key("vane_convection_multiplier", 1.0, above=0.0, doc="vane passages")
+    caliper_convection_multiplier: float = key("caliper_convection_multiplier", 1.0, above=0.0,
+                                               doc="caliper, backing plates, pad edges")
+    hub_convection_multiplier: float = key("hub_convection_multiplier", 1.0, above=0.0)
+    duct_effectiveness_multiplier: float = key("duct_effectiveness_multiplier", 1.0, above=0.0)
+    contact_conductance_multiplier: float = key("contact_conductance_multiplier", 1.0, above=0.0)
     section: str = "airflow"
 
     def __post_init__(self):
-        _require_positive(self, "local_airflow_factor", "disc_convection_multiplier", "vane_convection_multiplier",
-                          "caliper_convection_multiplier",
-                          "hub_convection_multiplier", "duct_effectiveness_multiplier", "contact_conductance_multiplier")
+        check_declared(self, self.section)
 
 
 @dataclass(frozen=True)
@@ -357,21 +335,21 @@ class CornerDesign:
     ducts: tuple[DuctGeometry, ...]
     airflow: AirflowSettings
     fluid_material: str = "brake_fluid_glycol"
-    pad_mu: float = 0.5
+    pad_mu: float = key("pad_mu", 0.5, minimum=0.05, maximum=1.5, doc="pad-disc friction coefficient")
     rolling_radius_m: float = 0.33
 
     def __post_init__(self):
         if self.axle not in ("front", "rear"):
             raise ScenarioError(f"[corners.{self.name}] axle must be 'front' or 'rear'")
-        if not (0.05 <= self.pad_mu <= 1.5):
-            raise ScenarioError(f"[corners.{self.name}] pad_mu must be between 0.05 and 1.5, got {self.pad_mu!r}")
+        check_declared(self, f"corners.{self.name}")
         gap_volume = 2 * self.piston.area_one_side_m2 * self.caliper.piston_fluid_gap_m
         if gap_volume >= self.caliper.fluid_volume_m3:
             raise ScenarioError(
                 f"[corners.{self.name}.caliper] the fluid behind the pistons (piston_fluid_gap_mm x piston area, "
                 f"{gap_volume * 1e6:.1f} cm3) must be less than fluid_volume_cm3 ({self.caliper.fluid_volume_m3 * 1e6:.1f} cm3)")
-        _require_positive(type("x", (), {"section": f"corners.{self.name}", "rolling_radius_m": self.rolling_radius_m})(),
-                          "rolling_radius_m")
+        if not (isinstance(self.rolling_radius_m, (int, float)) and math.isfinite(self.rolling_radius_m)
+                and self.rolling_radius_m > 0):
+            raise ScenarioError(f"[corners.{self.name}] rolling_radius_m must be a number > 0, got {self.rolling_radius_m!r}")
 
     @property
     def effective_radius_m(self) -> float:

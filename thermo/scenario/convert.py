@@ -4,7 +4,7 @@ from __future__ import annotations
 import difflib
 
 from thermo.errors import ScenarioError
-from thermo.scenario.schema import REQUIRED, Field, is_finite_number
+from thermo.keys import REQUIRED, Field, is_finite_number
 
 
 def suggestion(key: str, known) -> str:
@@ -44,6 +44,8 @@ def convert_value(where: str, key: str, field: Field, value, source: str):
         raise ScenarioError(f"{at} must be a finite number, got {value!r}")
     if field.minimum is not None and value < field.minimum:
         raise ScenarioError(f"{at} must be at least {field.minimum:g}, got {value!r}")
+    if field.above is not None and not value > field.above:
+        raise ScenarioError(f"{at} must be more than {field.above:g}, got {value!r}")
     if field.maximum is not None and value > field.maximum:
         raise ScenarioError(f"{at} must be at most {field.maximum:g}, got {value!r}")
     if field.kind is int:
