@@ -109,3 +109,10 @@ def test_the_print_check_can_fail(tmp_path):
 @pytest.mark.parametrize("path", SOURCES, ids=lambda p: str(p.relative_to(ROOT)))
 def test_files_stay_under_600_lines(path):
     assert len(path.read_text(encoding="utf-8").splitlines()) < 600
+
+
+@pytest.mark.parametrize("path", files_in("thermo.studies"), ids=lambda p: p.name)
+def test_studies_are_library_code_below_the_command_line(path):
+    # compare, settle and the lap summary live in the library; the command line is a thin layer over them
+    assert not [n for n in imported(path) if under(n, "thermo.cli")]
+    assert not _prints_or_exits(path)

@@ -5,7 +5,7 @@ import json
 
 import pytest
 
-from thermo.cli.compare_cmd import variant_overrides
+from thermo.studies.compare import variant_overrides
 from thermo.scenario.overrides import parse_override
 from conftest import SHRINK, SMALL, cli
 

@@ -74,6 +74,7 @@ def run_and_report(path: Path, args) -> int:
     finally:
         progress.close()
     if args.out:
+        from thermo.output.files import write_outputs
         write_outputs(results, Path(args.out))
     if args.json:
         json.dump(summary_dict(results), sys.stdout, indent=2, allow_nan=False)
@@ -86,17 +87,6 @@ def run_and_report(path: Path, args) -> int:
     exceeded = any(c.status == "exceeded" for corner in results.corners for c in corner.checks)
     from thermo.cli.main import EXIT_EXCEEDED, EXIT_OK
     return EXIT_EXCEEDED if (args.fail_on_exceeded and exceeded) else EXIT_OK
-
-
-def write_outputs(results, out_dir: Path) -> None:
-    """results.h5, summary.json and the plots, each written atomically."""
-    from thermo.output.hdf5 import write_results_hdf5
-    from thermo.output.plots import plot_run
-    from thermo.output.summary import write_summary_json
-    out_dir.mkdir(parents=True, exist_ok=True)
-    write_results_hdf5(results, out_dir / "results.h5")
-    write_summary_json(results, out_dir / "summary.json")
-    plot_run(results, out_dir)
 
 
 def run_command(args) -> int:

@@ -5,7 +5,7 @@ import json
 import sys
 from pathlib import Path
 
-from lapdata.units import kelvin_to_celsius
+from thermo.studies.settle import settle, settled_dict
 
 
 def add_parser(sub) -> None:
@@ -18,19 +18,6 @@ def add_parser(sub) -> None:
     p.add_argument("--solver", metavar="METHOD", help="override [solver] method")
     p.add_argument("--json", action="store_true", help="print one JSON object on stdout")
     p.set_defaults(handler=settle_command)
-
-
-def settled_dict(scenario, results) -> dict:
-    import thermo
-    return {
-        "scenario": scenario.name, "version": thermo.__version__, "caution": thermo.CAUTION,
-        "corners": [{
-            "name": r.corner, "phase": r.phase, "lap_time_s": round(r.lap_time_s, 3),
-            "peak_c": {n: round(float(kelvin_to_celsius(v)), 2) for n, v in r.peak_k.items()},
-            "min_c": {n: round(float(kelvin_to_celsius(v)), 2) for n, v in r.min_k.items()},
-            "laps_to_within_1k": r.laps_to_1k, "residual_k": r.residual_k, "lap_solves": r.lap_solves,
-            "method": r.method, "wall_s": round(r.wall_s, 4)} for r in results],
-    }
 
 
 def format_settled(data: dict) -> str:
@@ -49,15 +36,11 @@ def format_settled(data: dict) -> str:
 
 
 def settle_command(args) -> int:
-    from thermo.chain.settle import settled_lap
     from thermo.cli.run_cmd import overrides_with_solver
     from thermo.scenario import load_scenario
-    from thermo.solver.settings import SolverSettings
 
     scenario = load_scenario(Path(args.scenario), overrides_with_solver(args))
-    names = args.corner or [c.name for c in scenario.corners]
-    settings = SolverSettings(method=scenario.solver.method, rtol=scenario.solver.rtol, atol_k=scenario.solver.atol_k)
-    results = [settled_lap(scenario, name, phase_name=args.phase, settings=settings) for name in names]
+    results = settle(scenario, corners=args.corner, phase=args.phase)
     data = settled_dict(scenario, results)
     if args.json:
         json.dump(data, sys.stdout, indent=2, allow_nan=False)

@@ -1,0 +1,10 @@
+"""Studies built on whole runs: comparisons of variants, the settled lap, the braking of a lap.
+
+Library code (the command line is a thin layer over it); each returns plain results or
+JSON-ready dicts and never prints.
+"""
+from thermo.studies.compare import Comparison, compare
+from thermo.studies.lap import lap_summary
+from thermo.studies.settle import settle, settled_dict
+
+__all__ = ["Comparison", "compare", "lap_summary", "settle", "settled_dict"]

@@ -1,0 +1,39 @@
+"""The settled lap of each corner: the cyclic steady state of a repeated lap (Newton shooting)."""
+from __future__ import annotations
+
+from lapdata.units import kelvin_to_celsius
+
+
+def settle(scenario, *, corners=None, phase=None) -> list:
+    """The settled lap of each corner (all by default) of a scenario, with its own solver settings.
+
+    Parameters
+    ----------
+    scenario : Scenario  A scenario read with ``load_scenario`` [-]
+    corners : sequence of str or None  Corner names (None: every corner) [-]
+    phase : str or None  The 'laps' phase whose lap is repeated (None: the first) [-]
+
+    Returns
+    -------
+    list of SettledLap  One per corner (``thermo.chain.settle.SettledLap``: peaks, minima, laps to
+    within 1 K from ambient) [-]
+    """
+    from thermo.chain.settle import settled_lap
+    from thermo.solver.settings import SolverSettings
+
+    settings = SolverSettings(method=scenario.solver.method, rtol=scenario.solver.rtol, atol_k=scenario.solver.atol_k)
+    names = list(corners) if corners else [c.name for c in scenario.corners]
+    return [settled_lap(scenario, name, phase_name=phase, settings=settings) for name in names]
+
+
+def settled_dict(scenario, results) -> dict:
+    import thermo
+    return {
+        "scenario": scenario.name, "version": thermo.__version__, "caution": thermo.CAUTION,
+        "corners": [{
+            "name": r.corner, "phase": r.phase, "lap_time_s": round(r.lap_time_s, 3),
+            "peak_c": {n: round(float(kelvin_to_celsius(v)), 2) for n, v in r.peak_k.items()},
+            "min_c": {n: round(float(kelvin_to_celsius(v)), 2) for n, v in r.min_k.items()},
+            "laps_to_within_1k": r.laps_to_1k, "residual_k": r.residual_k, "lap_solves": r.lap_solves,
+            "method": r.method, "wall_s": round(r.wall_s, 4)} for r in results],
+    }
