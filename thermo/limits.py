@@ -102,10 +102,10 @@ class FluidSpec:
     source: str = FMVSS116_SOURCE
 
     def __post_init__(self):
-        for key in ("dry_boiling_c", "wet_boiling_c", "water_content_pct"):
-            value = getattr(self, key)
+        for name in ("dry_boiling_c", "wet_boiling_c", "water_content_pct"):
+            value = getattr(self, name)
             if not np.isfinite(value):
-                raise ScenarioError(f"[fluid] {key} must be a number, got {value!r}")
+                raise ScenarioError(f"[fluid] {name} must be a number, got {value!r}")
         if self.water_content_pct < 0 or self.water_content_pct > 10:
             raise ScenarioError(f"[fluid] water_content_pct must be 0 to 10 %, got {self.water_content_pct}")
         if self.wet_boiling_c > self.dry_boiling_c:

@@ -15,9 +15,13 @@ def test_scipy_integrators_agree_on_peaks_within_0_1_k(short_scenario, short_run
     # agree on each node's peak to 0.1 K and its peak time to one output sample
     other = solve_one(short_scenario, method=method)
     assert other.node_names == short_run.node_names
+    times = short_run.time_s
     for node in SEVEN_AND_HUB:
         (pa, ta), (pb, tb) = short_run.peak(node), other.peak(node)
         assert pb == pytest.approx(pa, abs=0.1), node
+        row = int(np.searchsorted(times, ta))
+        sample = max(np.diff(times[max(row - 1, 0):row + 2]))      # the output spacing around the peak
+        assert abs(tb - ta) <= sample + 1e-9, node
     assert other.energy.balance_rel_error < 1e-5
     assert short_run.energy.balance_rel_error < 1e-5
 

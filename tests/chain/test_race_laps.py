@@ -139,7 +139,7 @@ def test_lap_energies_add_up_and_close_the_first_law(lap, many, one_lap_runs):
 
 def test_a_batch_of_identical_configurations_equals_one(lap, many):
     res1, peaks1 = many
-    kn, L, n = lap["kn"], lap["kn"].link_a.size, lap["net"].n_nodes
+    kn, L = lap["kn"], lap["kn"].link_a.size
     kb = scaled(kn, link_scale=np.ones((3, L)))
     assert kb.size == 3
     res3, peaks3 = kb.run_laps(lap["inputs"], np.repeat(lap["T0"], 3, axis=0), N_LAPS, lap["W"], lap["every"])

@@ -1,5 +1,4 @@
 """A parameter the data cannot see is flagged; a peak-only reading pulls the fit its way."""
-import pytest
 
 from conftest import CALIBRATION, make_folder
 from thermo.fit import fit_scenario

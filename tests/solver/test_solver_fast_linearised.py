@@ -5,7 +5,6 @@ import pytest
 from test_solver_fast_kernel import tabulated_network
 from test_solver_methods import nonlinear_schedule
 from thermo.network import Boundary, Conduction, HeatCapacity, Network, Node, Schedule
-from thermo.network.assemble import compile_network
 from thermo.solver import SolverSettings, solve_network
 from thermo.solver.batch import graded_grid, kernel_network, solve_batch
 

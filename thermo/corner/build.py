@@ -22,7 +22,6 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from lapdata.units import STEFAN_BOLTZMANN
 from thermo.corner import interface, paths
 from thermo.corner import layers as layers_mod
 from thermo.corner.geometry import CornerDesign
