@@ -25,16 +25,16 @@ are shifted to start at zero. The checks are described in :mod:`lapdata.validate
 """
 from __future__ import annotations
 
-import difflib
 import re
 from pathlib import Path
 
 import numpy as np
 
+from lapdata import validate as v
 from lapdata.errors import LapDataError
+from lapdata.suggest import did_you_mean
 from lapdata.trace import LapTrace
 from lapdata.units import BAR, KELVIN_AT_0C, KM, KMH, KPA, MPH, PSI, STANDARD_GRAVITY
-from lapdata import validate as v
 from lapdata.validate import ColumnRef
 
 # quantity -> unit -> (scale, offset): SI = value * scale + offset
@@ -126,10 +126,8 @@ def _parse_header(header: str, line: int, source: str) -> dict[str, ColumnRef]:
         name, unit = m.group(1), m.group(2)
         quantity = CHANNELS.get(name) or ("temperature" if TEMPERATURE_NAME.fullmatch(name) else None)
         if quantity is None:
-            close = difflib.get_close_matches(name, sorted(CHANNELS) + ["temp_"], n=1)
-            hint = f"did you mean '{close[0]}'? " if close else ""
-            raise v.fail(source, line, cell.strip(),
-                         f"unknown channel '{name}': {hint}known channels are {', '.join(known)}")
+            raise v.fail(source, line, cell.strip(), f"unknown channel '{name}'{did_you_mean(name, sorted(CHANNELS) + ['temp_'])}: "
+                                                     f"known channels are {', '.join(known)}")
         if name in refs:
             raise v.fail(source, line, cell.strip(), f"channel '{name}' appears twice")
         accepted = UNITS[quantity]

@@ -22,7 +22,6 @@ Track TOML format (read by :func:`read_track_toml`)::
 """
 from __future__ import annotations
 
-import difflib
 import math
 import tomllib
 from dataclasses import dataclass, fields
@@ -31,6 +30,7 @@ from pathlib import Path
 import numpy as np
 
 from lapdata.errors import LapDataError
+from lapdata.suggest import did_you_mean
 from lapdata.trace import LapTrace
 from lapdata.units import KMH, STANDARD_GRAVITY
 
@@ -58,8 +58,7 @@ class TrackSegment:
     def __post_init__(self):
         owner = f"segment '{self.name}'" if self.name else "segment"
         if self.kind not in _KINDS:
-            close = difflib.get_close_matches(str(self.kind), _KINDS, n=1)
-            hint = f" (did you mean '{close[0]}'?)" if close else ""
+            hint = did_you_mean(self.kind, _KINDS)
             raise LapDataError(f"{owner}: kind = {self.kind!r}: expected 'straight' or 'corner'{hint}")
         _positive(owner, "length_m", self.length_m)
         if self.kind == "straight" and (self.radius_m is not None or self.min_speed_kmh is not None):
@@ -193,9 +192,8 @@ def read_track_toml(path: str | Path) -> TrackDescription:
 def _known_keys(source: str, where: str, table: dict, allowed: tuple) -> None:
     for key in table:
         if key not in allowed:
-            close = difflib.get_close_matches(key, allowed, n=1)
-            hint = f"did you mean '{close[0]}'? " if close else ""
-            raise LapDataError(f"{source}: {where}: unknown key '{key}': {hint}expected one of {', '.join(allowed)}")
+            raise LapDataError(f"{source}: {where}: unknown key '{key}'{did_you_mean(key, allowed)}: "
+                               f"expected one of {', '.join(allowed)}")
 
 
 def build_speed_trace(track: TrackDescription, envelope: CarEnvelope, *, sample_hz: float = 20.0,

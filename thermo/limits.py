@@ -15,6 +15,7 @@ from typing import Mapping
 
 import numpy as np
 
+from lapdata.suggest import did_you_mean
 from lapdata.units import celsius_to_kelvin, kelvin_to_celsius
 from thermo.errors import ScenarioError
 from thermo.keys import check_declared, key
@@ -119,9 +120,7 @@ class FluidSpec:
         """A fluid at the FMVSS 116 minimum boiling points of its DOT grade."""
         key = grade.upper().replace("DOT", "DOT ").replace("  ", " ").strip()
         if key not in FMVSS116_BOILING_POINTS_C:
-            import difflib
-            close = difflib.get_close_matches(key, FMVSS116_BOILING_POINTS_C, n=2)
-            hint = f" (did you mean {' or '.join(close)}?)" if close else ""
+            hint = did_you_mean(key, FMVSS116_BOILING_POINTS_C, n=2)
             raise ScenarioError(
                 f"[fluid] grade '{grade}' is unknown{hint}; expected one of "
                 f"{', '.join(FMVSS116_BOILING_POINTS_C)}, or grade = \"custom\" with dry_boiling_c and wet_boiling_c")

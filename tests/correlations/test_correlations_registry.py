@@ -70,7 +70,7 @@ def test_registry_entries_callable_and_referenced():
 
 
 def test_unknown_name_gives_close_matches():
-    with pytest.raises(CorrelationError, match="did you mean nusselt_internal_turbulent_gnielinski"):
+    with pytest.raises(CorrelationError, match="did you mean 'nusselt_internal_turbulent_gnielinski'"):
         corr.get_correlation("nusselt_internal_turbulent_gnielinsky")
     with pytest.raises(CorrelationError, match="unknown name 'zzz'$"):
         corr.get_correlation("zzz")

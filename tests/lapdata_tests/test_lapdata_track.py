@@ -173,8 +173,8 @@ def test_read_track_toml(tmp_path):
 
 
 @pytest.mark.parametrize("text, expected", [
-    (GOOD.replace("length_m = 500", "lenght_m = 500"), "segment 1: unknown key 'lenght_m': did you mean 'length_m'"),
-    (GOOD.replace('name = "Test Ring"', 'nmae = "Test Ring"'), "top level: unknown key 'nmae': did you mean 'name'"),
+    (GOOD.replace("length_m = 500", "lenght_m = 500"), "segment 1: unknown key 'lenght_m' (did you mean 'length_m'?)"),
+    (GOOD.replace('name = "Test Ring"', 'nmae = "Test Ring"'), "top level: unknown key 'nmae' (did you mean 'name'?)"),
     (GOOD.replace("radius_m = 30", "radius_mm = 30"), "segment 2: unknown key 'radius_mm'"),
     (GOOD.replace("radius_m = 30", ""), "segment 2: segment 'T1': a corner needs radius_m or min_speed_kmh"),
     (GOOD.replace("length_m = 80.0", "length_m = -80.0"), "segment 2: segment 'T1': length_m = -80.0"),

@@ -56,7 +56,7 @@ def test_validation_names_the_problem(time, signals, words):
 
 def test_unknown_signal_and_outside_times():
     s = ramp()
-    with pytest.raises(ModelError, match="no signal named 'qq'.*did you mean q"):
+    with pytest.raises(ModelError, match="no signal named 'qq'.*did you mean 'q"):
         s.value("qq", 0.5)
     with pytest.raises(ModelError, match="outside the schedule"):
         s.value("q", 3.5)

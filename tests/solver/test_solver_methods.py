@@ -115,7 +115,7 @@ def test_missing_signal_and_bad_initial_state_are_model_errors():
 
 
 def test_settings_validation():
-    with pytest.raises(ModelError, match="unknown method 'LSDOA'.*did you mean LSODA"):
+    with pytest.raises(ModelError, match="unknown method 'LSDOA'.*did you mean 'LSODA'"):
         SolverSettings(method="LSDOA")
     with pytest.raises(ModelError, match="rtol"):
         SolverSettings(rtol=0.0)

@@ -7,12 +7,12 @@ Heat partition (``partition.py``) joins through its ``REFERENCES`` dict or the d
 """
 from __future__ import annotations
 
-import difflib
 import importlib
 import importlib.util
 import sys
 from typing import Callable
 
+from lapdata.suggest import did_you_mean
 from thermo.correlations import air, contact, forced, natural, radiation
 from thermo.correlations.validity import (
     VALIDITY, CorrelationWarning, get_validity_policy, reference_from_docstring, set_validity_policy,
@@ -40,9 +40,7 @@ def get_correlation(name: str) -> Callable:
     try:
         return REGISTRY[name]
     except KeyError:
-        close = difflib.get_close_matches(name, list(REGISTRY), n=3, cutoff=0.5)
-        hint = f"; did you mean {', '.join(close)}?" if close else ""
-        raise CorrelationError(f"correlation: unknown name '{name}'{hint}") from None
+        raise CorrelationError(f"correlation: unknown name '{name}'{did_you_mean(name, REGISTRY, n=3, cutoff=0.5)}") from None
 
 
 def correlation_reference(name: str) -> str:

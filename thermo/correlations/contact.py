@@ -5,11 +5,11 @@ contact (backing plate to shim), slab (the shim), contact (shim to crown).
 """
 from __future__ import annotations
 
-import difflib
 from dataclasses import dataclass
 
 import numpy as np
 
+from lapdata.suggest import did_you_mean
 from thermo.correlations.validity import correlation
 from thermo.errors import CorrelationError
 
@@ -184,7 +184,6 @@ def contact_coefficient(kind: str) -> ContactCoefficient:
     try:
         return CONTACT_COEFFICIENTS[kind]
     except KeyError:
-        close = difflib.get_close_matches(kind, list(CONTACT_COEFFICIENTS), n=3)
-        hint = f"; did you mean {', '.join(close)}?" if close else ""
+        hint = did_you_mean(kind, CONTACT_COEFFICIENTS, n=3)
         raise CorrelationError(f"contact coefficient: unknown interface kind '{kind}'{hint} "
                                f"(known: {', '.join(sorted(CONTACT_COEFFICIENTS))})") from None

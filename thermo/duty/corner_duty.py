@@ -1,13 +1,13 @@
 """Heat into each brake corner: the car's braking power split by axle, side and disc/pad."""
 from __future__ import annotations
 
-import difflib
 from dataclasses import dataclass
 from typing import Sequence
 
 import numpy as np
 
 from lapdata.errors import LapDataError
+from lapdata.suggest import did_you_mean
 from lapdata.trace import LapTrace
 from thermo.duty.bias import FixedBias, HydraulicBias, front_power_share, split_left_right
 from thermo.duty.power import (
@@ -217,8 +217,7 @@ def corner_heat_inputs(time_s, speed_mps, vehicle: VehicleParameters, bias,
     method does not use is an error, never ignored.
     """
     if method not in METHODS:
-        close = difflib.get_close_matches(str(method), METHODS, n=1)
-        hint = f" (did you mean {close[0]!r}?)" if close else ""
+        hint = did_you_mean(method, METHODS)
         raise ScenarioError(f"method: unknown {method!r}, expected one of {sorted(METHODS)}{hint}")
     if not isinstance(vehicle, VehicleParameters):
         raise ScenarioError(f"vehicle: expected VehicleParameters, got {type(vehicle).__name__}")

@@ -40,7 +40,6 @@ Temperatures are degC only in the file; the Material holds kelvin.
 """
 from __future__ import annotations
 
-import difflib
 import functools
 import importlib.resources
 import math
@@ -52,6 +51,7 @@ from typing import Mapping
 
 import numpy as np
 
+from lapdata.suggest import did_you_mean
 from lapdata.units import KELVIN_AT_0C
 from thermo.errors import MaterialError
 from thermo.network.elements import HeatCapacity
@@ -194,8 +194,7 @@ def _check_table(where: str, key: str, table, upper: float) -> None:
 
 
 def _unknown(where: str, key: str, allowed) -> MaterialError:
-    close = difflib.get_close_matches(key, sorted(allowed), n=1)
-    hint = f"; did you mean '{close[0]}'?" if close else f"; expected one of {', '.join(sorted(allowed))}"
+    hint = did_you_mean(key, sorted(allowed)) or f"; expected one of {', '.join(sorted(allowed))}"
     return MaterialError(f"{where}: unknown key '{key}'{hint}")
 
 
@@ -332,6 +331,4 @@ def get_material(name: str, materials: Mapping[str, Material] | None = None) -> 
     try:
         return pool[name]
     except KeyError:
-        close = difflib.get_close_matches(name, list(pool), n=3, cutoff=0.5)
-        hint = f"; did you mean {', '.join(close)}?" if close else ""
-        raise MaterialError(f"materials: unknown material '{name}'{hint}") from None
+        raise MaterialError(f"materials: unknown material '{name}'{did_you_mean(name, pool, n=3, cutoff=0.5)}") from None

@@ -10,6 +10,7 @@ from typing import Mapping
 
 import numpy as np
 
+from lapdata.suggest import did_you_mean
 from thermo.errors import ModelError
 
 _TIME_TOLERANCE_S = 1e-9   # how far outside the time axis a query may fall (rounding only)
@@ -110,10 +111,7 @@ class Schedule:
 
     def _check_name(self, name: str) -> None:
         if name not in self.signals:
-            import difflib
-            close = difflib.get_close_matches(name, self.names, n=3)
-            hint = f" (did you mean {', '.join(close)}?)" if close else ""
-            raise ModelError(f"schedule: no signal named '{name}'{hint}")
+            raise ModelError(f"schedule: no signal named '{name}'{did_you_mean(name, self.names, n=3)}")
 
     def _check_times(self, t: np.ndarray) -> None:
         span = self.time_s[-1] - self.time_s[0]

@@ -1,15 +1,14 @@
 """Check one TOML table against its schema and convert it to SI (unknown keys are errors)."""
 from __future__ import annotations
 
-import difflib
-
+from lapdata.suggest import did_you_mean
 from thermo.errors import ScenarioError
 from thermo.keys import REQUIRED, Field, is_finite_number
 
 
 def suggestion(key: str, known) -> str:
-    close = difflib.get_close_matches(key, list(known), n=1, cutoff=0.6)
-    return f" (did you mean '{close[0]}'?)" if close else ""
+    """`` (did you mean 'x'?)`` or nothing (``lapdata.suggest.did_you_mean``)."""
+    return did_you_mean(key, known)
 
 
 def reject_unknown(where: str, table: dict, known, source: str) -> None:

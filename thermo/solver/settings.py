@@ -1,11 +1,11 @@
 """Solver settings: which integrator, how tight, how the schedule's edges are handled."""
 from __future__ import annotations
 
-import difflib
 from dataclasses import dataclass
 
 import numpy as np
 
+from lapdata.suggest import did_you_mean
 from thermo.errors import ModelError
 
 METHODS = ("LSODA", "BDF", "Radau", "RK45", "fast")
@@ -43,8 +43,7 @@ class SolverSettings:
 
     def __post_init__(self):
         if self.method not in METHODS:
-            close = difflib.get_close_matches(str(self.method), METHODS, n=3, cutoff=0.3)
-            hint = f" (did you mean {', '.join(close)}?)" if close else ""
+            hint = did_you_mean(self.method, METHODS, n=3, cutoff=0.3)
             raise ModelError(f"solver settings: unknown method '{self.method}'{hint}; expected one of {', '.join(METHODS)}")
         if not (np.isfinite(self.rtol) and 1e-13 <= self.rtol < 1.0):
             raise ModelError(f"solver settings: rtol must be in [1e-13, 1), got {self.rtol!r}")
