@@ -43,6 +43,25 @@ def test_margin_gains_values(factory):
     assert gains["bigger duct"]["front_left"] == {"fluid": pytest.approx(0.0), "bearing": pytest.approx(0.0)}
 
 
+def test_margin_gains_follow_the_node_the_fluid_checks_read(factory):
+    """Runs of the current corner model check the fluid at the pistons: its gain is reported there
+    (the bulk fluid then has no check of its own and no gain)."""
+    import dataclasses
+
+    def at_piston(results):
+        corners = []
+        for c in results.corners:
+            names = tuple("fluid_at_piston" if n == "fluid" else n for n in c.node_names)
+            checks = tuple(dataclasses.replace(k, node="fluid_at_piston") if k.node == "fluid" else k for k in c.checks)
+            corners.append(dataclasses.replace(c, node_names=names, checks=checks))
+        return dataclasses.replace(results, corners=tuple(corners))
+    gains = margin_gains([("baseline", at_piston(factory.results(scale_rear=0.8))),
+                          ("bigger duct", at_piston(factory.results(scale_rear=0.6)))])
+    # the same analytic bump as above: 0.2 of the 140 K fluid bump
+    assert gains["bigger duct"]["rear_left"]["fluid_at_piston"] == pytest.approx(0.2 * 140.0)
+    assert "fluid" not in gains["bigger duct"]["rear_left"]
+
+
 def test_plot_comparison_writes_pngs(factory, tmp_path):
     variants = [("baseline", factory.results(dt=10.0)), ("titanium pistons", factory.results(scale_rear=0.7, dt=10.0)),
                 ("bigger duct", factory.results(scale_rear=0.6, dt=10.0))]

@@ -7,7 +7,7 @@ from pathlib import Path
 
 from thermo.studies.compare import plan_comparison, run_comparison
 
-COMPARE_NODES = ("disc", "disc_surface", "pad", "piston", "fluid", "caliper", "hub", "bearing", "upright")
+COMPARE_NODES = ("disc", "disc_surface", "pad", "piston", "fluid_at_piston", "fluid", "caliper", "hub", "bearing", "upright")
 
 
 def add_parser(sub) -> None:

@@ -13,7 +13,7 @@ from thermo.output.errors import OutputError
 from thermo.results import CheckResult, CornerResult, LapSpan, Results
 
 # Nodes that keep heating after the car stops, listed first in soak tables.
-SOAK_NODES = ("fluid", "piston", "caliper", "hub", "upright", "bearing")
+SOAK_NODES = ("fluid_at_piston", "fluid", "piston", "caliper", "hub", "upright", "bearing")
 # extras key: one bool per link, True when the link ends at a boundary (heat leaves the corner)
 LINK_TO_BOUNDARY_KEY = "link_to_boundary"
 # Without that key: a link group whose name starts with this prefix carries heat between nodes of
@@ -200,7 +200,7 @@ def laps_to_show(laps: tuple[LapSpan, ...], corner: CornerResult, max_rows: int 
     return [laps[i] for i in sorted(chosen)], stride
 
 
-def margin_gains(variants: list[tuple[str, Results]], nodes=("fluid", "bearing")) -> dict:
+def margin_gains(variants: list[tuple[str, Results]], nodes=("fluid_at_piston", "fluid", "bearing")) -> dict:
     """Margin gained [K] on each node's governing check against the first (baseline) variant.
 
     Returns ``{variant: {corner: {node: margin_k - baseline_margin_k}}}`` for every variant after

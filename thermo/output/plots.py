@@ -18,8 +18,10 @@ from thermo.output.errors import OutputError
 from thermo.results import CornerResult, Results
 
 DPI = 110
-LAP_PEAK_NODES = ("disc", "fluid", "bearing")
-COMPARE_NODES = ("fluid", "bearing")
+# the fluid at the pistons is what the boiling checks read; "fluid" (the bulk) is kept for results
+# written before that node existed, where it carries the fluid checks
+LAP_PEAK_NODES = ("disc", "fluid_at_piston", "fluid", "bearing")
+COMPARE_NODES = ("fluid_at_piston", "fluid", "bearing")
 # phase kind: (fill colour, label) of the shaded spans; other kinds are not shaded
 PHASE_SHADES = {"pit_stop": ("tab:red", "pit stop"), "safety_car": ("gold", "safety car"),
                 "soak": ("tab:blue", "soak (car stopped)"), "in_lap": ("tab:gray", "in lap")}
@@ -86,7 +88,7 @@ def plot_corner_temperatures(corner: CornerResult, path: Path, title: str = "") 
 
 
 def plot_lap_peaks(results: Results, path: Path, nodes=LAP_PEAK_NODES) -> Path:
-    """Per-lap peak of disc, fluid and bearing for all corners [degC vs lap]."""
+    """Per-lap peak of disc, fluid (at the pistons and bulk) and bearing for all corners [degC vs lap]."""
     present = [n for n in nodes if any(lap.max_k.get(n) is not None for c in results.corners for lap in c.laps)]
     if not present:
         raise OutputError(f"lap peak plot: no lap has a maximum for any of {', '.join(nodes)}")
