@@ -18,9 +18,10 @@ def test_a_fixed_split_with_the_pad_held_off_is_realised_exactly():
 
 def test_the_resting_contact_carries_heat_from_the_hotter_side():
     # second law: between applications heat crosses the resting contact from the hotter face. A
-    # lumped pad (small.toml, layers = 1) stays cooler than the disc face, so the disc loses heat
-    # to it; layered pads (the default) run their face at the disc face's temperature and come
-    # off the disc hotter than it, so the disc gains
+    # lumped pad (small.toml, layers = 1) stays cooler than the disc's face layer, so the disc loses
+    # heat to it; a layered pad's thin face layer, heated by its fixed share while braking and
+    # slow to cool (low effusivity), comes off the brake hotter than the disc's face, which the
+    # vanes and the bulk of the disc cool fast, so the disc gains
     lumped = small_scenario(SHORT_PLAN, NO_WEAR + [("corners.front.pad.heat_partition", 0.9)])
     layered = small_scenario(SHORT_PLAN, NO_WEAR + [("corners.front.pad.heat_partition", 0.9),
                                                     ("corners.front.pad.layers", 0)])

@@ -66,6 +66,40 @@ def test_short_stop_from_one_temperature_splits_by_effusivity(front, stop_s):
     assert share == pytest.approx(gamma, rel=0.01)
 
 
+def test_with_the_default_layers_the_direct_share_is_the_effusivity_form(front):
+    # first layers of 0.3 sqrt(alpha x 1 s) on both sides make R_d / R_p = (A_p e_p) / (A_d e_d):
+    # the share the sources put into the disc is then exactly Newcomb & Spurr's gamma (algebra)
+    model = build_corner(_auto_layers(insulated(front)), grid=None)
+    direct = sum(s.fraction for s in model.network.sources if s.node == model.disc_face_node) / 2   # two signals
+    assert direct == pytest.approx(model.heat_partition, rel=1e-12)
+
+
+@pytest.mark.parametrize("first_layer_factor", [0.3, 3.0])
+@pytest.mark.parametrize("stop_s", [1.0, 4.0])
+def test_the_clamped_exchange_restores_the_effusivity_split(front, monkeypatch, first_layer_factor, stop_s):
+    """A pad whose first layer is 0.3 or 3 times the default puts a direct share of 0.91 or 0.99
+    into the disc; the clamped conduction between the two first layers brings the heat the disc
+    actually takes back to the semi-infinite bodies' split (Newcomb & Spurr 1967, as above)."""
+    from thermo.corner import build, layers
+
+    def pad_layers(design):
+        material = build.get_material(design.pad.material)
+        first = first_layer_factor * layers.first_layer_m(build._diffusivity(material))
+        return layers.graded_layers(design.pad.thickness_m, first, build.PAD_MAX_LAYERS)
+    monkeypatch.setattr(build, "pad_layers", pad_layers)
+    model = build_corner(_auto_layers(insulated(front)), grid=None)
+    gamma = model.heat_partition
+    direct = sum(s.fraction for s in model.network.sources if s.node == model.disc_face_node) / 2
+    assert abs(direct - gamma) > 0.015                      # the sources alone would miss the split
+    t = np.linspace(0.0, stop_s, 401)
+    q = np.full_like(t, 2.0e5)
+    sol = solve_network(model.network, _schedule(t, q, np.ones_like(t)), np.full(len(model.network.node_names), T0_K),
+                        SolverSettings(method="LSODA", rtol=1e-9, atol_k=1e-8))
+    share = _disc_energy(model, sol, T0_K) / (2.0e5 * stop_s)
+    assert share == pytest.approx(gamma, abs=0.004)         # measured 0.0003 to 0.0026
+    assert 1.0 - share == pytest.approx(1.0 - gamma, rel=0.1)   # the pad's share too
+
+
 def test_a_hot_pad_hands_heat_back_to_the_disc(front):
     """Clamped on a cooler disc with no friction heat: heat flows from the pad into the disc; with
     the pad resting, the flow is smaller (contact in series), and it never reverses the order."""

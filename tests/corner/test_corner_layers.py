@@ -17,7 +17,8 @@ from dataclasses import replace
 import numpy as np
 import pytest
 
-from thermo.corner.build import ROOM_K, build_corner, layer_thicknesses
+from thermo.corner import layers
+from thermo.corner.build import ROOM_K, build_corner
 from thermo.materials import get_material
 from thermo.network import Schedule
 from thermo.solver import SolverSettings, solve_network
@@ -90,8 +91,20 @@ def test_a_lumped_disc_cannot_resolve_the_face(front):
     assert rise < 0.5 * _slab(np.array([1.0]), front.disc.cheek_thickness_m)[0]
 
 
-def test_layer_thicknesses_are_graded_and_fill_the_cheek():
-    dx = layer_thicknesses(0.009, 6)
+def test_layers_of_a_given_count_keep_the_first_layer_and_fill_the_cheek():
+    first = layers.first_layer_m(1.44e-5)                       # iron: 0.3 sqrt(alpha x 1 s)
+    dx = layers.layers_of_count(0.009, first, 6)
     assert dx.sum() == pytest.approx(0.009, rel=1e-12)
-    assert np.all(np.diff(dx) > 0)
-    assert dx[1] / dx[0] == pytest.approx(1.8, rel=1e-12)
+    assert dx[0] == pytest.approx(first, rel=1e-9)
+    ratios = dx[1:] / dx[:-1]
+    assert np.all(ratios > 1.0) and np.ptp(ratios) < 1e-9      # one growth factor throughout
+    assert np.allclose(layers.layers_of_count(0.001, first, 3), 0.001 / 3)   # thinner than 3 first layers: even
+
+
+def test_face_extrapolation_is_exact_on_a_straight_profile():
+    dx = np.array([0.4e-3, 0.9e-3, 2.0e-3])
+    centres = np.cumsum(dx) - dx / 2
+    w1, w2 = layers.face_extrapolation(dx)
+    profile = 700.0 - 3.0e4 * centres                             # T = a + b x, the face at x = 0
+    assert w1 * profile[0] + w2 * profile[1] == pytest.approx(700.0, rel=1e-12)
+    assert w1 + w2 == pytest.approx(1.0)

@@ -92,7 +92,7 @@ def test_demo_corner_braking_zones_against_radau(demo_lap):
     # issue 8 target: peaks within 0.05 K of a tight-tolerance Radau reference
     np.testing.assert_allclose(out_f.max(axis=0), out_r.max(axis=0), atol=0.05)
     # mid-rise, on the 0.05 s sample grid, the second-order scheme lags the friction faces (first
-    # layers of 1.1 mm of iron and 0.2 mm of pad, chosen from the penetration depth) by up to
+    # layers of 1.1 mm of iron and 0.34 mm of pad, chosen from the penetration depth) by up to
     # ~2.8 K (measured on the pad face, 0.4 %); every other output by less than 0.3 K
     np.testing.assert_allclose(out_f, out_r, atol=3.5)
     faces = [model.output_nodes.index(n) for n in ("disc_surface", "pad_surface")]

@@ -11,7 +11,7 @@ from thermo.chain.plan import PlanSegment, expand_plan
 from thermo.chain.validity import check_validity
 from thermo.corner.build import (
     SIGNAL_AMBIENT, SIGNAL_CLAMP, SIGNAL_DISC_HEAT, SIGNAL_DUCT_AIR, SIGNAL_PAD_HEAT, SIGNAL_SPEED, CornerModel, build_corner,
-    duct_air_signals, pad_layers,
+    clamp_signal, duct_air_signals, pad_layers,
 )
 from thermo.corner.geometry import CornerDesign
 from thermo.correlations import correlation_reference
@@ -73,8 +73,8 @@ def corner_duties(scenario: Scenario, segment: PlanSegment, brakes: list[CornerB
 def _schedule(scenario: Scenario, design: CornerDesign, segment: PlanSegment, duty: SegmentDuty) -> Schedule:
     t = segment.t_start_s + duty.time_s
     ambient = scenario.ambient.temperature_at(t)
-    clamp = ((duty.disc_heat_w + duty.pad_heat_w) > 0.0).astype(float)   # 1 while the brake is applied
-    signals = {SIGNAL_DISC_HEAT: duty.disc_heat_w, SIGNAL_PAD_HEAT: duty.pad_heat_w, SIGNAL_CLAMP: clamp,
+    signals = {SIGNAL_DISC_HEAT: duty.disc_heat_w, SIGNAL_PAD_HEAT: duty.pad_heat_w,
+               SIGNAL_CLAMP: clamp_signal(duty.disc_heat_w + duty.pad_heat_w),
                SIGNAL_SPEED: duty.speed_m_s, SIGNAL_AMBIENT: ambient, SIGNAL_DUCT_AIR: ambient}
     for signal, rise in duct_air_signals(design):
         signals[signal] = ambient + rise
@@ -99,15 +99,20 @@ def _wear_factor(scenario: Scenario, pad_k: float) -> float:
 
 
 def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_segment, settings: SolverSettings,
-                 progress=None) -> CornerResult:
-    """Solve one corner across all segments, carrying its state, with pad wear and pad changes."""
-    grid = conductance_grid(scenario)
+                 progress=None, output_hz: float | None = None) -> CornerResult:
+    """Solve one corner across all segments, carrying its state, with pad wear and pad changes.
 
+    ``output_hz``: rate of the stored series (None: the scenario's ``[solver] output_hz``; 0: every row).
+    """
+    grid = conductance_grid(scenario)
+    rate = scenario.solver.output_hz if output_hz is None else output_hz
     pad_layer_count = len(pad_layers(design))     # kept as the pad wears, so the state maps node for node
 
     def with_pad(thickness_m: float):
-        """The corner rebuilt with another pad thickness (conduction path and pad mass)."""
-        pad = replace(design.pad, thickness_m=thickness_m, layers=pad_layer_count)
+        """The corner rebuilt with another pad thickness (conduction path and pad mass): a new pad
+        exactly as ``build_corner(design)`` builds it, a worn one with the same number of layers."""
+        pad = design.pad if thickness_m == design.pad.thickness_m else replace(
+            design.pad, thickness_m=thickness_m, layers=pad_layer_count)
         built = build_corner(replace(design, pad=pad), scenario.ambient.pressure_pa, grid)
         return built, compile_network(built.network)
 
@@ -120,7 +125,7 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
     thickness = design.pad.thickness_m
     h0 = sum(n.heat_capacity.enthalpy(T[k]) for k, n in enumerate(model.network.nodes))
     times, temps, flows, link_energy = [], [], [], np.zeros(len(model.network.links))
-    heat_in = lost = removed = 0.0
+    heat_in = lost = removed = direct_to_disc = 0.0
     laps, stint_thickness, warns, states, lap_thickness = [], [], [], [], []
     warned = set()     # pad warnings given this stint ('near', 'below'); a pad change starts a new stint
     for segment, duties in zip(segments, duties_by_segment):
@@ -143,12 +148,13 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
             raise SolveError(f"corner {design.name}, {segment.phase.name}: {sol.status}")
         skip = 1 if times else 0
         out = model.outputs(sol.temperatures_k)
-        keep = stored_rows(sol.time_s, out, scenario.solver.output_hz)[skip:]
+        keep = stored_rows(sol.time_s, out, rate)[skip:]
         times.append(sol.time_s[keep])
         temps.append(out[keep])
         flows.append(sol.link_flows_w[keep])
         link_energy += sol.link_energy_j
         heat_in += sol.heat_in_j
+        direct_to_disc += _direct_share(model) * sol.heat_in_j
         lost += sol.lost_j
         T = sol.final_k.copy()
         picks = slice(None, None, VALIDITY_SAMPLE_EVERY)
@@ -169,7 +175,11 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
             new_thickness = max(thickness - wear, MIN_PAD_THICKNESS_M)
             if new_thickness < thickness:
                 old_h = sum(model.network.nodes[k].heat_capacity.enthalpy(T[k]) for k in i_pads)
+                old_dx = pad_layers(model.design)
                 model, compiled = with_pad(new_thickness)
+                # the wear takes the friction face: the rest keeps its temperature at its depth
+                # from the backing plate, and the worn slice leaves with the face's heat
+                T[i_pads] = worn_pad_profile(old_dx, T[i_pads], pad_layers(model.design))
                 removed += old_h - sum(model.network.nodes[k].heat_capacity.enthalpy(T[k]) for k in i_pads)
                 warns += _pad_warnings(design, scenario.pad_wear.warn_margin_m, new_thickness, segment.lap_index, warned)
                 thickness = new_thickness
@@ -200,7 +210,7 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
               "pad_minimum_thickness_m": design.pad.minimum_thickness_m,
               "link_to_boundary": [link.b in model.network.boundary_names for link in model.network.links],
               "heat_partition_disc": model.heat_partition,
-              "heat_partition_realised": _realised_partition(model, heat_in, link_energy),
+              "heat_partition_realised": _realised_partition(model, heat_in, direct_to_disc, link_energy),
               "removed_with_pad_material_j": removed,
               "initial_temperature_k": float(T_initial[0]),
               "warnings": warns,
@@ -230,17 +240,31 @@ def stored_rows(time_s: np.ndarray, outputs: np.ndarray, output_hz: float) -> np
     return np.flatnonzero(keep)
 
 
-def _realised_partition(model: CornerModel, heat_in_j: float, link_energy_j: np.ndarray) -> float:
+def worn_pad_profile(old_dx_m: np.ndarray, old_t_k: np.ndarray, new_dx_m: np.ndarray) -> np.ndarray:
+    """Pad layer temperatures after wear [K]: each new layer centre takes the old profile's
+    temperature at the same depth from the backing plate (linear between old centres), so the
+    material worn off the friction face takes the face's heat with it."""
+    def from_back(dx):
+        return dx.sum() - (np.cumsum(dx) - dx / 2)          # face first, so decreasing
+    old_x, new_x = from_back(np.asarray(old_dx_m)), from_back(np.asarray(new_dx_m))
+    return np.interp(new_x, old_x[::-1], np.asarray(old_t_k)[::-1])
+
+
+def _direct_share(model: CornerModel) -> float:
+    """Share of the friction heat the sources put straight into the disc's face layer [-]; the duty
+    splits it into disc_heat_w (share heat_partition) and pad_heat_w."""
+    signal_share = {SIGNAL_DISC_HEAT: model.heat_partition, SIGNAL_PAD_HEAT: 1.0 - model.heat_partition}
+    return sum(s.fraction * signal_share[s.signal] for s in model.network.sources if s.node == model.disc_face_node)
+
+
+def _realised_partition(model: CornerModel, heat_in_j: float, direct_j: float, link_energy_j: np.ndarray) -> float:
     """Share of the run's friction heat that ended up in the disc: what the sources put into its
-    face layer plus what crossed the pad-disc interface (pad to disc positive) [-]."""
+    face layer (summed segment by segment) plus what crossed the pad-disc interface (pad to disc
+    positive) [-]."""
     if heat_in_j <= 0:
         return float(model.heat_partition)
-    face = model.network.node_names[0]          # the disc's face layer (or the lumped disc) comes first
-    # the duty splits the friction heat into disc_heat_w (share heat_partition) and pad_heat_w
-    signal_share = {SIGNAL_DISC_HEAT: model.heat_partition, SIGNAL_PAD_HEAT: 1.0 - model.heat_partition}
-    direct = sum(s.fraction * signal_share[s.signal] for s in model.network.sources if s.node == face)
     crossed = float(link_energy_j[model.network.link_names.index("pad_disc_interface")])
-    return float(direct + crossed / heat_in_j)
+    return float((direct_j + crossed) / heat_in_j)
 
 
 def _node_materials(design: CornerDesign, model: CornerModel) -> dict[str, str]:

@@ -40,7 +40,6 @@ SIGNAL_AMBIENT = "ambient_k"
 SIGNAL_DUCT_AIR = "duct_air_k"
 SIGNAL_CLAMP = "pad_clamp"
 ROOM_K = 293.15
-LAYER_GROWTH = 1.8              # with a given layer count, each layer this much thicker than the one nearer the face
 PAD_MAX_LAYERS = 6
 PAD_ASPECT_RATIO = 3.0          # pad length / radial height, for its edge area; common practice, no published source
 HOLE_FLOW_COEFFICIENT = 0.5     # vent-hole air speed / local airflow speed; common practice, no published source
@@ -64,16 +63,16 @@ class CornerModel:
     materials_used: tuple[str, ...]
     pad_nodes: tuple[str, ...] = ("pad",)   # network nodes of the friction material, face first
     fluid_check_node: str = "fluid_at_piston"
+    disc_face_node: str = "disc"            # the network node at the friction face (disc_layer_1 when layered)
 
     def outputs(self, temperatures_k: np.ndarray) -> np.ndarray:
         """Output-node temperatures (n_t, n_outputs) from network temperatures (n_t, n_nodes) [K]."""
         return temperatures_k @ self.output_weights.T
 
 
-def layer_thicknesses(total_m: float, layers: int, growth: float = LAYER_GROWTH) -> np.ndarray:
-    """Graded layer thicknesses from the friction face inwards, summing to total_m [m]."""
-    weights = growth ** np.arange(layers)
-    return total_m * weights / weights.sum()
+def clamp_signal(friction_heat_w) -> np.ndarray:
+    """The ``pad_clamp`` schedule signal: 1 where friction heat is made (brake applied), else 0."""
+    return (np.asarray(friction_heat_w, dtype=float) > 0.0).astype(float)
 
 
 def _diffusivity(material) -> float:
@@ -195,7 +194,7 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
                                        "pad_conduction", mat["pad"]))
     pad_face, pad_back = pad_nodes[0], pad_nodes[-1]
 
-    gap_volume = 2 * pi_.area_one_side_m2 * cal.piston_fluid_gap_m
+    gap_volume = design.fluid_at_pistons_volume_m3
     fluid_density = mat["fluid"].density_kg_m3
     nodes += [
         Node("disc_bell", mat["bell"].heat_capacity(d.bell_mass_kg)),
@@ -228,12 +227,14 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
         resistances.append(pi_.insert_thickness_m / (mat["insert"].conductivity(ROOM_K) * contact_area))
     links.append(Conduction("backing_plate_to_piston", "backing_plate", "piston", _series(*resistances), "piston_path"))
     # the fluid behind each piston: conduction across half the gap to the piston's back face and
-    # half to the bore bottom (stagnant fluid); it mixes with the rest of the fluid through a film
+    # half to the bore bottom (stagnant fluid); it meets the rest of the fluid only round its rim
+    # (bore circumference x gap, where the feed drillings join), through the fluid film
     g_gap = mat["fluid"].conductivity(ROOM_K) * face_area / (cal.piston_fluid_gap_m / 2)
+    rim_area = 2 * sum(math.pi * dia for dia in pi_.diameters_m) * cal.piston_fluid_gap_m
     links += [
         Conduction("piston_to_fluid_at_piston", "piston", "fluid_at_piston", g_gap, "piston_path"),
         Conduction("fluid_at_piston_to_caliper", "fluid_at_piston", "caliper", g_gap, "fluid_path"),
-        Conduction("fluid_at_piston_to_fluid", "fluid_at_piston", "fluid", cal.fluid_film_conductance_w_m2k * face_area, "fluid_path"),
+        Conduction("fluid_at_piston_to_fluid", "fluid_at_piston", "fluid", cal.fluid_film_conductance_w_m2k * rim_area, "fluid_path"),
     ]
     seal_area = sum(math.pi * dia * pi_.height_m / 2 for dia in pi_.diameters_m) * 2
     links.append(Conduction("piston_to_caliper", "piston", "caliper", contact_mult * pi_.seal_gap_conductance_w_m2k * seal_area, "piston_path"))
@@ -374,4 +375,4 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
     used = tuple(sorted({m.name for key, m in mat.items()
                          if not (key == "insert" and pi_.insert_thickness_m == 0) and not (key == "shim" and pi_.shim_thickness_m == 0)}))
     return CornerModel(design, network, tuple(outputs), weights, "disc_surface" if len(disc_nodes) > 1 else "disc",
-                       heat_partition(design), used, tuple(pad_nodes), "fluid_at_piston")
+                       heat_partition(design), used, tuple(pad_nodes), "fluid_at_piston", surface)

@@ -342,7 +342,7 @@ class CornerDesign:
         if self.axle not in ("front", "rear"):
             raise ScenarioError(f"[corners.{self.name}] axle must be 'front' or 'rear'")
         check_declared(self, f"corners.{self.name}")
-        gap_volume = 2 * self.piston.area_one_side_m2 * self.caliper.piston_fluid_gap_m
+        gap_volume = self.fluid_at_pistons_volume_m3
         if gap_volume >= self.caliper.fluid_volume_m3:
             raise ScenarioError(
                 f"[corners.{self.name}.caliper] the fluid behind the pistons (piston_fluid_gap_mm x piston area, "
@@ -350,6 +350,11 @@ class CornerDesign:
         if not (isinstance(self.rolling_radius_m, (int, float)) and math.isfinite(self.rolling_radius_m)
                 and self.rolling_radius_m > 0):
             raise ScenarioError(f"[corners.{self.name}] rolling_radius_m must be a number > 0, got {self.rolling_radius_m!r}")
+
+    @property
+    def fluid_at_pistons_volume_m3(self) -> float:
+        """Fluid between the pistons of both sides and their bore bottoms: area x gap [m^3]."""
+        return 2 * self.piston.area_one_side_m2 * self.caliper.piston_fluid_gap_m
 
     @property
     def effective_radius_m(self) -> float:

@@ -5,7 +5,7 @@ Jaeger, Conduction of Heat in Solids, 2nd ed., 1959, section 2.9). The first lay
 that depth for a one-second pulse; each layer inwards is ``growth`` times thicker than the one
 before, until the solid is filled. The face temperature is extrapolated linearly from the first
 two layer nodes (a second-order estimate of the boundary value): with the defaults below it
-reproduces the constant-flux solution of a slab heated on one face within about 1 % between 1 and
+reproduces the constant-flux solution of a slab heated on one face within 2 % between 1 and
 4 s (tests/corner/test_corner_layers.py, against Carslaw & Jaeger's series solution).
 """
 from __future__ import annotations

@@ -114,7 +114,7 @@ class StintRunner:
         duties = [corner_duties(scenario, seg, brakes) for seg in self.segments]
         designs = {d.name: d for d in scenario.corners}
         self.evaluations += 1
-        return Prediction({c: solve_corner(scenario, designs[c], self.segments, duties, self.settings)
+        return Prediction({c: solve_corner(scenario, designs[c], self.segments, duties, self.settings, output_hz=0.0)
                            for c in self.corners})
 
 
