@@ -270,3 +270,18 @@ def test_demo_front_vane_h_at_race_speeds():
     assert np.all((h > 40.0) & (h < 250.0))
     # about linear in speed, as McPhee & Johnson (2008) measured: 250/100 km/h gives 2.5 x if linear
     assert 1.6 < h[-1] / h[0] < 2.8
+
+
+def test_conduction_between_layers_follows_k_of_the_face_side_layer():
+    # grey iron's k(T) table (materials.toml): the conduction between two disc layers scales with
+    # k at the first end (the layer nearer the face), interpolated as Material.conductivity does
+    from thermo.corner.paths import ConductivityRatio
+    from thermo.materials import get_material
+    iron = get_material("grey_cast_iron")
+    ratio = ConductivityRatio.of(iron)
+    hot, cool = 1073.15, 293.15
+    assert ratio(None, cool, 500.0) == pytest.approx(1.0)
+    assert ratio(None, hot, 500.0) == pytest.approx(iron.conductivity(hot) / iron.conductivity(cool), rel=1e-12)
+    assert ratio(None, hot, 500.0) < 0.8                                 # 36 against 51 W/(m K) in the table
+    assert ratio(None, hot, cool) == ratio(None, hot, hot)             # the second end does not matter
+    assert ratio(np.zeros(3), np.full(3, hot), np.full(3, cool)).shape == (3,)
