@@ -12,8 +12,7 @@ import tomllib
 from pathlib import Path
 
 from thermo.chain.plan import expand_plan
-from thermo.chain.run import conductance_grid, corner_brakes, corner_duties, solve_corner
-from thermo.corner.build import build_corner
+from thermo.chain.run import corner_brakes, corner_duties, solve_corner
 from thermo.scenario.reader import scenario_from_dict
 from thermo.solver.settings import SolverSettings
 
@@ -46,9 +45,7 @@ def small_scenario(phases=None, overrides=(), soak_sample_s=None):
 def solve_one(scenario, corner="front", method=None, segments=None):
     """CornerResult of one corner over the scenario's plan (the chain's own functions)."""
     segments = expand_plan(scenario) if segments is None else segments
-    grid = conductance_grid(scenario)
-    models = {d.name: build_corner(d, scenario.ambient.pressure_pa, grid) for d in scenario.corners}
-    brakes = corner_brakes(scenario, models)
+    brakes = corner_brakes(scenario)
     duties = [corner_duties(scenario, seg, brakes) for seg in segments]
     settings = SolverSettings(method=method or scenario.solver.method, rtol=scenario.solver.rtol,
                               atol_k=scenario.solver.atol_k)

@@ -6,8 +6,7 @@ import pytest
 
 from chain_runs import small_scenario
 from thermo.chain.plan import expand_plan
-from thermo.chain.run import conductance_grid, corner_brakes, corner_duties
-from thermo.corner.build import build_corner
+from thermo.chain.run import corner_brakes, corner_duties
 from thermo.duty.bias import front_power_share
 from thermo.errors import ScenarioError
 
@@ -17,8 +16,7 @@ NO_RESISTANCE = [("car.drag_cd_a_m2", 0.0), ("car.rolling_resistance", 0.0), ("c
 def _lap_energies(scenario):
     """Per-lap braking energy of the front corner [J], as the chain reports it in LapSpan."""
     segments = expand_plan(scenario)
-    grid = conductance_grid(scenario)
-    brakes = corner_brakes(scenario, {d.name: build_corner(d, scenario.ambient.pressure_pa, grid) for d in scenario.corners})
+    brakes = corner_brakes(scenario)
     out = []
     for seg in segments:
         if seg.moving:

@@ -11,7 +11,7 @@ from thermo.chain.plan import PlanSegment, expand_plan
 from thermo.chain.validity import check_validity
 from thermo.corner.build import (
     SIGNAL_AMBIENT, SIGNAL_CLAMP, SIGNAL_DISC_HEAT, SIGNAL_DUCT_AIR, SIGNAL_PAD_HEAT, SIGNAL_SPEED, CornerModel, build_corner,
-    clamp_signal, duct_air_signals, pad_layers,
+    clamp_signal, duct_air_signals, heat_partition, materials_used, pad_layers,
 )
 from thermo.corner.geometry import CornerDesign
 from thermo.correlations import correlation_reference
@@ -41,13 +41,14 @@ class SegmentDuty:
     speed_m_s: np.ndarray
 
 
-def corner_brakes(scenario: Scenario, models: dict[str, CornerModel]) -> list[CornerBrake]:
-    """The duty step's view of each corner (an axle corner stands for its left wheel)."""
+def corner_brakes(scenario: Scenario) -> list[CornerBrake]:
+    """The duty step's view of each corner (an axle corner stands for its left wheel); the heat
+    partition comes from each design, without building its network."""
     brakes = []
     for design in scenario.corners:
         side = design.name.split("_")[1] if "_" in design.name else "left"
         brakes.append(CornerBrake(
-            name=design.name, axle=design.axle, side=side, partition=models[design.name].heat_partition,
+            name=design.name, axle=design.axle, side=side, partition=heat_partition(design),
             piston_area_one_side_m2=design.piston.area_one_side_m2, pad_mu=design.pad_mu,
             effective_radius_m=design.effective_radius_m, rolling_radius_m=design.rolling_radius_m))
     return brakes
@@ -306,12 +307,12 @@ def _phase_spans(segments) -> tuple[PhaseSpan, ...]:
                  for i in first)
 
 
-def references_for(scenario: Scenario, models, correlations_used) -> tuple[str, ...]:
+def references_for(scenario: Scenario, correlations_used) -> tuple[str, ...]:
     """Sources of the correlations and materials a run used, for the engineer who signs off."""
     names = set(correlations_used) | {"heat_partition_area_weighted", "effusivity",
                                       "radiation_coefficient_grey_two_surface", "radiation_coefficient_to_surroundings"}
     refs = [f"correlation {name}: {correlation_reference(name)}" for name in sorted(names)]
-    materials = sorted({m for model in models.values() for m in model.materials_used})
+    materials = sorted({m for design in scenario.corners for m in materials_used(design)})
     for name in materials:
         mat = get_material(name)
         refs.append(f"material {name}: " + "; ".join(f"{k}: {v}" for k, v in sorted(mat.sources.items())))
@@ -322,15 +323,14 @@ def references_for(scenario: Scenario, models, correlations_used) -> tuple[str, 
 def run_scenario(scenario: Scenario, *, progress=None, segments=None) -> Results:
     """The whole chain for every corner of a scenario."""
     segments = expand_plan(scenario) if segments is None else segments
-    models = {d.name: build_corner(d, scenario.ambient.pressure_pa, conductance_grid(scenario)) for d in scenario.corners}
-    brakes = corner_brakes(scenario, models)
+    brakes = corner_brakes(scenario)
     duties = [corner_duties(scenario, seg, brakes) for seg in segments]
     settings = SolverSettings(method=scenario.solver.method, rtol=scenario.solver.rtol, atol_k=scenario.solver.atol_k)
     corners = tuple(solve_corner(scenario, d, segments, duties, settings, progress) for d in scenario.corners)
     run_warnings = tuple(w for c in corners for w in c.extras.get("warnings", []))
     return Results(
         scenario_name=scenario.name, scenario_text=scenario.text, version=thermo.__version__,
-        solver=settings.method, solver_status="success", references=references_for(scenario, models, {n for c in corners for n in c.extras["correlations_used"]}),
+        solver=settings.method, solver_status="success", references=references_for(scenario, {n for c in corners for n in c.extras["correlations_used"]}),
         corners=corners, caution=thermo.CAUTION, warnings=run_warnings, overrides=applied_overrides(scenario))
 
 

@@ -96,7 +96,7 @@ def lap_setups(scenario, phase_name=None) -> dict:
     segment = laps[0]
     grid = conductance_grid(scenario)
     models = {d.name: build_corner(d, scenario.ambient.pressure_pa, grid) for d in scenario.corners}
-    duties = corner_duties(scenario, segment, corner_brakes(scenario, models))
+    duties = corner_duties(scenario, segment, corner_brakes(scenario))
     out = {}
     for design in scenario.corners:
         model = models[design.name]

@@ -114,6 +114,18 @@ def duct_air_signals(design: CornerDesign) -> list[tuple[str, float]]:
     return [(SIGNAL_DUCT_AIR if i == 0 else f"duct_air_{i + 1}_k", duct.air_rise_k) for i, duct in enumerate(design.ducts)]
 
 
+def materials_used(design: CornerDesign) -> tuple[str, ...]:
+    """Names of the materials the corner's network is built from (an insert or shim of thickness 0 is none)."""
+    d, p, pi_, hub = design.disc, design.pad, design.piston, design.hub
+    names = {d.material, d.bell_material, p.material, p.backing_material, pi_.material, design.caliper.material,
+             design.fluid_material, hub.hub_material, hub.bearing_material, hub.upright_material}
+    if pi_.insert_thickness_m > 0:
+        names.add(pi_.insert_material)
+    if pi_.shim_thickness_m > 0:
+        names.add(pi_.shim_material)
+    return tuple(sorted(names))
+
+
 def heat_partition(design: CornerDesign) -> float:
     """Disc share of the friction heat: the user's override or the area-weighted effusivity form."""
     if design.pad.partition_override is not None:
@@ -372,7 +384,6 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
                 weights[row, names.index(node)] = w
         else:
             weights[row, names.index(out)] = 1.0
-    used = tuple(sorted({m.name for key, m in mat.items()
-                         if not (key == "insert" and pi_.insert_thickness_m == 0) and not (key == "shim" and pi_.shim_thickness_m == 0)}))
+    used = materials_used(design)
     return CornerModel(design, network, tuple(outputs), weights, "disc_surface" if len(disc_nodes) > 1 else "disc",
                        heat_partition(design), used, tuple(pad_nodes), "fluid_at_piston", surface)

@@ -9,8 +9,7 @@ from lapdata.reader import read_trace_csv
 from lapdata.track import read_track_toml
 from lapdata.trace import LapTrace
 from thermo.chain.plan import PlanSegment, expand_plan
-from thermo.chain.run import corner_brakes, corner_duties, conductance_grid, solve_corner
-from thermo.corner.build import build_corner
+from thermo.chain.run import corner_brakes, corner_duties, solve_corner
 from thermo.fit.errors import FitError
 from thermo.results import CornerResult
 from thermo.scenario.model import Phase, Scenario
@@ -108,9 +107,7 @@ class StintRunner:
 
     def run(self, overrides) -> Prediction:
         scenario = self.with_overrides(overrides)
-        grid = conductance_grid(scenario)
-        models = {d.name: build_corner(d, scenario.ambient.pressure_pa, grid) for d in scenario.corners}
-        brakes = corner_brakes(scenario, models)
+        brakes = corner_brakes(scenario)
         duties = [corner_duties(scenario, seg, brakes) for seg in self.segments]
         designs = {d.name: d for d in scenario.corners}
         self.evaluations += 1

@@ -9,13 +9,11 @@ from lapdata.units import KMH, STANDARD_GRAVITY
 def lap_summary(trace, scenario) -> dict:
     """Zones, energy per lap and per-corner energy of one trace with a scenario's car (JSON-ready)."""
     from lapdata.zones import find_braking_zones
-    from thermo.chain.run import conductance_grid, corner_brakes
-    from thermo.corner.build import build_corner
+    from thermo.chain.run import corner_brakes
     from thermo.duty.corner_duty import corner_heat_inputs_from_trace
     from thermo.duty.summary import lap_energy_summary
 
-    models = {d.name: build_corner(d, scenario.ambient.pressure_pa, conductance_grid(scenario)) for d in scenario.corners}
-    brakes = corner_brakes(scenario, models)
+    brakes = corner_brakes(scenario)
     if scenario.power_method == "pressure":
         duties = corner_heat_inputs_from_trace(trace, scenario.vehicle, None, brakes, method="pressure")
     else:
