@@ -325,7 +325,7 @@ def run_scenario(scenario: Scenario, *, progress=None, segments=None) -> Results
     segments = expand_plan(scenario) if segments is None else segments
     brakes = corner_brakes(scenario)
     duties = [corner_duties(scenario, seg, brakes) for seg in segments]
-    settings = SolverSettings(method=scenario.solver.method, rtol=scenario.solver.rtol, atol_k=scenario.solver.atol_k)
+    settings = scenario.solver.settings()
     corners = tuple(solve_corner(scenario, d, segments, duties, settings, progress) for d in scenario.corners)
     run_warnings = tuple(w for c in corners for w in c.extras.get("warnings", []))
     return Results(

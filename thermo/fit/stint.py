@@ -14,7 +14,6 @@ from thermo.fit.errors import FitError
 from thermo.results import CornerResult
 from thermo.scenario.model import Phase, Scenario
 from thermo.scenario.reader import scenario_from_dict
-from thermo.solver.settings import SolverSettings
 
 LOGGED_PHASE = Phase(kind="laps", name="logged stint", count=1)
 
@@ -93,8 +92,7 @@ class StintRunner:
         self.segments = tuple(segments)
         self.corners = tuple(corners)
         self.evaluations = 0
-        s = scenario.solver
-        self.settings = SolverSettings(method=s.method, rtol=s.rtol, atol_k=s.atol_k)
+        self.settings = scenario.solver.settings()
 
     @property
     def span_s(self) -> tuple[float, float]:

@@ -11,6 +11,7 @@ from thermo.corner.geometry import CornerDesign
 from thermo.duty.bias import FixedBias, HydraulicBias
 from thermo.duty.vehicle import VehicleParameters
 from thermo.limits import FluidSpec, Limits
+from thermo.solver.settings import SolverSettings
 
 PHASE_KINDS = ("out_lap", "laps", "safety_car", "in_lap", "pit_stop", "soak")
 DRIVING_KINDS = ("out_lap", "laps", "safety_car", "in_lap")
@@ -91,6 +92,10 @@ class SolverChoice:
     rtol: float
     atol_k: float
     output_hz: float                # stored series rate [Hz]; 0 = every sample (peaks always kept)
+
+    def settings(self) -> SolverSettings:
+        """The integrator settings this table asks for (the one conversion, used by every study)."""
+        return SolverSettings(method=self.method, rtol=self.rtol, atol_k=self.atol_k)
 
 
 @dataclass(frozen=True)

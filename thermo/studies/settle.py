@@ -19,9 +19,8 @@ def settle(scenario, *, corners=None, phase=None) -> list:
     within 1 K from ambient) [-]
     """
     from thermo.chain.settle import settled_lap
-    from thermo.solver.settings import SolverSettings
 
-    settings = SolverSettings(method=scenario.solver.method, rtol=scenario.solver.rtol, atol_k=scenario.solver.atol_k)
+    settings = scenario.solver.settings()
     names = list(corners) if corners else [c.name for c in scenario.corners]
     return [settled_lap(scenario, name, phase_name=phase, settings=settings) for name in names]
 
