@@ -116,3 +116,9 @@ def test_studies_are_library_code_below_the_command_line(path):
     # compare, settle and the lap summary live in the library; the command line is a thin layer over them
     assert not [n for n in imported(path) if under(n, "thermo.cli")]
     assert not _prints_or_exits(path)
+
+
+@pytest.mark.parametrize("path", files_in("thermo.network", "thermo.solver"), ids=lambda p: p.name)
+def test_generic_layers_never_import_the_brake_results(path):
+    # the energy balance of a solve is generic (thermo.network.energy); results.py is the brake level
+    assert "thermo.results" not in imported(path)

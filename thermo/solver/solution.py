@@ -5,7 +5,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from thermo.results import EnergyBalance
+from thermo.network.energy import EnergyBalance
 
 
 @dataclass(frozen=True, eq=False)
