@@ -122,3 +122,54 @@ def test_studies_are_library_code_below_the_command_line(path):
 def test_generic_layers_never_import_the_brake_results(path):
     # the energy balance of a solve is generic (thermo.network.energy); results.py is the brake level
     assert "thermo.results" not in imported(path)
+
+
+def _module_edges(path: Path, modules: set[str]) -> set[str]:
+    """Modules of the project that a file imports (anywhere in it); ``from pkg import submodule``
+    counts as an import of the submodule only."""
+    name = module_of(path)
+    tree = ast.parse(path.read_text(encoding="utf-8"))
+    package = name if path.name == "__init__.py" else name.rpartition(".")[0]
+    found = set()
+    for node in ast.walk(tree):
+        if isinstance(node, ast.Import):
+            found.update(alias.name for alias in node.names)
+        elif isinstance(node, ast.ImportFrom):
+            base = node.module or ""
+            if node.level:
+                parts = package.split(".")
+                base = ".".join(parts[: len(parts) - node.level + 1] + ([base] if base else []))
+            subs = [f"{base}.{alias.name}" for alias in node.names if f"{base}.{alias.name}" in modules]
+            found.update(subs)
+            if len(subs) < len(node.names):
+                found.add(base)
+    edges = set()
+    for imported_name in found:
+        parts = imported_name.split(".")
+        for k in range(len(parts), 0, -1):
+            candidate = ".".join(parts[:k])
+            if candidate in modules:
+                if candidate != name:
+                    edges.add(candidate)
+                break
+    return edges
+
+
+def test_the_import_graph_has_no_loops():
+    # imports inside functions count too: a loop hidden that way is still a loop
+    modules = {module_of(p): p for p in SOURCES}
+    graph = {name: _module_edges(path, set(modules)) for name, path in modules.items()}
+    state: dict[str, int] = {}
+
+    def visit(node, trail):
+        state[node] = 1
+        for nxt in sorted(graph[node]):
+            if state.get(nxt) == 1:
+                raise AssertionError("import loop: " + " -> ".join(trail[trail.index(nxt):] + [nxt]))
+            if nxt not in state:
+                visit(nxt, trail + [nxt])
+        state[node] = 2
+
+    for start in sorted(graph):
+        if start not in state:
+            visit(start, [start])

@@ -5,7 +5,7 @@ import re
 
 import pytest
 
-from thermo.cli.run_cmd import demo_scenario_path
+from thermo.cli.options import demo_scenario_path
 from thermo.scenario import load_scenario
 from conftest import DEMO_LAP, cli
 

@@ -55,7 +55,7 @@ def format_comparison(data: dict) -> str:
 
 
 def compare_command(args) -> int:
-    from thermo.cli.run_cmd import overrides_with_solver
+    from thermo.cli.options import overrides_with_solver
     from thermo.output.atomic import atomic_write
     from thermo.output.plots import plot_comparison
 

@@ -21,7 +21,7 @@ def add_parser(sub) -> None:
 
 
 def fit_command(args) -> int:
-    from thermo.cli.run_cmd import collect_overrides
+    from thermo.cli.options import collect_overrides
     from thermo.fit import fit_scenario
     from thermo.fit.calibrated import calibrated_text, pinned_plan_files
     from thermo.fit.report import fit_dict, format_fit

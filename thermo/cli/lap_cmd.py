@@ -46,7 +46,7 @@ def format_lap(summary: dict) -> str:
 
 def lap_command(args) -> int:
     from lapdata.reader import read_trace_csv
-    from thermo.cli.run_cmd import demo_scenario_path
+    from thermo.cli.options import demo_scenario_path
     from thermo.scenario import load_scenario
 
     trace = read_trace_csv(Path(args.trace), repair=args.repair)

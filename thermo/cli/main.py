@@ -8,9 +8,8 @@ from __future__ import annotations
 import argparse
 import sys
 
+from thermo.cli.exit_codes import EXIT_EXCEEDED, EXIT_INPUT, EXIT_OK, EXIT_USAGE  # noqa: F401 (re-exported)
 from thermo.errors import BrakeheatError, LapDataError
-
-EXIT_OK, EXIT_INPUT, EXIT_USAGE, EXIT_EXCEEDED = 0, 1, 2, 3
 
 
 def build_parser() -> argparse.ArgumentParser:

@@ -5,9 +5,8 @@ import json
 import sys
 from pathlib import Path
 
-from thermo.errors import ScenarioError
-
-DEMO_SCENARIO = "demo.toml"
+from thermo.cli.exit_codes import EXIT_EXCEEDED, EXIT_OK
+from thermo.cli.options import demo_scenario_path, overrides_with_solver
 
 
 def add_run_options(p) -> None:
@@ -31,33 +30,6 @@ def add_run_parsers(sub) -> None:
     d.add_argument("--compare", action="store_true",
                    help="compare the demo's variants (pistons, shim, ducts) instead of one run, as `brakeheat compare`")
     d.set_defaults(handler=demo_command, variant=[], only=None)
-
-
-def demo_scenario_path() -> Path:
-    """The bundled demo scenario, installed with the package (or the repo's scenarios/ folder)."""
-    try:
-        from importlib.resources import files
-        path = Path(str(files("brakeheat_scenarios") / DEMO_SCENARIO))
-        if path.is_file():
-            return path
-    except ModuleNotFoundError:
-        pass
-    path = Path(__file__).resolve().parents[2] / "scenarios" / DEMO_SCENARIO
-    if not path.is_file():
-        raise ScenarioError(f"{path}: the bundled demo scenario is missing; reinstall brakeheat")
-    return path
-
-
-def collect_overrides(texts) -> list:
-    from thermo.scenario.overrides import parse_override
-    return [parse_override(t) for t in texts]
-
-
-def overrides_with_solver(args) -> list:
-    overrides = collect_overrides(args.overrides)
-    if args.solver:
-        overrides.append(("solver.method", args.solver))
-    return overrides
 
 
 def run_and_report(path: Path, args) -> int:
@@ -85,7 +57,6 @@ def run_and_report(path: Path, args) -> int:
         if args.out:
             print(f"\nWrote results.h5, summary.json and plots to {args.out}")
     exceeded = any(c.status == "exceeded" for corner in results.corners for c in corner.checks)
-    from thermo.cli.main import EXIT_EXCEEDED, EXIT_OK
     return EXIT_EXCEEDED if (args.fail_on_exceeded and exceeded) else EXIT_OK
 
 

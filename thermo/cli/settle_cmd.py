@@ -36,7 +36,7 @@ def format_settled(data: dict) -> str:
 
 
 def settle_command(args) -> int:
-    from thermo.cli.run_cmd import overrides_with_solver
+    from thermo.cli.options import overrides_with_solver
     from thermo.scenario import load_scenario
 
     scenario = load_scenario(Path(args.scenario), overrides_with_solver(args))

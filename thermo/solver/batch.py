@@ -34,7 +34,7 @@ from thermo.network.schedule import Schedule
 from thermo.network.tabulate import TabulatedConductance
 from thermo.solver import kernel, kernel_lanes, kernel_linearised
 from thermo.solver.elimination import EliminationPlan, elimination_plan
-from thermo.solver.segments import output_grid, span
+from thermo.solver.segments import output_grid, span, time_grid
 from thermo.solver.settings import SolverSettings
 
 _CACHE: "weakref.WeakKeyDictionary[CompiledNetwork, KernelNetwork | None]" = weakref.WeakKeyDictionary()
@@ -544,7 +544,6 @@ def solve_batch(networks, schedule: Schedule, initial_k, settings: SolverSetting
     ------
     ModelError  Mixed topologies, bad shapes.  SolveError  A configuration failed (named).
     """
-    from thermo.solver.fast import time_grid
     settings = SolverSettings(method="fast") if settings is None else settings
     kn = networks if isinstance(networks, KernelNetwork) else batch_network(list(networks))
     net = kn.compiled

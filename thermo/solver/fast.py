@@ -43,6 +43,7 @@ from thermo.network.assemble import CompiledNetwork
 from thermo.network.schedule import Schedule
 from thermo.solver import kernel
 from thermo.solver.batch import KernelInputs, kernel_inputs, kernel_network
+from thermo.solver.segments import time_grid  # noqa: F401 (the fast path's step grid; tests read it here)
 from thermo.solver.settings import SolverSettings
 from thermo.solver.solution import NetworkSolution, finish_solution
 
@@ -50,22 +51,6 @@ GAMMA = kernel.GAMMA
 D_WEIGHT = kernel.D_WEIGHT
 W_WEIGHT = kernel.W_WEIGHT
 MAX_NEWTON = kernel.MAX_NEWTON
-
-
-def time_grid(schedule: Schedule, t_start: float, t_end: float, out_t: np.ndarray,
-              max_step_s: float | None) -> np.ndarray:
-    """Schedule samples and output times in [t_start, t_end], long intervals split [s]."""
-    t = schedule.time_s
-    grid = np.union1d(np.concatenate([[t_start, t_end], t[(t > t_start) & (t < t_end)]]), out_t)
-    if max_step_s is not None:
-        h = np.diff(grid)
-        m = np.ceil(h / max_step_s - 1e-12).astype(int)
-        if np.any(m > 1):
-            parts = [grid[:1]]
-            for a, b, k in zip(grid[:-1], grid[1:], m):
-                parts.append(np.linspace(a, b, k + 1)[1:] if k > 1 else np.array([b]))
-            grid = np.concatenate(parts)
-    return grid
 
 
 def integrate_fast(net: CompiledNetwork, schedule: Schedule, initial_k: np.ndarray, settings: SolverSettings,
