@@ -1,4 +1,4 @@
-"""Resampling and a zero-phase derivative of speed.
+"""Resampling, a zero-phase derivative of speed and zero-phase smoothing of a measured channel.
 
 Choice of derivative: a Savitzky-Golay filter (``scipy.signal.savgol_filter`` with
 ``deriv=1``, quadratic fit) on a uniform time grid. It is a symmetric FIR filter, hence
@@ -93,16 +93,54 @@ def smoothed_acceleration(time_s: np.ndarray, speed_mps: np.ndarray, window_s: f
         raise LapDataError("smoothed_acceleration: time_s: expected strictly increasing times")
     if not (np.isfinite(window_s) and window_s > 0.0):
         raise LapDataError(f"smoothed_acceleration: window_s = {window_s!r}: expected a finite value > 0 s")
+    grid, dt, uniform = _uniform_grid(t)
+    n = max(_odd_window(window_s, dt, grid.size), _POLYORDER + 1)
+    acc = savgol_filter(v if uniform else np.interp(grid, t, v), n, _POLYORDER, deriv=1, delta=dt, mode="interp")
+    return acc if uniform else np.interp(t, grid, acc)
+
+
+def smoothed_channel(time_s, values, window_s: float) -> np.ndarray:
+    """A measured channel smoothed with the same zero-phase Savitzky-Golay filter (no derivative).
+
+    Parameters
+    ----------
+    time_s : ndarray  Sample times, strictly increasing [s]
+    values : ndarray  Channel values at those times [any unit]
+    window_s : float  Filter window; 0 (or a window under three samples) means no smoothing [s]
+
+    Returns
+    -------
+    ndarray  Smoothed values at ``time_s`` [unit of values]
+
+    Notes
+    -----
+    Quadratic fit over a centred window, zero phase, so a braking zone is not shifted in time;
+    the grid and the window follow the same rules as :func:`smoothed_acceleration`.
+    """
+    t = np.asarray(time_s, dtype=float)
+    y = np.asarray(values, dtype=float)
+    if not window_s > 0 or t.size < 3:
+        return y.copy()
+    grid, dt, uniform = _uniform_grid(t)
+    n = _odd_window(window_s, dt, grid.size)
+    if n <= _POLYORDER:
+        return y.copy()
+    filtered = savgol_filter(y if uniform else np.interp(grid, t, y), n, _POLYORDER, mode="interp")
+    return filtered if uniform else np.interp(t, grid, filtered)
+
+
+def _uniform_grid(t: np.ndarray) -> tuple[np.ndarray, float, bool]:
+    """(grid, step, whether t is already uniform): a non-uniform trace goes onto a uniform grid at
+    the smaller of its median and mean steps, so that no stretch is undersampled."""
+    step = np.diff(t)
     dt = min(float(np.median(step)), float(t[-1] - t[0]) / (t.size - 1))
-    uniform = np.allclose(step, dt, rtol=1e-6, atol=0.0)
-    if uniform:
-        grid, vg = t, v
-    else:
-        grid = t[0] + dt * np.arange(int(np.floor((t[-1] - t[0]) / dt)) + 1)
-        vg = np.interp(grid, t, v)
+    if np.allclose(step, dt, rtol=1e-6, atol=0.0):
+        return t, dt, True
+    return t[0] + dt * np.arange(int(np.floor((t[-1] - t[0]) / dt)) + 1), dt, False
+
+
+def _odd_window(window_s: float, dt: float, n_grid: int) -> int:
+    """The odd number of samples nearest ``window_s``, at most the grid's (odd) length."""
     n = int(round(window_s / dt))
     n = n + 1 if n % 2 == 0 else n
-    largest_odd = grid.size if grid.size % 2 else grid.size - 1
-    n = max(min(n, largest_odd), _POLYORDER + 1)
-    acc = savgol_filter(vg, n, _POLYORDER, deriv=1, delta=dt, mode="interp")
-    return acc if uniform else np.interp(t, grid, acc)
+    return min(n, n_grid if n_grid % 2 else n_grid - 1)

@@ -14,9 +14,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from lapdata.errors import LapDataError
-from lapdata.signal import smoothed_acceleration
+from lapdata.signal import smoothed_acceleration, smoothed_channel
 from lapdata.units import STANDARD_GRAVITY
-from thermo.duty.smoothing import smoothed_channel
 from thermo.duty.vehicle import (
     VehicleParameters, check_number, drag_force_n, rolling_resistance_force_n,
 )
