@@ -46,7 +46,10 @@ def convert_value(where: str, key: str, field: Field, value, source: str):
     if field.above is not None and not value > field.above:
         raise ScenarioError(f"{at} must be more than {field.above:g}, got {value!r}")
     if field.maximum is not None and value > field.maximum:
-        raise ScenarioError(f"{at} must be at most {field.maximum:g}, got {value!r}")
+        hint = ""
+        if key.endswith("_c") and field.minimum is not None and field.minimum <= value - 273.15 <= field.maximum:
+            hint = f" (this key is in degC: {value!r} K would be {value - 273.15:g} degC)"
+        raise ScenarioError(f"{at} must be at most {field.maximum:g}, got {value!r}{hint}")
     if field.kind is int:
         return value
     return float(value) * field.factor + field.offset

@@ -115,6 +115,11 @@ def _ambient(a: dict, source: str) -> Ambient:
         hours = [r[0] for r in rows]
         if any(b <= a_ for a_, b in zip(hours, hours[1:])) or hours[0] < 0:
             raise ScenarioError(f"{source}: [ambient] temperature_profile_h_c hours must start at >= 0 and increase")
+        field = S.AMBIENT["temperature_c"]
+        for h, c in rows:
+            if not field.minimum <= c <= field.maximum:
+                raise ScenarioError(f"{source}: [ambient] temperature_profile_h_c at {h:g} h: {c:g} degC is outside "
+                                    f"{field.minimum:g} to {field.maximum:g} degC")
         profile = tuple((h * 3600.0, c + 273.15) for h, c in rows)
     return Ambient(a["temperature_k"], pressure, profile)
 

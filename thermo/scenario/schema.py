@@ -55,7 +55,8 @@ BRAKES = {
 }
 
 AMBIENT = {
-    "temperature_c": degc("temperature_k", 25.0),
+    "temperature_c": degc("temperature_k", 25.0, minimum=-60.0, maximum=60.0,
+                          doc="the air round the car; outside -60 to 60 degC is an error"),
     "temperature_profile_h_c": f("temperature_profile_h_c", [], kind=list,
                                  doc="[[hours from start, degC], ...]; overrides temperature_c when not empty"),
     "pressure_mode": f("pressure_mode", "pressure", kind=str, choices=("pressure", "altitude")),
