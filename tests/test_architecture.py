@@ -16,21 +16,29 @@ def module_of(path: Path) -> str:
     return ".".join(path.relative_to(ROOT).with_suffix("").parts).removesuffix(".__init__")
 
 
-def imported(path: Path) -> set[str]:
-    """Absolute names of every module imported anywhere in the file (also inside functions)."""
+def import_statements(path: Path):
+    """(base module, [imported names]) of every import anywhere in the file (also inside functions);
+    relative imports resolved. ``import a.b`` gives ("a.b", []); ``from a import b, c`` ("a", ["b", "c"])."""
     tree = ast.parse(path.read_text(encoding="utf-8"))
     package = module_of(path) if path.name == "__init__.py" else module_of(path).rpartition(".")[0]
-    names = set()
     for node in ast.walk(tree):
         if isinstance(node, ast.Import):
-            names.update(alias.name for alias in node.names)
+            for alias in node.names:
+                yield alias.name, []
         elif isinstance(node, ast.ImportFrom):
             base = node.module or ""
             if node.level:
                 parts = package.split(".")
                 base = ".".join(parts[: len(parts) - node.level + 1] + ([base] if base else []))
-            names.add(base)
-            names.update(f"{base}.{alias.name}" for alias in node.names)
+            yield base, [alias.name for alias in node.names]
+
+
+def imported(path: Path) -> set[str]:
+    """Absolute names of every module imported anywhere in the file (also inside functions)."""
+    names = set()
+    for base, members in import_statements(path):
+        names.add(base)
+        names.update(f"{base}.{m}" for m in members)
     return names
 
 
@@ -128,21 +136,12 @@ def _module_edges(path: Path, modules: set[str]) -> set[str]:
     """Modules of the project that a file imports (anywhere in it); ``from pkg import submodule``
     counts as an import of the submodule only."""
     name = module_of(path)
-    tree = ast.parse(path.read_text(encoding="utf-8"))
-    package = name if path.name == "__init__.py" else name.rpartition(".")[0]
     found = set()
-    for node in ast.walk(tree):
-        if isinstance(node, ast.Import):
-            found.update(alias.name for alias in node.names)
-        elif isinstance(node, ast.ImportFrom):
-            base = node.module or ""
-            if node.level:
-                parts = package.split(".")
-                base = ".".join(parts[: len(parts) - node.level + 1] + ([base] if base else []))
-            subs = [f"{base}.{alias.name}" for alias in node.names if f"{base}.{alias.name}" in modules]
-            found.update(subs)
-            if len(subs) < len(node.names):
-                found.add(base)
+    for base, members in import_statements(path):
+        subs = [f"{base}.{m}" for m in members if f"{base}.{m}" in modules]
+        found.update(subs)
+        if not members or len(subs) < len(members):
+            found.add(base)
     edges = set()
     for imported_name in found:
         parts = imported_name.split(".")
