@@ -147,6 +147,8 @@ class PadGeometry:
                                            doc="fixed disc share; omit to let the interface split the heat")
     layers: int = key("layers", 0, kind=int, minimum=0, maximum=12,
                       doc="nodes through the friction material; 0 = automatic, from the penetration depth (at most 6)")
+    # 400: about a 0.1 mm air gap, k_air / gap (air k from Incropera Table A.4); the gap itself is
+    # common practice, no published source
     rest_contact_conductance_w_m2k: float = key("rest_contact_conductance_w_m2k", 400.0, minimum=0.0,
                                                 doc="pad resting on the disc between applications")
     section: str = "pad"
@@ -229,6 +231,7 @@ class CaliperGeometry:
     fluid_volume_m3: float = key("fluid_volume_cm3", factor=CM3, above=0.0)
     fluid_film_conductance_w_m2k: float = key("fluid_film_conductance_w_m2k", 150.0, above=0.0,
                                               doc="bulk fluid to its walls and to the fluid at the pistons")
+    # 1 mm behind a new pad's pistons: common practice, no published source
     piston_fluid_gap_m: float = key("piston_fluid_gap_mm", 1.0, factor=MM, above=0.0,
                                     doc="fluid between each piston and its bore bottom: the fluid_at_piston node")
     mount_conductance_w_k: float = key("mount_conductance_w_k", 2.0, minimum=0.0)
