@@ -8,6 +8,7 @@ from dataclasses import replace
 
 import numpy as np
 
+from lapdata.echo import shown
 from lapdata.errors import LapDataError
 from lapdata.trace import LapTrace
 
@@ -20,7 +21,7 @@ def paced(trace: LapTrace, pace: float) -> LapTrace:
     Measured temperatures are dropped: they belong to the lap as logged.
     """
     if not (0 < pace <= 1.0):
-        raise LapDataError(f"{trace.source}: pace must be above 0 and at most 1, got {pace!r}")
+        raise LapDataError(f"{trace.source}: pace must be above 0 and at most 1, got {shown(pace)}")
     if pace == 1.0:
         return trace
     scale = lambda x: None if x is None else x * pace ** 2  # noqa: E731

@@ -31,7 +31,9 @@ from pathlib import Path
 import numpy as np
 
 from lapdata import validate as v
+from lapdata.echo import shown
 from lapdata.errors import LapDataError
+from lapdata.files import MAX_CSV_BYTES, read_regular_file
 from lapdata.suggest import did_you_mean
 from lapdata.trace import LapTrace
 from lapdata.units import BAR, KELVIN_AT_0C, KM, KMH, KPA, MPH, PSI, STANDARD_GRAVITY
@@ -53,6 +55,8 @@ CHANNELS: dict[str, str] = {
 }
 TEMPERATURE_NAME = re.compile(r"temp_[a-z0-9_]+")
 _HEADER_CELL = re.compile(r"\s*([^\[\]]*?)\s*(?:\[([^\[\]]*)\])?\s*")
+# what a header cell may look like to be echoed in a message: a short name and a short unit
+_SAFE_HEADER = re.compile(r"[A-Za-z_][A-Za-z0-9_ ]{0,39}(?:\[[A-Za-z0-9/^%. ]{0,16}\])?")
 
 
 def read_trace_csv(path: str | Path, *, repair: bool = False) -> LapTrace:
@@ -82,12 +86,7 @@ def read_trace_csv(path: str | Path, *, repair: bool = False) -> LapTrace:
 
 
 def _read_text(path: Path) -> str:
-    try:
-        raw = path.read_bytes()
-    except FileNotFoundError:
-        raise LapDataError(f"{path}: file not found") from None
-    except OSError as exc:
-        raise LapDataError(f"{path}: cannot read the file ({exc.strerror or type(exc).__name__})") from None
+    raw = read_regular_file(path, "lap trace CSV", MAX_CSV_BYTES)
     try:
         return raw.decode("utf-8-sig")
     except UnicodeDecodeError as exc:
@@ -119,10 +118,14 @@ def _parse_header(header: str, line: int, source: str) -> dict[str, ColumnRef]:
     """Channel name -> ColumnRef, in file order."""
     refs: dict[str, ColumnRef] = {}
     known = sorted(CHANNELS) + ["temp_<what>"]
-    for cell in header.split(","):
+    for number, cell in enumerate(header.split(","), start=1):
         m = _HEADER_CELL.fullmatch(cell)
-        if m is None:
-            raise v.fail(source, line, cell.strip(), "expected a column header 'name [unit]'")
+        shape = _SAFE_HEADER.fullmatch(cell.strip())
+        if m is None or shape is None:
+            # the cell is not header-shaped: say which column, never what it holds (it may be
+            # the first line of a file that was never a lap trace)
+            raise v.fail(source, line, f"#{number}", "expected a column header 'name [unit]', e.g. 'speed [km/h]' "
+                                                    "(is this a lap-trace CSV?)")
         name, unit = m.group(1), m.group(2)
         quantity = CHANNELS.get(name) or ("temperature" if TEMPERATURE_NAME.fullmatch(name) else None)
         if quantity is None:
@@ -182,12 +185,12 @@ def _cell_value(cell: str, ref: ColumnRef, line: int, source: str) -> float:
     try:
         value = float(text)
     except ValueError:
-        raise v.fail(source, line, ref.header, f"not a number: {text[:40]!r}") from None
+        raise v.fail(source, line, ref.header, f"not a number: {shown(text)}") from None
     if not np.isfinite(value):
-        raise v.fail(source, line, ref.header, f"{text[:40]!r} is not finite: expected a number")
+        raise v.fail(source, line, ref.header, f"{shown(text)} is not finite: expected a number")
     si = value * ref.scale + ref.offset
     if not np.isfinite(si):
-        raise v.fail(source, line, ref.header, f"{text[:40]!r} too large to represent in SI")
+        raise v.fail(source, line, ref.header, f"{shown(text)} too large to represent in SI")
     return si
 
 
@@ -203,6 +206,11 @@ def _build_trace(data: dict[str, np.ndarray], refs: dict[str, ColumnRef], lines:
     for name, ref in refs.items():
         if name.startswith("temp_"):
             v.check_temperature(data[name], lines, source, ref)
+            v.check_channel_range(data[name], "temperature", lines, source, ref)
+        elif name.startswith("pressure_"):
+            v.check_channel_range(data[name], "pressure", lines, source, ref)
+        elif name == "accel_long":
+            v.check_channel_range(data[name], "acceleration", lines, source, ref)
     repairs: list[str] = []
 
     drops = v.find_dropouts(base_is_time, data[base_name], data["speed"])
@@ -244,6 +252,9 @@ def _build_trace(data: dict[str, np.ndarray], refs: dict[str, ColumnRef], lines:
         if not np.all(np.isfinite(values)):
             i = int(np.flatnonzero(~np.isfinite(values))[0])
             raise v.fail(source, int(lines[i]), None, f"derived {label} too large to represent")
+    v.check_duration(time, lines, source)
+    if "distance" in data and base_is_time:
+        v.check_distance_steps(time, distance, lines, source, refs["distance"])
 
     temperatures = {k: val for k, val in data.items() if k.startswith("temp_")}
     return LapTrace(

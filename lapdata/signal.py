@@ -13,6 +13,7 @@ from dataclasses import replace
 import numpy as np
 from scipy.signal import savgol_filter
 
+from lapdata.echo import shown
 from lapdata.errors import LapDataError
 from lapdata.trace import LapTrace
 
@@ -37,7 +38,7 @@ def resample_uniform(trace: LapTrace, rate_hz: float) -> LapTrace:
     temperature; ``source`` and ``repairs`` are kept. At least two samples must result.
     """
     if not (np.isfinite(rate_hz) and rate_hz > 0.0):
-        raise LapDataError(f"{trace.source}: rate_hz = {rate_hz!r}: expected a finite rate > 0 Hz")
+        raise LapDataError(f"{trace.source}: rate_hz = {shown(rate_hz)}: expected a finite rate > 0 Hz")
     n = int(np.floor(trace.duration_s * rate_hz * (1.0 + 1e-12))) + 1
     if n < 2:
         raise LapDataError(f"{trace.source}: rate_hz = {rate_hz:g} gives fewer than 2 samples over "
@@ -92,7 +93,7 @@ def smoothed_acceleration(time_s: np.ndarray, speed_mps: np.ndarray, window_s: f
     if not np.all(step > 0.0):
         raise LapDataError("smoothed_acceleration: time_s: expected strictly increasing times")
     if not (np.isfinite(window_s) and window_s > 0.0):
-        raise LapDataError(f"smoothed_acceleration: window_s = {window_s!r}: expected a finite value > 0 s")
+        raise LapDataError(f"smoothed_acceleration: window_s = {shown(window_s)}: expected a finite value > 0 s")
     grid, dt, uniform = _uniform_grid(t)
     n = max(_odd_window(window_s, dt, grid.size), _POLYORDER + 1)
     acc = savgol_filter(v if uniform else np.interp(grid, t, v), n, _POLYORDER, deriv=1, delta=dt, mode="interp")

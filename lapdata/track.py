@@ -23,26 +23,39 @@ Track TOML format (read by :func:`read_track_toml`)::
 from __future__ import annotations
 
 import math
-import tomllib
 from dataclasses import dataclass, fields
 from pathlib import Path
 
 import numpy as np
 
+from lapdata.echo import has_control_characters, shown
 from lapdata.errors import LapDataError
+from lapdata.files import read_toml_file
 from lapdata.suggest import did_you_mean
 from lapdata.trace import LapTrace
 from lapdata.units import KMH, STANDARD_GRAVITY
 
 GRID_STEP_M = 0.5
+# Physical ranges of a track description. Wide: they catch unit slips (a radius typed in km, a
+# length in mm) and nonsense, not circuits.   # common practice, no published source
+SEGMENT_LENGTH_MAX_M = 30_000.0      # one segment; the longest straights are a few km
+LAP_LENGTH_MAX_M = 100_000.0         # the longest road circuits are about 25 km
+RADIUS_RANGE_M = (5.0, 100_000.0)    # a tight hairpin to a barely curved straight
+MIN_SPEED_RANGE_KMH = (5.0, 500.0)
+LAP_TIME_MAX_S = 4 * 3600.0          # a built lap slower than this is a unit slip
 _KINDS = ("straight", "corner")
+
+
+def _at_most(owner: str, name: str, value: float, high: float) -> None:
+    if value > high:
+        raise LapDataError(f"{owner}: {name} = {shown(value)}: expected at most {high:g}")
 
 
 def _positive(owner: str, name: str, value, *, allow_zero: bool = False) -> None:
     ok = isinstance(value, (int, float)) and not isinstance(value, bool) and math.isfinite(value)
     if not ok or value < 0.0 or (value == 0.0 and not allow_zero):
         bound = ">= 0" if allow_zero else "> 0"
-        raise LapDataError(f"{owner}: {name} = {value!r}: expected a finite number {bound}")
+        raise LapDataError(f"{owner}: {name} = {shown(value)}: expected a finite number {bound}")
 
 
 @dataclass(frozen=True)
@@ -56,20 +69,24 @@ class TrackSegment:
     name: str = ""
 
     def __post_init__(self):
-        owner = f"segment '{self.name}'" if self.name else "segment"
+        if not isinstance(self.name, str) or has_control_characters(self.name):
+            raise LapDataError(f"segment: name = {shown(self.name)}: expected plain text (no line breaks or control characters)")
+        owner = f"segment {shown(self.name)}" if self.name else "segment"
         if self.kind not in _KINDS:
             hint = did_you_mean(self.kind, _KINDS)
-            raise LapDataError(f"{owner}: kind = {self.kind!r}: expected 'straight' or 'corner'{hint}")
+            raise LapDataError(f"{owner}: kind = {shown(self.kind)}: expected 'straight' or 'corner'{hint}")
         _positive(owner, "length_m", self.length_m)
+        _at_most(owner, "length_m", self.length_m, SEGMENT_LENGTH_MAX_M)
         if self.kind == "straight" and (self.radius_m is not None or self.min_speed_kmh is not None):
             raise LapDataError(f"{owner}: a straight takes no radius_m or min_speed_kmh")
         if self.kind == "corner" and (self.radius_m is None) == (self.min_speed_kmh is None):
             raise LapDataError(f"{owner}: a corner needs radius_m or min_speed_kmh (exactly one of them)")
-        for key in ("radius_m", "min_speed_kmh"):
-            if getattr(self, key) is not None:
-                _positive(owner, key, getattr(self, key))
-        if not isinstance(self.name, str):
-            raise LapDataError(f"{owner}: name = {self.name!r}: expected text")
+        for key, (low, high) in (("radius_m", RADIUS_RANGE_M), ("min_speed_kmh", MIN_SPEED_RANGE_KMH)):
+            value = getattr(self, key)
+            if value is not None:
+                _positive(owner, key, value)
+                if not low <= value <= high:
+                    raise LapDataError(f"{owner}: {key} = {shown(value)}: expected {low:g} to {high:g}")
 
 
 @dataclass(frozen=True)
@@ -80,13 +97,16 @@ class TrackDescription:
     segments: tuple
 
     def __post_init__(self):
-        if not isinstance(self.name, str) or not self.name.strip():
-            raise LapDataError(f"track: name = {self.name!r}: expected a non-empty text")
+        if not isinstance(self.name, str) or not self.name.strip() or has_control_characters(self.name):
+            raise LapDataError(f"track: name = {shown(self.name)}: expected a non-empty plain text")
         if not isinstance(self.segments, tuple) or not self.segments:
             raise LapDataError(f"track '{self.name}': segments: expected a non-empty tuple of TrackSegment")
         for i, seg in enumerate(self.segments):
             if not isinstance(seg, TrackSegment):
                 raise LapDataError(f"track '{self.name}': segment {i + 1}: expected a TrackSegment")
+        if self.length_m > LAP_LENGTH_MAX_M:
+            raise LapDataError(f"track '{self.name}': the lap is {self.length_m / 1000:g} km long: expected at most "
+                               f"{LAP_LENGTH_MAX_M / 1000:g} km")
 
     @property
     def length_m(self) -> float:
@@ -156,15 +176,7 @@ def read_track_toml(path: str | Path) -> TrackDescription:
     Unknown keys are errors with a suggestion; each value is checked by the dataclasses.
     """
     source = str(path)
-    try:
-        with open(path, "rb") as fh:
-            doc = tomllib.load(fh)
-    except FileNotFoundError:
-        raise LapDataError(f"{source}: file not found") from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise LapDataError(f"{source}: cannot read the file ({type(exc).__name__})") from None
-    except tomllib.TOMLDecodeError as exc:
-        raise LapDataError(f"{source}: not valid TOML ({str(exc).splitlines()[0]})") from None
+    doc, _ = read_toml_file(path, "track file")
     _known_keys(source, "top level", doc, ("name", "segments"))
     if "name" not in doc or "segments" not in doc:
         raise LapDataError(f"{source}: expected keys 'name' and [[segments]]")
@@ -192,7 +204,7 @@ def read_track_toml(path: str | Path) -> TrackDescription:
 def _known_keys(source: str, where: str, table: dict, allowed: tuple) -> None:
     for key in table:
         if key not in allowed:
-            raise LapDataError(f"{source}: {where}: unknown key '{key}'{did_you_mean(key, allowed)}: "
+            raise LapDataError(f"{source}: {where}: unknown key {shown(key)}{did_you_mean(key, allowed)}: "
                                f"expected one of {', '.join(allowed)}")
 
 
@@ -218,7 +230,7 @@ def build_speed_trace(track: TrackDescription, envelope: CarEnvelope, *, sample_
     _positive("build_speed_trace", "sample_hz", sample_hz)
     _positive("build_speed_trace", "pace", pace)
     if pace > 1.0:
-        raise LapDataError(f"build_speed_trace: pace = {pace!r}: expected 0 < pace <= 1")
+        raise LapDataError(f"build_speed_trace: pace = {shown(pace)}: expected 0 < pace <= 1")
     if speed_limit_kmh is not None:
         _positive("build_speed_trace", "speed_limit_kmh", speed_limit_kmh)
     limit, step = _speed_limits(track, envelope)
@@ -229,6 +241,9 @@ def build_speed_trace(track: TrackDescription, envelope: CarEnvelope, *, sample_
         speed = np.minimum(speed, speed_limit_kmh * KMH)
     distance = np.concatenate([[0.0], np.cumsum(step)])
     time = np.concatenate([[0.0], np.cumsum(2.0 * step / (speed[1:] + speed[:-1]))])
+    if time[-1] > LAP_TIME_MAX_S:
+        raise LapDataError(f"track '{track.name}': the built lap takes {time[-1] / 3600:.3g} h: expected at most "
+                           f"{LAP_TIME_MAX_S / 3600:g} h (check the car's power, grip and the corners' speeds)")
     accel_mid = np.diff(speed**2) / (2.0 * step)
     accel = np.interp(distance, 0.5 * (distance[1:] + distance[:-1]), accel_mid)
     t_out = np.arange(int(np.floor(time[-1] * sample_hz * (1 + 1e-12))) + 1) / sample_hz

@@ -33,6 +33,14 @@ MIN_SAMPLES = 10
 DECEL_LIMIT_MPS2 = 5.0 * STANDARD_GRAVITY   # beyond any tyre on any car  # common practice, no published source
 ACCEL_LIMIT_MPS2 = 3.0 * STANDARD_GRAVITY   # beyond any traction limit   # common practice, no published source
 SPEED_CEILING_MPS = 200.0                   # 720 km/h: no circuit car logs this  # common practice, no published source
+MAX_DURATION_S = 48 * 3600.0               # a logged trace of more than 48 h is no stint  # common practice, no published source
+# Ranges of the other channels (SI); a value outside is a unit mix-up or a broken sensor.
+CHANNEL_RANGES = {                          # common practice, no published source
+    "temperature": (213.15, 2273.15),       # -60 to 2000 degC: below any ambient, above any disc
+    "pressure": (-5.0e5, 300.0e5),          # -5 to 300 bar: a zero offset below, above any brake system
+    "acceleration": (-10.0 * STANDARD_GRAVITY, 10.0 * STANDARD_GRAVITY),
+}
+DISTANCE_STEP_SPEED_FACTOR = 1.5            # a distance step may imply at most this x the speed ceiling
 GAP_MISSING_FACTOR = 1.5                    # a step this many median steps long has lost a sample
 GAP_LONG_FACTOR = 5.0                       # longer than this many median steps: not repairable
 
@@ -202,6 +210,39 @@ def fill_gaps(base: np.ndarray, channels: dict[str, np.ndarray], lines: np.ndarr
     filled = {name: np.interp(grid, base, values) for name, values in channels.items()}
     new_lines = lines[np.minimum(np.searchsorted(base, grid), base.size - 1)]
     return grid, filled, new_lines, notes
+
+
+def check_channel_range(values: np.ndarray, kind: str, lines: np.ndarray, source: str, col: ColumnRef) -> None:
+    """A temperature, pressure or acceleration channel inside :data:`CHANNEL_RANGES` (first bad row named)."""
+    low, high = CHANNEL_RANGES[kind]
+    bad = np.flatnonzero((values < low) | (values > high))
+    if bad.size:
+        i = int(bad[0])
+        raise fail(source, int(lines[i]), col.header,
+                   f"{kind} {col.to_file_unit(values[i]):g} {col.unit} is outside the plausible range "
+                   f"{col.to_file_unit(low):g} to {col.to_file_unit(high):g} {col.unit}")
+
+
+def check_duration(time_s: np.ndarray, lines: np.ndarray, source: str) -> None:
+    """A trace no longer than :data:`MAX_DURATION_S` (a lap crawled at 0.001 km/h would be years)."""
+    if time_s.size and time_s[-1] > MAX_DURATION_S:
+        i = int(np.searchsorted(time_s, MAX_DURATION_S))
+        raise fail(source, int(lines[min(i, lines.size - 1)]), None,
+                   f"the trace lasts {time_s[-1] / 3600:.3g} h: expected at most {MAX_DURATION_S / 3600:g} h "
+                   "(check the time or speed units)")
+
+
+def check_distance_steps(time_s: np.ndarray, distance_m: np.ndarray, lines: np.ndarray, source: str,
+                         col: ColumnRef) -> None:
+    """A logged distance never moves faster than the speed ceiling allows (a jump to 1e308 m)."""
+    with np.errstate(all="ignore"):
+        step_speed = np.diff(distance_m) / np.diff(time_s)
+    bad = np.flatnonzero(~(step_speed <= DISTANCE_STEP_SPEED_FACTOR * SPEED_CEILING_MPS))
+    if bad.size:
+        i = int(bad[0]) + 1
+        raise fail(source, int(lines[i]), col.header,
+                   f"distance jumps by {col.to_file_unit(distance_m[i] - distance_m[i - 1]):g} {col.unit} in "
+                   f"{time_s[i] - time_s[i - 1]:g} s: expected a car's travel")
 
 
 def check_temperature(values_k: np.ndarray, lines: np.ndarray, source: str, col: ColumnRef) -> None:

@@ -14,6 +14,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from lapdata.echo import shown
 from lapdata.errors import LapDataError
 from lapdata.signal import smoothed_acceleration
 from lapdata.trace import LapTrace
@@ -97,5 +98,5 @@ def _check_settings(trace, pressure_threshold_pa, decel_on_mps2, decel_off_mps2,
     )
     for name, value, ok in checks:
         if not (np.isfinite(value) and ok):
-            raise LapDataError(f"{trace.source}: {name} = {value!r}: expected a finite value >= 0 "
+            raise LapDataError(f"{trace.source}: {name} = {shown(value)}: expected a finite value >= 0 "
                                f"(decel_off_mps2 <= decel_on_mps2, decel_on_mps2 > 0)")

@@ -16,6 +16,7 @@ import math
 from dataclasses import dataclass
 from typing import Any
 
+from lapdata.echo import shown
 from lapdata.units import KELVIN_AT_0C, MM
 from thermo.errors import ScenarioError
 
@@ -100,22 +101,22 @@ def check_declared(obj, section: str) -> None:
         if declared.kind is str:
             if not isinstance(value, str) or (declared.choices and value not in declared.choices):
                 want = f"one of {', '.join(declared.choices)}" if declared.choices else "a text string"
-                raise ScenarioError(f"{at} must be {want}, got {value!r}")
+                raise ScenarioError(f"{at} must be {want}, got {shown(value)}")
             continue
         if declared.kind is bool:
             if not isinstance(value, bool):
-                raise ScenarioError(f"{at} must be true or false, got {value!r}")
+                raise ScenarioError(f"{at} must be true or false, got {shown(value)}")
             continue
         if declared.kind is list:
             continue                      # lists are checked where their shape is known
         if declared.kind is int and (isinstance(value, bool) or not isinstance(value, int)):
-            raise ScenarioError(f"{at} must be a whole number, got {value!r}")
+            raise ScenarioError(f"{at} must be a whole number, got {shown(value)}")
         if not is_finite_number(value):
-            raise ScenarioError(f"{at} must be a finite number, got {value!r}")
-        shown = declared.from_si(value) if declared.kind is float else value
-        if declared.minimum is not None and shown < declared.minimum - 1e-9 * max(1.0, abs(declared.minimum)):
-            raise ScenarioError(f"{at} must be at least {declared.minimum:g}, got {shown:g}")
-        if declared.above is not None and not shown > declared.above:
-            raise ScenarioError(f"{at} must be more than {declared.above:g}, got {shown:g}")
-        if declared.maximum is not None and shown > declared.maximum + 1e-9 * max(1.0, abs(declared.maximum)):
-            raise ScenarioError(f"{at} must be at most {declared.maximum:g}, got {shown:g}")
+            raise ScenarioError(f"{at} must be a finite number, got {shown(value)}")
+        in_unit = declared.from_si(value) if declared.kind is float else value
+        if declared.minimum is not None and in_unit < declared.minimum - 1e-9 * max(1.0, abs(declared.minimum)):
+            raise ScenarioError(f"{at} must be at least {declared.minimum:g}, got {in_unit:g}")
+        if declared.above is not None and not in_unit > declared.above:
+            raise ScenarioError(f"{at} must be more than {declared.above:g}, got {in_unit:g}")
+        if declared.maximum is not None and in_unit > declared.maximum + 1e-9 * max(1.0, abs(declared.maximum)):
+            raise ScenarioError(f"{at} must be at most {declared.maximum:g}, got {in_unit:g}")

@@ -15,6 +15,7 @@ from typing import Mapping
 
 import numpy as np
 
+from lapdata.echo import shown
 from lapdata.suggest import did_you_mean
 from lapdata.units import celsius_to_kelvin, kelvin_to_celsius
 from thermo.errors import ScenarioError
@@ -106,7 +107,7 @@ class FluidSpec:
         for name in ("dry_boiling_c", "wet_boiling_c", "water_content_pct"):
             value = getattr(self, name)
             if not np.isfinite(value):
-                raise ScenarioError(f"[fluid] {name} must be a number, got {value!r}")
+                raise ScenarioError(f"[fluid] {name} must be a number, got {shown(value)}")
         if self.water_content_pct < 0 or self.water_content_pct > 10:
             raise ScenarioError(f"[fluid] water_content_pct must be 0 to 10 %, got {self.water_content_pct}")
         if self.wet_boiling_c > self.dry_boiling_c:
@@ -154,19 +155,19 @@ class Limits:
     (materials.toml) with a ``material_caution_band_k`` band.
     """
 
-    bearing_c: float = key("bearing_c", 150.0, minimum=-273.15, doc="wheel-bearing grease")
-    bearing_caution_band_k: float = key("bearing_caution_band_k", 30.0, minimum=0.0)
-    piston_seal_c: float = key("piston_seal_c", 175.0, minimum=-273.15)
-    piston_seal_caution_band_k: float = key("piston_seal_caution_band_k", 25.0, minimum=0.0)
-    caliper_c: float = key("caliper_c", 200.0, minimum=-273.15, doc="caliper body")
-    caliper_caution_band_k: float = key("caliper_caution_band_k", 20.0, minimum=0.0)
-    disc_c: float = key("disc_c", 750.0, minimum=-273.15, doc="read on the disc face")
-    disc_caution_band_k: float = key("disc_caution_band_k", 50.0, minimum=0.0)
-    pad_c: float = key("pad_c", 650.0, minimum=-273.15, doc="read on the pad bulk")
-    pad_caution_band_k: float = key("pad_caution_band_k", 50.0, minimum=0.0)
-    fluid_caution_band_k: float = key("fluid_caution_band_k", 20.0, minimum=0.0)
+    bearing_c: float = key("bearing_c", 150.0, minimum=0.0, doc="wheel-bearing grease", maximum=400.0)
+    bearing_caution_band_k: float = key("bearing_caution_band_k", 30.0, minimum=0.0, maximum=300.0)
+    piston_seal_c: float = key("piston_seal_c", 175.0, minimum=0.0, maximum=400.0)
+    piston_seal_caution_band_k: float = key("piston_seal_caution_band_k", 25.0, minimum=0.0, maximum=300.0)
+    caliper_c: float = key("caliper_c", 200.0, minimum=0.0, doc="caliper body", maximum=700.0)
+    caliper_caution_band_k: float = key("caliper_caution_band_k", 20.0, minimum=0.0, maximum=300.0)
+    disc_c: float = key("disc_c", 750.0, minimum=0.0, doc="read on the disc face", maximum=2500.0)
+    disc_caution_band_k: float = key("disc_caution_band_k", 50.0, minimum=0.0, maximum=300.0)
+    pad_c: float = key("pad_c", 650.0, minimum=0.0, doc="read on the pad bulk", maximum=2500.0)
+    pad_caution_band_k: float = key("pad_caution_band_k", 50.0, minimum=0.0, maximum=300.0)
+    fluid_caution_band_k: float = key("fluid_caution_band_k", 20.0, minimum=0.0, maximum=300.0)
     material_caution_band_k: float = key("material_caution_band_k", 20.0, minimum=0.0,
-                                         doc="band of the checks against a part's material service limit")
+                                         doc="band of the checks against a part's material service limit", maximum=300.0)
 
     def __post_init__(self):
         check_declared(self, "limits")

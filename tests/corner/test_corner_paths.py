@@ -43,7 +43,7 @@ def _coolprop_capacity_rate(duct, speed, surface_k, pressure_pa):
     return duct.mass_flow_kg_s(speed, rho) * cp
 
 
-@pytest.mark.parametrize("multiplier", [1.0, 2.5, 10.0, 1.0e6])
+@pytest.mark.parametrize("multiplier", [1.0, 2.5, 10.0])   # 10: the key's upper bound
 def test_duct_never_removes_more_than_mdot_cp(front, multiplier):
     design = replace(front, airflow=replace(front.airflow, duct_effectiveness_multiplier=multiplier))
     model = build_corner(design, 101300.0, grid=None)
@@ -53,9 +53,7 @@ def test_duct_never_removes_more_than_mdot_cp(front, multiplier):
     # ideal-gas density and Incropera Table A.4 c_p against CoolProp's
     assert np.all(g <= 1.01 * bound)
     assert np.all(g > 0)
-    if multiplier == 1.0e6:
-        # NTU -> infinity: eps -> 1, the duct air leaves at the surface temperature
-        assert g == pytest.approx(bound, rel=0.01)
+    # the NTU -> infinity limit (eps -> 1) is checked on the function itself below
 
 
 def test_effectiveness_is_one_minus_exp_minus_ntu_by_hand():

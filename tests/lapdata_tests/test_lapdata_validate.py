@@ -190,7 +190,15 @@ def test_missing_file(tmp_path):
 
 
 def test_unreadable_path(tmp_path):
-    assert "cannot read the file" in error_of(tmp_path)   # a directory
+    assert "is a folder; expected a lap trace CSV" in error_of(tmp_path)
+
+
+def test_special_files_are_refused_without_reading(tmp_path):
+    import os
+    fifo = tmp_path / "pipe.csv"
+    os.mkfifo(fifo)                        # reading it would block for ever
+    assert "not a regular file" in error_of(fifo)
+    assert "not a regular file" in error_of("/dev/zero")   # reading it would never end
 
 
 def test_not_utf8(tmp_path):

@@ -129,7 +129,7 @@ def test_bad_files_are_rejected_naming_the_key(tmp_path, bad, message):
 
 
 def test_missing_file_is_a_material_error(tmp_path):
-    with pytest.raises(MaterialError, match="cannot read"):
+    with pytest.raises(MaterialError, match="no such materials file"):
         load_materials(tmp_path / "nope.toml")
 
 

@@ -21,6 +21,12 @@ BAD_TRACE_CSV = "time [s],speed [km/h]\n" + "".join(f"{0.05 * i:.2f},{150 - i}\n
     "0.25,145", "0.25,fast")
 
 
+def trace_csv(column: str, value, rows: int = 12) -> str:
+    """A short valid lap trace at 150-ish km/h with one more column, whose row i holds value(i)."""
+    return f"time [s],speed [km/h],{column}\n" + "".join(
+        f"{0.5 * i:.2f},{150 - i},{value(i)!r}\n" for i in range(rows))
+
+
 @dataclass(frozen=True)
 class Case:
     id: str
@@ -105,6 +111,86 @@ CASES = (
          extra={"bad_lap.csv": BAD_TRACE_CSV}),
     Case("fuel_runs_out", ("the fuel runs out on lap 2", "fuel_kg"), after_load=True,
          overrides=(("car.fuel_kg", 3.0),)),
+    # issue 13, class 1: the TOML parser's own limits
+    Case("toml_nested_too_deep", ("not valid TOML", "nested too deep"),
+         edits=(("[scenario]", "x = " + "[" * 600 + "]" * 600 + "\n[scenario]"),)),
+    Case("toml_integer_literal_too_long", ("not valid TOML", "thousands of digits"),
+         edits=(("mass_kg = 1030", "mass_kg = " + "9" * 5000),)),
+    Case("toml_integer_beyond_64_bits", ("car.mass_kg", "64-bit range TOML allows"),   # TOML 1.0, "Integer"
+         edits=(("mass_kg = 1030", "mass_kg = " + "9" * 400),)),
+    # class 2: wrong types and text that would break a message
+    Case("phase_type_not_text", ("[plan.phases #1]", "unknown phase type ['laps']"),
+         edits=(('type = "laps"\ncount = 3', 'type = ["laps"]\ncount = 3'),)),
+    Case("boiling_table_not_pairs", ("[fluid]", "boiling_table_pct_c must be a list of [water %, degC] pairs"),
+         edits=(("wet_boiling_c = 204", "wet_boiling_c = 204\nboiling_table_pct_c = [1, 2]"),)),
+    Case("material_with_a_newline", ("[corners.front.disc] material", "'grey\\ncast'", "control characters"),
+         overrides=(("corners.front.disc.material", "grey\ncast"),)),
+    Case("name_with_escape_sequences", ("[scenario] name", "control characters"),
+         edits=(('name = "small test scenario"', 'name = "a\\u001b[31mred\\rb\\u0000"'),)),
+    # class 3: upper bounds
+    Case("caliper_area_astronomical", ("[corners.front.caliper] area_m2", "at most 2"),
+         overrides=(("corners.front.caliper.area_m2", 1e300),)),
+    Case("soak_of_thirty_thousand_years", ("[plan.phases #5] duration_s", "at most 172800"),
+         edits=(("duration_s = 300", "duration_s = 1e12"),)),
+    Case("a_billion_laps", ("[plan.phases #1] count", "at most 2000"),
+         overrides=(("plan.phases.1.count", 1_000_000_000),)),
+    Case("plan_longer_than_two_days", ("[plan] simulates more than 48 h",), after_load=True,
+         overrides=(("plan.phases.1.count", 2000), ("plan.phases.1.pace", 0.05), ("car.fuel_consumption_kg_per_lap", 0.0))),
+    Case("track_segment_of_1e308_m", ("short_circuit.toml", "length_m", "at most 30000"), error="LapDataError",
+         after_load=True, extra={"short_circuit.toml": TRACK.read_text(encoding="utf-8").replace(
+             "length_m = 700.0", "length_m = 1e308", 1)}),
+    Case("track_radius_of_a_picometre", ("short_circuit.toml", "radius_m", "expected 5 to"), error="LapDataError",
+         after_load=True, extra={"short_circuit.toml": TRACK.read_text(encoding="utf-8").replace(
+             "radius_m = 60.0", "radius_m = 1e-12", 1)}),
+    Case("track_minimum_speed_near_zero", ("short_circuit.toml", "min_speed_kmh", "expected 5 to"),
+         error="LapDataError", after_load=True, extra={"short_circuit.toml": TRACK.read_text(encoding="utf-8").replace(
+             "min_speed_kmh = 80.0", "min_speed_kmh = 1e-300", 1)}),
+    Case("track_segment_name_with_a_newline", ("short_circuit.toml", "'Long\\nsweep'", "plain text"),
+         error="LapDataError", after_load=True, extra={"short_circuit.toml": TRACK.read_text(encoding="utf-8").replace(
+             "radius_m = 60.0", 'radius_m = 60.0\nname = "Long\\nsweep"', 1)}),
+    Case("trace_pressure_minus_50_bar", ("crawl.csv", "pressure_front [bar]", "-50", "plausible range"),
+         error="LapDataError", after_load=True,
+         overrides=(("plan.lap_source", "trace"), ("plan.trace", "crawl.csv")),
+         extra={"crawl.csv": trace_csv("pressure_front [bar]", lambda i: -50.0 if i == 7 else 0.0)}),
+    Case("trace_temperature_1e308", ("crawl.csv", "temp_disc [degC]", "plausible range"),
+         error="LapDataError", after_load=True,
+         overrides=(("plan.lap_source", "trace"), ("plan.trace", "crawl.csv")),
+         extra={"crawl.csv": trace_csv("temp_disc [degC]", lambda i: 1e308 if i == 7 else 300.0)}),
+    Case("trace_acceleration_100_g", ("crawl.csv", "accel_long [g]", "plausible range"),
+         error="LapDataError", after_load=True,
+         overrides=(("plan.lap_source", "trace"), ("plan.trace", "crawl.csv")),
+         extra={"crawl.csv": trace_csv("accel_long [g]", lambda i: -100.0 if i == 7 else 0.0)}),
+    Case("trace_distance_jumps_to_1e308_m", ("crawl.csv", "distance [m]", "jumps"),
+         error="LapDataError", after_load=True,
+         overrides=(("plan.lap_source", "trace"), ("plan.trace", "crawl.csv")),
+         extra={"crawl.csv": trace_csv("distance [m]", lambda i: 2.0 * i if i < 7 else 1e308)}),
+    Case("trace_5_km_crawled_at_a_metre_an_hour", ("crawl.csv", "lasts", "expected at most 48 h"),
+         error="LapDataError", after_load=True,
+         overrides=(("plan.lap_source", "trace"), ("plan.trace", "crawl.csv")),
+         extra={"crawl.csv": "distance [m],speed [km/h]\n" + "".join(f"{500.0 * i:.1f},0.001\n" for i in range(11))}),
+    Case("trace_that_is_not_a_csv", ("secrets.csv", "column '#1'", "is this a lap-trace CSV?"),
+         error="LapDataError", after_load=True,
+         overrides=(("plan.lap_source", "trace"), ("plan.trace", "secrets.csv")),
+         extra={"secrets.csv": "root:x:0:0:private line:/root:/bin/sh\nsecond line\n"}),
+    # class 4: impossible values and geometry that does not fit together
+    Case("bearing_limit_below_zero_degc", ("[limits] bearing_c", "at least 0"),
+         overrides=(("limits.bearing_c", -300.0),)),
+    Case("crown_thicker_than_the_piston", ("[corners.front.piston]", "must be less than height_mm"),
+         overrides=(("corners.front.piston.crown_thickness_mm", 40.0),)),
+    Case("piston_wider_than_the_swept_ring", ("[corners.front.piston]", "does not fit on the", "swept ring"),
+         overrides=(("corners.front.piston.diameters_mm", [100.0]),)),
+    Case("pistons_larger_than_the_pad", ("[corners.front.piston]", "must fit on the pad"),
+         overrides=(("corners.front.pad.area_mm2", 1000.0),)),
+    Case("fuel_more_than_the_tank", ("[car] fuel_kg = 500", "does not fit in fuel_capacity_kg = 75"),
+         overrides=(("car.fuel_kg", 500.0),)),
+    Case("rolling_radius_of_1_mm", ("[car] rolling_radius_front_mm", "at least 100"),
+         overrides=(("car.rolling_radius_front_mm", 1.0),)),
+    Case("disc_larger_than_the_wheel", ("[corners.front.disc] outer_diameter_mm = 380", "does not fit inside a wheel"),
+         overrides=(("car.rolling_radius_front_mm", 150.0),)),
+    Case("backing_plate_a_kilometre_thick", ("[corners.front.pad] backing_thickness_mm", "at most 20"),
+         overrides=(("corners.front.pad.backing_thickness_mm", 1e9),)),
+    Case("car_of_1e300_kg", ("[car] mass_kg", "at most 5000"),
+         overrides=(("car.mass_kg", 1e300),)),
 )
 
 

@@ -26,7 +26,7 @@ def test_every_declared_key_is_listed_once():
     for table in [*S.SECTIONS.values(), *S.CORNER_SECTIONS.values(), S.DUCT, S.CORNER]:
         assert any(t is table for t in tables.values())
     markdown = keys_table.markdown()
-    assert "| `outer_diameter_mm` | required | > 0 | the swept ring |" in markdown
+    assert "| `outer_diameter_mm` | required | > 0, <= 600 | the swept ring |" in markdown
     assert "| `layers` | 0 | whole number, >= 0, <= 12 |" in markdown
 
 

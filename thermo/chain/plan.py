@@ -68,6 +68,20 @@ def _zero_based(trace: LapTrace) -> LapTrace:
     return replace(trace, time_s=trace.time_s - trace.time_s[0], distance_m=trace.distance_m - trace.distance_m[0])
 
 
+MAX_PLAN_S = 48 * 3600.0          # the longest plan: a 24-hour race twice over, soak included
+MAX_PLAN_SAMPLES = 20_000_000     # input samples of the whole plan (a 24-hour race at 20 Hz is ~1.7 million)
+
+
+def _check_plan_size(scenario: Scenario, phase, t_s: float, samples: int) -> None:
+    """A plan too long to simulate is an input error, found before any memory is taken for it."""
+    if t_s > MAX_PLAN_S:
+        raise ScenarioError(f"{scenario.path}: [plan] simulates more than {MAX_PLAN_S / 3600:g} h by phase "
+                            f"'{phase.name}' ({t_s / 3600:.1f} h so far); check the lap counts and durations")
+    if samples > MAX_PLAN_SAMPLES:
+        raise ScenarioError(f"{scenario.path}: [plan] needs more than {MAX_PLAN_SAMPLES:,} samples by phase "
+                            f"'{phase.name}'; lower sample_hz or the lap counts")
+
+
 def expand_plan(scenario: Scenario, lap: LapTrace | None = None) -> tuple[PlanSegment, ...]:
     """Segments of the whole plan, in order, with the fuel on board in each.
 
@@ -81,7 +95,7 @@ def expand_plan(scenario: Scenario, lap: LapTrace | None = None) -> tuple[PlanSe
                             "lane; set pit_lane_length_m = 0 for those phases")
     cache: dict[tuple, LapTrace] = {}
     own_laps: dict = {}
-    segments, t, fuel, lap_no = [], 0.0, scenario.vehicle.fuel_kg, 0
+    segments, t, fuel, lap_no, samples = [], 0.0, scenario.vehicle.fuel_kg, 0, 0
     for p_index, phase in enumerate(scenario.plan.phases):
         if phase.driving:
             key = (phase.kind, phase.pace, phase.pit_lane_length_m, phase.pit_lane_speed_m_s, phase.trace)
@@ -97,6 +111,8 @@ def expand_plan(scenario: Scenario, lap: LapTrace | None = None) -> tuple[PlanSe
                 lap_no += 1
                 segments.append(PlanSegment(phase, p_index, lap_no, t, trace, fuel))
                 t += trace.duration_s
+                samples += trace.time_s.size
+                _check_plan_size(scenario, phase, t, samples)
                 fuel -= scenario.fuel_consumption_kg_per_lap * phase.pace
                 if fuel < -1e-9:
                     raise ScenarioError(f"{scenario.path}: the fuel runs out on lap {lap_no} ({phase.name}); "
@@ -109,4 +125,6 @@ def expand_plan(scenario: Scenario, lap: LapTrace | None = None) -> tuple[PlanSe
                 fuel = min(fuel + phase.refuel_kg, scenario.fuel_capacity_kg)
             segments.append(PlanSegment(phase, p_index, 0, t, trace, fuel))
             t += trace.duration_s
+            samples += trace.time_s.size
+            _check_plan_size(scenario, phase, t, samples)
     return tuple(segments)

@@ -7,6 +7,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 
 import thermo
+from thermo.chain.guards import WallClock, check_state_range
 from thermo.chain.plan import PlanSegment, expand_plan
 from thermo.chain.validity import check_validity
 from thermo.corner.build import (
@@ -100,11 +101,14 @@ def _wear_factor(scenario: Scenario, pad_k: float) -> float:
 
 
 def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_segment, settings: SolverSettings,
-                 progress=None, output_hz: float | None = None) -> CornerResult:
+                 progress=None, output_hz: float | None = None, clock: WallClock | None = None) -> CornerResult:
     """Solve one corner across all segments, carrying its state, with pad wear and pad changes.
 
     ``output_hz``: rate of the stored series (None: the scenario's ``[solver] output_hz``; 0: every row).
+    ``clock``: the run's time budget (None: a new one of ``[solver] wall_clock_limit_s``). Every node
+    is checked against the model's physical range after each segment (``thermo.chain.guards``).
     """
+    clock = WallClock(scenario.solver.wall_clock_limit_s) if clock is None else clock
     grid = conductance_grid(scenario)
     rate = scenario.solver.output_hz if output_hz is None else output_hz
     pad_layer_count = len(pad_layers(design))     # kept as the pad wears, so the state maps node for node
@@ -141,12 +145,14 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
             removed += sum(old) - sum(new)
             warned.clear()
         schedule = _schedule(scenario, design, segment, duty)
+        phase_name = segment.phase.name + (f" lap {segment.lap_index}" if segment.lap_index else "")
         with warnings.catch_warnings():
             warnings.simplefilter("ignore")
-            sol = solve_network(compiled, schedule, T, settings, phase=f"corner {design.name}, {segment.phase.name}"
-                                + (f" lap {segment.lap_index}" if segment.lap_index else ""))
+            sol = solve_network(compiled, schedule, T, settings, phase=f"corner {design.name}, {phase_name}")
         if sol.status != "success":
             raise SolveError(f"corner {design.name}, {segment.phase.name}: {sol.status}")
+        check_state_range(design.name, phase_name, names, sol.time_s, sol.temperatures_k)
+        clock.check(f"corner {design.name}, {phase_name}")
         skip = 1 if times else 0
         out = model.outputs(sol.temperatures_k)
         keep = stored_rows(sol.time_s, out, rate)[skip:]
@@ -326,7 +332,8 @@ def run_scenario(scenario: Scenario, *, progress=None, segments=None) -> Results
     brakes = corner_brakes(scenario)
     duties = [corner_duties(scenario, seg, brakes) for seg in segments]
     settings = scenario.solver.settings()
-    corners = tuple(solve_corner(scenario, d, segments, duties, settings, progress) for d in scenario.corners)
+    clock = WallClock(scenario.solver.wall_clock_limit_s)
+    corners = tuple(solve_corner(scenario, d, segments, duties, settings, progress, clock=clock) for d in scenario.corners)
     run_warnings = tuple(w for c in corners for w in c.extras.get("warnings", []))
     return Results(
         scenario_name=scenario.name, scenario_text=scenario.text, version=thermo.__version__,

@@ -26,6 +26,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from thermo.chain.guards import check_state_range
 from thermo.chain.plan import expand_plan
 from thermo.chain.run import _schedule, conductance_grid, corner_brakes, corner_duties
 from thermo.corner.build import build_corner
@@ -133,7 +134,10 @@ def settled_lap(scenario, corner_name=None, *, phase_name=None, tolerance_k=0.01
     T_start = np.full(n, float(scenario.ambient.temperature_at(segment.t_start_s)))
 
     def lap(T):
-        return solve_network(net, schedule, T, settings, phase=f"settle {design.name}")
+        sol = solve_network(net, schedule, T, settings, phase=f"settle {design.name}")
+        check_state_range(design.name, f"settled lap of {segment.phase.name}", net.node_names, sol.time_s,
+                          sol.temperatures_k)
+        return sol
 
     # chord matrix and trajectory sensitivities from one batched run of n + 1 laps, on the graded grid
     # in the kernel's linearised mode (only the chord matrix, a start guess and the lap count come

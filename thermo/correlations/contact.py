@@ -9,6 +9,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from lapdata.echo import shown
 from lapdata.suggest import did_you_mean
 from thermo.correlations.validity import correlation
 from thermo.errors import CorrelationError
@@ -19,7 +20,7 @@ def _positive(name: str, quantity: str, value, allow_zero: bool = False) -> np.n
     bad = ~np.isfinite(arr) | ((arr < 0.0) if allow_zero else (arr <= 0.0))
     if np.any(bad):
         expected = ">= 0" if allow_zero else "> 0"
-        raise CorrelationError(f"{name}: {quantity} must be a finite number {expected}, got {value!r}")
+        raise CorrelationError(f"{name}: {quantity} must be a finite number {expected}, got {shown(value)}")
     return arr
 
 

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from lapdata.echo import shown
 from thermo.correlations.validity import correlation
 from thermo.errors import CorrelationError
 
@@ -15,7 +16,7 @@ from thermo.errors import CorrelationError
 def _positive(name, value):
     array = np.asarray(value, dtype=float)
     if not np.all(np.isfinite(array)) or np.any(array <= 0.0):
-        raise CorrelationError(f"{name} must be positive and finite, got {value!r}")
+        raise CorrelationError(f"{name} must be positive and finite, got {shown(value)}")
     return array
 
 
@@ -142,7 +143,7 @@ def heat_partition_area_weighted(e_disc, e_pad, area_disc_m2, area_pad_m2):
     a_p = _positive("area_pad_m2", area_pad_m2)
     if np.any(a_p > a_d):
         raise CorrelationError(
-            f"area_pad_m2 ({area_pad_m2!r}) must not exceed area_disc_m2 ({area_disc_m2!r}): "
+            f"area_pad_m2 ({shown(area_pad_m2)}) must not exceed area_disc_m2 ({shown(area_disc_m2)}): "
             "a pad cannot cover more than the ring it sweeps"
         )
     return _scalar_or_array(1.0 / (1.0 + (a_p / a_d) * (e_p / e_d)))

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from lapdata.echo import shown
 from lapdata.units import STEFAN_BOLTZMANN
 from thermo.correlations.validity import correlation
 from thermo.errors import CorrelationError
@@ -19,7 +20,7 @@ def _require(name: str, quantity: str, value, low: float, high: float, low_open:
     bad = ~np.isfinite(arr) | (arr > high) | ((arr <= low) if low_open else (arr < low))
     if np.any(bad):
         bracket = "(" if low_open else "["
-        raise CorrelationError(f"{name}: {quantity} must lie in {bracket}{low:g}, {high:g}], got {value!r}")
+        raise CorrelationError(f"{name}: {quantity} must lie in {bracket}{low:g}, {high:g}], got {shown(value)}")
 
 
 @correlation()

@@ -29,6 +29,7 @@ from typing import Callable
 
 import numpy as np
 
+from lapdata.echo import shown
 from thermo.errors import CorrelationError
 
 POLICIES = ("warn", "raise", "ignore")
@@ -80,7 +81,7 @@ def set_validity_policy(policy: str) -> _PolicyToken:
     Returns a token that, used in a ``with`` block, restores the previous policy on exit.
     """
     if policy not in POLICIES:
-        raise CorrelationError(f"validity policy: expected one of {', '.join(POLICIES)}, got {policy!r}")
+        raise CorrelationError(f"validity policy: expected one of {', '.join(POLICIES)}, got {shown(policy)}")
     previous = _policy.get()
     _policy.set(policy)
     return _PolicyToken(previous)

@@ -6,6 +6,7 @@ from typing import Sequence
 
 import numpy as np
 
+from lapdata.echo import shown
 from lapdata.errors import LapDataError
 from lapdata.suggest import did_you_mean
 from lapdata.trace import LapTrace
@@ -50,12 +51,12 @@ class CornerBrake:
 
     def __post_init__(self):
         if not isinstance(self.name, str) or not self.name:
-            raise ScenarioError(f"CornerBrake.name must be a non-empty string, got {self.name!r}")
-        owner = f"CornerBrake {self.name!r}"
+            raise ScenarioError(f"CornerBrake.name must be a non-empty string, got {shown(self.name)}")
+        owner = f"CornerBrake {shown(self.name)}"
         if self.axle not in AXLES:
-            raise ScenarioError(f"{owner}: axle must be 'front' or 'rear', got {self.axle!r}")
+            raise ScenarioError(f"{owner}: axle must be 'front' or 'rear', got {shown(self.axle)}")
         if self.side not in SIDES:
-            raise ScenarioError(f"{owner}: side must be 'left' or 'right', got {self.side!r}")
+            raise ScenarioError(f"{owner}: side must be 'left' or 'right', got {shown(self.side)}")
         check_number(owner, "partition", self.partition, minimum=0.0, maximum=1.0)
         check_number(owner, "rolling_radius_m", self.rolling_radius_m, positive=True)
         try:
@@ -94,7 +95,7 @@ class CornerDuty:
         t = check_time(self.time_s)
         object.__setattr__(self, "time_s", _frozen(t))
         for key in ("disc_heat_w", "pad_heat_w", "wheel_speed_rad_s", "vehicle_speed_mps"):
-            array = check_channel(f"CornerDuty {self.name!r} {key}", getattr(self, key), t.size,
+            array = check_channel(f"CornerDuty {shown(self.name)} {key}", getattr(self, key), t.size,
                                   nonnegative=True)
             object.__setattr__(self, key, _frozen(array))
 
@@ -116,7 +117,7 @@ def _check_corners(corners: Sequence[CornerBrake], vehicle: VehicleParameters):
         if not isinstance(corner, CornerBrake):
             raise ScenarioError(f"corners: expected CornerBrake objects, got {type(corner).__name__}")
         if corner.name in names:
-            raise ScenarioError(f"corners: the name {corner.name!r} is used twice")
+            raise ScenarioError(f"corners: the name {shown(corner.name)} is used twice")
         if (corner.axle, corner.side) in places:
             raise ScenarioError(f"corners: two corners at {corner.axle} {corner.side}")
         names.add(corner.name)
@@ -124,7 +125,7 @@ def _check_corners(corners: Sequence[CornerBrake], vehicle: VehicleParameters):
         axle_radius = vehicle.rolling_radius_m(corner.axle)
         if abs(corner.rolling_radius_m - axle_radius) > _RADIUS_TOLERANCE * axle_radius:
             raise ScenarioError(
-                f"CornerBrake {corner.name!r}: rolling_radius_m {corner.rolling_radius_m} differs from "
+                f"CornerBrake {shown(corner.name)}: rolling_radius_m {corner.rolling_radius_m} differs from "
                 f"VehicleParameters.rolling_radius_{corner.axle}_m {axle_radius}")
     if not names:
         raise ScenarioError("corners: expected at least one CornerBrake")
@@ -140,7 +141,7 @@ def _energy_duties(t, v, vehicle, bias, corners, options):
         if options[key] is not None:
             raise ScenarioError(f"{key} is used only by method='pressure', not by method='energy'")
     if not isinstance(bias, (FixedBias, HydraulicBias)):
-        raise ScenarioError(f"bias: method='energy' needs a FixedBias or HydraulicBias, got {bias!r}")
+        raise ScenarioError(f"bias: method='energy' needs a FixedBias or HydraulicBias, got {shown(bias)}")
     window = options["smoothing_window_s"]
     power = braking_power_energy_method(
         t, v, vehicle, grade_rad=options["grade_rad"], accel_mps2=options["accel_mps2"],
@@ -169,7 +170,7 @@ def _pressure_duties(t, v, vehicle, bias, corners, options):
     for corner in corners:
         key = f"pressure_{corner.axle}_pa"
         if options[key] is None:
-            raise ScenarioError(f"{key}: method='pressure' needs it for corner {corner.name!r}")
+            raise ScenarioError(f"{key}: method='pressure' needs it for corner {shown(corner.name)}")
         pressure = check_channel(key, options[key], t.size)
         power = braking_power_pressure_method(pressure, v, corner.caliper, corner.rolling_radius_m)
         duties[corner.name] = _duty(corner, t, v, power)
@@ -218,7 +219,7 @@ def corner_heat_inputs(time_s, speed_mps, vehicle: VehicleParameters, bias,
     """
     if method not in METHODS:
         hint = did_you_mean(method, METHODS)
-        raise ScenarioError(f"method: unknown {method!r}, expected one of {sorted(METHODS)}{hint}")
+        raise ScenarioError(f"method: unknown {shown(method)}, expected one of {sorted(METHODS)}{hint}")
     if not isinstance(vehicle, VehicleParameters):
         raise ScenarioError(f"vehicle: expected VehicleParameters, got {type(vehicle).__name__}")
     t = check_time(time_s)

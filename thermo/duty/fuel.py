@@ -3,6 +3,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from lapdata.echo import shown
 from thermo.duty.power import DEFAULT_SMOOTHING_WINDOW_S, brake_energy_per_interval
 from thermo.duty.vehicle import VehicleParameters, check_number
 from thermo.errors import ScenarioError
@@ -30,7 +31,7 @@ def fuel_mass_by_lap(fuel_start_kg: float, consumption_kg_per_lap: float, n_laps
     check_number("fuel_mass_by_lap", "fuel_start_kg", fuel_start_kg, minimum=0.0)
     check_number("fuel_mass_by_lap", "consumption_kg_per_lap", consumption_kg_per_lap, minimum=0.0)
     if isinstance(n_laps, bool) or not isinstance(n_laps, (int, np.integer)) or n_laps < 1:
-        raise ScenarioError(f"fuel_mass_by_lap.n_laps must be a whole number >= 1, got {n_laps!r}")
+        raise ScenarioError(f"fuel_mass_by_lap.n_laps must be a whole number >= 1, got {shown(n_laps)}")
     at_end = fuel_start_kg - consumption_kg_per_lap * np.arange(1, n_laps + 1)
     short = at_end < -_ROUNDING_KG
     if np.any(short):

@@ -13,6 +13,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from lapdata.echo import shown
 from lapdata.errors import LapDataError
 from lapdata.signal import smoothed_acceleration, smoothed_channel
 from lapdata.units import STANDARD_GRAVITY
@@ -37,7 +38,7 @@ def check_channel(name: str, values, n_samples: int | None = None, *, nonnegativ
     if np.any(bad):
         row = int(np.argmax(bad))
         kind = "a finite value >= 0" if nonnegative else "a finite value"
-        raise LapDataError(f"{name}: row {row} is {array[row]!r}, expected {kind}")
+        raise LapDataError(f"{name}: row {row} is {shown(array[row])}, expected {kind}")
     return array
 
 
@@ -49,7 +50,7 @@ def check_time(time_s):
     steps = np.diff(t)
     if np.any(steps <= 0):
         row = int(np.argmax(steps <= 0)) + 1
-        raise LapDataError(f"time_s: row {row} ({t[row]!r}) does not increase on the row before")
+        raise LapDataError(f"time_s: row {row} ({shown(t[row])}) does not increase on the row before")
     return t
 
 

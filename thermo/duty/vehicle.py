@@ -6,6 +6,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
+from lapdata.echo import shown
 from lapdata.units import STANDARD_GRAVITY
 from thermo.errors import ScenarioError
 
@@ -13,15 +14,15 @@ from thermo.errors import ScenarioError
 def check_number(owner: str, name: str, value, *, minimum=None, positive=False, maximum=None):
     """Raise ScenarioError naming ``owner.name`` unless value is a finite number in range."""
     if isinstance(value, bool) or not isinstance(value, (int, float, np.floating, np.integer)):
-        raise ScenarioError(f"{owner}.{name} must be a number, got {value!r}")
+        raise ScenarioError(f"{owner}.{name} must be a number, got {shown(value)}")
     if not math.isfinite(value):
-        raise ScenarioError(f"{owner}.{name} must be finite, got {value!r}")
+        raise ScenarioError(f"{owner}.{name} must be finite, got {shown(value)}")
     if positive and value <= 0:
-        raise ScenarioError(f"{owner}.{name} must be positive, got {value!r}")
+        raise ScenarioError(f"{owner}.{name} must be positive, got {shown(value)}")
     if minimum is not None and value < minimum:
-        raise ScenarioError(f"{owner}.{name} must be at least {minimum}, got {value!r}")
+        raise ScenarioError(f"{owner}.{name} must be at least {minimum}, got {shown(value)}")
     if maximum is not None and value > maximum:
-        raise ScenarioError(f"{owner}.{name} must be at most {maximum}, got {value!r}")
+        raise ScenarioError(f"{owner}.{name} must be at most {maximum}, got {shown(value)}")
 
 
 @dataclass(frozen=True, kw_only=True)
@@ -91,7 +92,7 @@ class VehicleParameters:
             return self.rolling_radius_front_m
         if axle == "rear":
             return self.rolling_radius_rear_m
-        raise ScenarioError(f"axle must be 'front' or 'rear', got {axle!r}")
+        raise ScenarioError(f"axle must be 'front' or 'rear', got {shown(axle)}")
 
 
 

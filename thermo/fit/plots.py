@@ -8,7 +8,7 @@ from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
 
 from lapdata.units import kelvin_to_celsius
-from thermo.output.atomic import atomic_write
+from thermo.output.plots import save_png
 
 DPI = 110
 
@@ -34,9 +34,7 @@ def plot_channel(series, path: Path) -> Path:
     top.legend(loc="best")
     bottom.set_ylabel("residual [K]")
     bottom.set_xlabel("time [s]")
-    with atomic_write(path, "wb") as handle:
-        figure.savefig(handle, format="png", dpi=DPI)
-    return path
+    return save_png(figure, path)
 
 
 def plot_fit(result, out_dir: Path) -> list[Path]:

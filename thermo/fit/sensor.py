@@ -3,6 +3,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from lapdata.echo import shown
+
 
 def first_order_lag(time_s, signal, time_constant_s):
     """Response of a first-order lag tau dy/dt = u - y to a piecewise-linear input, starting at y = u(0).
@@ -31,7 +33,7 @@ def first_order_lag(time_s, signal, time_constant_s):
     t = np.asarray(time_s, dtype=float)
     u = np.asarray(signal, dtype=float)
     if time_constant_s < 0:
-        raise ValueError(f"first_order_lag: time constant must be >= 0 s, got {time_constant_s!r}")
+        raise ValueError(f"first_order_lag: time constant must be >= 0 s, got {shown(time_constant_s)}")
     if time_constant_s == 0 or u.size < 2:
         return u.copy()
     h = np.diff(t)

@@ -43,7 +43,6 @@ from __future__ import annotations
 import functools
 import importlib.resources
 import math
-import tomllib
 from dataclasses import dataclass, field
 from pathlib import Path
 from types import MappingProxyType
@@ -51,6 +50,8 @@ from typing import Mapping
 
 import numpy as np
 
+from lapdata.echo import shown
+from lapdata.files import parse_toml, read_toml_file
 from lapdata.suggest import did_you_mean
 from lapdata.units import KELVIN_AT_0C
 from thermo.errors import MaterialError
@@ -109,7 +110,7 @@ class Material:
     def __post_init__(self):
         where = f"material '{self.name}'"
         if not (math.isfinite(self.density_kg_m3) and self.density_kg_m3 > 0):
-            raise MaterialError(f"{where}: density_kg_m3 must be > 0, got {self.density_kg_m3!r}")
+            raise MaterialError(f"{where}: density_kg_m3 must be > 0, got {shown(self.density_kg_m3)}")
         for key, table, upper in (("specific_heat", self.specific_heat_table, math.inf),
                                   ("conductivity", self.conductivity_table, math.inf),
                                   ("conductivity_in_plane", self.conductivity_in_plane_table, math.inf),
@@ -117,19 +118,19 @@ class Material:
             if table is not None:
                 _check_table(where, key, table, upper)
         if self.emissivity is not None and not (0.0 < self.emissivity <= 1.0):
-            raise MaterialError(f"{where}: emissivity must lie in (0, 1], got {self.emissivity!r}")
+            raise MaterialError(f"{where}: emissivity must lie in (0, 1], got {shown(self.emissivity)}")
         if self.emissivity_range is not None:
             low, high = self.emissivity_range
             if not (0.0 < low <= high <= 1.0):
                 raise MaterialError(f"{where}: emissivity range must satisfy 0 < low <= high <= 1, "
-                                    f"got {self.emissivity_range!r}")
+                                    f"got {shown(self.emissivity_range)}")
         present = {"density", "specific_heat", "conductivity"}
         present |= {"emissivity"} if self.emissivity is not None else set()
         present |= {"conductivity_in_plane"} if self.conductivity_in_plane_table is not None else set()
         if self.service_limit_k is not None:
             if not (math.isfinite(self.service_limit_k) and self.service_limit_k > 0):
                 raise MaterialError(f"{where}: service limit must be a temperature above absolute zero, "
-                                    f"got {self.service_limit_k!r} K")
+                                    f"got {shown(self.service_limit_k)} K")
             present.add("service_limit")
         for key in sorted(present):
             if not str(self.sources.get(key, "")).strip():
@@ -210,7 +211,7 @@ def _table(where: str, section: dict, value_key: str) -> Table:
 
 def _number(where: str, value) -> float:
     if isinstance(value, bool) or not isinstance(value, (int, float)):
-        raise MaterialError(f"{where}: expected a number, got {value!r}")
+        raise MaterialError(f"{where}: expected a number, got {shown(value)}")
     return float(value)
 
 
@@ -293,14 +294,9 @@ def load_materials(path: str | Path | None = None) -> dict[str, Material]:
         text = importlib.resources.files("thermo.materials").joinpath(PACKAGED_FILE).read_text(encoding="utf-8")
     else:
         origin = str(path)
-        try:
-            text = Path(path).read_text(encoding="utf-8")
-        except OSError as exc:
-            raise MaterialError(f"{origin}: cannot read the materials file ({exc.strerror})") from None
-    try:
-        data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        raise MaterialError(f"{origin}: not valid TOML ({exc})") from None
+        data, _ = read_toml_file(path, "materials file", MaterialError)
+    if path is None:
+        data = parse_toml(text, origin, MaterialError)
     if not data:
         raise MaterialError(f"{origin}: holds no materials")
     return {name: material_from_dict(name, table, origin) for name, table in data.items()}

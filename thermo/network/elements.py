@@ -10,6 +10,7 @@ from typing import Callable, Union
 
 import numpy as np
 
+from lapdata.echo import shown
 from thermo.errors import ModelError
 
 REFERENCE_TEMPERATURE_K = 293.15  # enthalpy is counted from 20 degC
@@ -34,7 +35,7 @@ class HeatCapacity:
         t = np.asarray(self.temperatures_k, dtype=float)
         c = np.asarray(self.specific_heat_j_kgk, dtype=float)
         if not (np.isfinite(self.mass_kg) and self.mass_kg > 0):
-            raise ModelError(f"heat capacity: mass_kg must be a positive number, got {self.mass_kg!r}")
+            raise ModelError(f"heat capacity: mass_kg must be a positive number, got {shown(self.mass_kg)}")
         if t.ndim != 1 or t.size < 1 or t.size != c.size:
             raise ModelError("heat capacity: temperatures_k and specific_heat_j_kgk must be equal-length lists")
         if t.size > 1 and np.any(np.diff(t) <= 0):
@@ -200,9 +201,9 @@ class Network:
             if link.a not in node_names:
                 raise ModelError(f"network: link '{link.name}' must start at a node, not boundary '{link.a}'")
             if isinstance(link, (Conduction,)) and not (np.isfinite(link.conductance_w_k) and link.conductance_w_k >= 0):
-                raise ModelError(f"network: link '{link.name}' needs a conductance >= 0 W/K, got {link.conductance_w_k!r}")
+                raise ModelError(f"network: link '{link.name}' needs a conductance >= 0 W/K, got {shown(link.conductance_w_k)}")
             if isinstance(link, Convection) and not (np.isfinite(link.scale) and link.scale >= 0):
-                raise ModelError(f"network: link '{link.name}' needs a scale >= 0, got {link.scale!r}")
+                raise ModelError(f"network: link '{link.name}' needs a scale >= 0, got {shown(link.scale)}")
             if isinstance(link, Radiation) and not (np.isfinite(link.coefficient_w_k4) and link.coefficient_w_k4 >= 0):
                 raise ModelError(f"network: link '{link.name}' needs a coefficient >= 0 W/K^4")
         for source in self.sources:

@@ -10,6 +10,7 @@ from typing import Mapping
 
 import numpy as np
 
+from lapdata.echo import shown
 from lapdata.suggest import did_you_mean
 from thermo.errors import ModelError
 
@@ -40,11 +41,11 @@ class Schedule:
         steps = np.diff(t)
         if np.any(steps <= 0):
             i = int(np.argmax(steps <= 0)) + 1
-            raise ModelError(f"schedule: time_s must be strictly increasing, sample {i} is at {t[i]!r} s after {t[i - 1]!r} s")
+            raise ModelError(f"schedule: time_s must be strictly increasing, sample {i} is at {shown(t[i])} s after {shown(t[i - 1])} s")
         values = {}
         for name, series in dict(self.signals).items():
             if not isinstance(name, str) or not name:
-                raise ModelError(f"schedule: signal names must be non-empty strings, got {name!r}")
+                raise ModelError(f"schedule: signal names must be non-empty strings, got {shown(name)}")
             v = np.array(series, dtype=float)
             if v.shape != t.shape:
                 raise ModelError(f"schedule: signal '{name}' has shape {v.shape}, expected {t.shape} like time_s")

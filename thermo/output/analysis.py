@@ -9,6 +9,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from lapdata.echo import shown
 from thermo.output.errors import OutputError
 from thermo.results import CheckResult, CornerResult, LapSpan, Results
 
@@ -130,7 +131,7 @@ def outward_links(corner: CornerResult) -> list[bool]:
         flags = list(np.asarray(corner.extras[LINK_TO_BOUNDARY_KEY]).ravel())
         if len(flags) != n or not all(isinstance(f, (bool, np.bool_)) for f in flags):
             raise OutputError(f"corner {corner.name} extras '{LINK_TO_BOUNDARY_KEY}': expected {n} true/false "
-                              f"values, one per link, got {corner.extras[LINK_TO_BOUNDARY_KEY]!r}")
+                              f"values, one per link, got {shown(corner.extras[LINK_TO_BOUNDARY_KEY])}")
         return [bool(f) for f in flags]
     return [bool(g) and not g.startswith(INTERNAL_GROUP_PREFIX) for g in corner.link_groups]
 

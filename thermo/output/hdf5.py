@@ -27,6 +27,7 @@ import math
 import h5py
 import numpy as np
 
+from lapdata.echo import shown
 from thermo.output.atomic import atomic_path
 from thermo.output.errors import OutputError
 from thermo.output.jsonable import decode_exact, encode_exact
@@ -51,7 +52,7 @@ def _override(line: str) -> tuple[str, str]:
 
 def _name_ok(name: str, what: str, where: str) -> str:
     if not isinstance(name, str) or not name or "/" in name or name in (".", ".."):
-        raise OutputError(f"{where}: {what} {name!r} cannot name an HDF5 object "
+        raise OutputError(f"{where}: {what} {shown(name)} cannot name an HDF5 object "
                           "(expected a non-empty name without '/')")
     return name
 
@@ -61,7 +62,7 @@ def _unique(names, what: str, where: str) -> None:
     for name in names:
         _name_ok(name, what, where)
         if name in seen:
-            raise OutputError(f"{where}: {what} {name!r} appears twice; expected unique names")
+            raise OutputError(f"{where}: {what} {shown(name)} appears twice; expected unique names")
         seen.add(name)
 
 
@@ -278,9 +279,9 @@ def read_results_hdf5(path) -> Results:
     with handle as f:
         fmt, version = (_plain(f.attrs.get(key)) for key in ("format", "format_version"))
         if fmt != FORMAT:
-            raise OutputError(f"{path}: attribute 'format' is {fmt!r}, expected {FORMAT!r}")
+            raise OutputError(f"{path}: attribute 'format' is {shown(fmt)}, expected {shown(FORMAT)}")
         if version != FORMAT_VERSION:
-            raise OutputError(f"{path}: format_version {version!r} is not supported, expected {FORMAT_VERSION}")
+            raise OutputError(f"{path}: format_version {shown(version)} is not supported, expected {FORMAT_VERSION}")
         corners_group = r.obj(f, "corners")
         corners = tuple(_read_corner(r, r.obj(corners_group, name)) for name in r.texts(f, "corners"))
         return Results(

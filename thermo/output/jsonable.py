@@ -7,6 +7,7 @@ from typing import Any
 
 import numpy as np
 
+from lapdata.echo import shown
 from thermo.output.errors import OutputError
 
 _ARRAY_TAG = "__ndarray__"
@@ -37,7 +38,7 @@ def json_ready(value: Any, where: str) -> Any:
         out = {}
         for key, item in value.items():
             if not isinstance(key, (str, int, np.integer)):
-                raise OutputError(f"{where}: key {key!r} must be a string or an integer")
+                raise OutputError(f"{where}: key {shown(key)} must be a string or an integer")
             out[str(key)] = json_ready(item, f"{where}.{key}")
         return out
     raise OutputError(f"{where}: {type(value).__name__} cannot be written as JSON "
@@ -63,9 +64,9 @@ def _tagged(value: Any, where: str) -> Any:
     if isinstance(value, dict):
         for key in value:
             if not isinstance(key, str):
-                raise OutputError(f"{where}: key {key!r} must be a string to be stored exactly")
+                raise OutputError(f"{where}: key {shown(key)} must be a string to be stored exactly")
             if key in (_ARRAY_TAG, _TUPLE_TAG):
-                raise OutputError(f"{where}: key {key!r} is reserved by the results file")
+                raise OutputError(f"{where}: key {shown(key)} is reserved by the results file")
         return {key: _tagged(item, f"{where}.{key}") for key, item in value.items()}
     raise OutputError(f"{where}: {type(value).__name__} cannot be stored "
                       "(expected numbers, strings, lists, tuples, dicts or numpy arrays)")

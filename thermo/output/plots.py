@@ -9,6 +9,7 @@ from pathlib import Path
 import numpy as np
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
+from matplotlib.text import Text
 from matplotlib.ticker import MaxNLocator
 
 from lapdata.units import MINUTE, kelvin_to_celsius
@@ -33,10 +34,18 @@ def _new_figure(width: float = 10.0, height: float = 5.5) -> Figure:
     return figure
 
 
-def _save(figure: Figure, path: Path) -> Path:
+def save_png(figure: Figure, path: Path) -> Path:
+    """Write ``figure`` atomically as PNG, every text drawn literally.
+
+    Names come from users' files: a ``$`` in a scenario or variant name must not start matplotlib's
+    math markup (``cost $\\frac{$ x`` crashed the plots), so math parsing is off for every text.
+    """
+    for text in figure.findobj(Text):
+        text.set_parse_math(False)
     with atomic_write(path, "wb") as handle:
         figure.savefig(handle, format="png", dpi=DPI)
     return path
+
 
 
 def _safe(name: str) -> str:
@@ -84,7 +93,7 @@ def plot_corner_temperatures(corner: CornerResult, path: Path, title: str = "") 
     # many nodes and limits: two columns, so that the legend fits beside the axes
     axes.legend(loc="center left", bbox_to_anchor=(1.01, 0.5), fontsize="x-small" if entries > 20 else "small",
                 ncol=2 if entries > 20 else 1)
-    return _save(figure, path)
+    return save_png(figure, path)
 
 
 def plot_lap_peaks(results: Results, path: Path, nodes=LAP_PEAK_NODES) -> Path:
@@ -106,7 +115,7 @@ def plot_lap_peaks(results: Results, path: Path, nodes=LAP_PEAK_NODES) -> Path:
         axes.grid(True, alpha=0.3)
         axes.legend(fontsize="small")
     axes.set_xlabel("lap [-]")
-    return _save(figure, path)
+    return save_png(figure, path)
 
 
 def plot_heat_paths(results: Results, path: Path) -> Path:
@@ -131,7 +140,7 @@ def plot_heat_paths(results: Results, path: Path) -> Path:
     axes.invert_yaxis()   # corners top to bottom in run order
     axes.set_title("Where the heat went, whole run")
     axes.legend(loc="center left", bbox_to_anchor=(1.01, 0.5), fontsize="small")
-    return _save(figure, path)
+    return save_png(figure, path)
 
 
 def plot_run(results: Results, out_dir) -> list[Path]:
@@ -181,7 +190,7 @@ def _overlay(variants: list[tuple[str, Results]], corner_name: str, path: Path) 
         axes.grid(True, alpha=0.3)
         axes.legend(fontsize="small")
     axes.set_xlabel("time [min]")
-    return _save(figure, path)
+    return save_png(figure, path)
 
 
 def _gain_bars(variants: list[tuple[str, Results]], path: Path) -> Path:
@@ -203,7 +212,7 @@ def _gain_bars(variants: list[tuple[str, Results]], path: Path) -> Path:
     axes.set_title(f"Margin gained against the baseline '{variants[0][0]}'")
     axes.grid(True, axis="y", alpha=0.3)
     axes.legend(fontsize="small")
-    return _save(figure, path)
+    return save_png(figure, path)
 
 
 def plot_comparison(variant_results: list[tuple[str, Results]], out_dir) -> list[Path]:

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import math
 
+from lapdata.echo import shown
 from lapdata.units import MM, kelvin_to_celsius
 from thermo import CAUTION
 from thermo.output.analysis import (
@@ -139,7 +140,7 @@ def _thickness_items(corner: CornerResult, key: str, per_mm: float) -> list[tupl
     value = corner.extras[key]
     bad = OutputError(f"corner {corner.name} extras '{key}': expected a number, a list of numbers, a dict "
                       f"label: number, or a list of {{'when': label, 'thickness_{'mm' if per_mm == 1 else 'm'}': "
-                      f"number}}, got {value!r}")
+                      f"number}}, got {shown(value)}")
     if isinstance(value, dict):
         items = list(value.items())
     elif isinstance(value, (list, tuple)):
@@ -171,7 +172,7 @@ def _pad_lines(corner: CornerResult) -> list[str]:
         if key in corner.extras:
             items = _thickness_items(corner, key, per_mm)
             if len(items) != 1:
-                raise OutputError(f"corner {corner.name} extras '{key}': expected one number, got {corner.extras[key]!r}")
+                raise OutputError(f"corner {corner.name} extras '{key}': expected one number, got {shown(corner.extras[key])}")
             lines.append(f"Pad minimum thickness [mm]: {items[0][1]:.1f}")
     return lines
 

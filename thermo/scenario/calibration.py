@@ -18,6 +18,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 
+from lapdata.echo import shown
 from thermo.errors import ScenarioError
 from lapdata.units import KELVIN_AT_0C
 from thermo.scenario.convert import convert_table, reject_unknown, suggestion
@@ -156,7 +157,7 @@ def parse_calibration(table, corners, source: str) -> Calibration | None:
     holdout = table.get("holdout_laps", [])
     if not isinstance(holdout, list) or not all(isinstance(i, int) and not isinstance(i, bool) and i >= 1
                                                 for i in holdout):
-        raise ScenarioError(f"{source}: [calibration] holdout_laps must be a list of lap numbers from 1, got {holdout!r}")
+        raise ScenarioError(f"{source}: [calibration] holdout_laps must be a list of lap numbers from 1, got {shown(holdout)}")
     channels = tuple(_channel(name, t, layers, source) for name, t in _tables(table, "channels", source).items())
     parameters = tuple(_parameter(name, t, names, layers, source)
                        for name, t in _tables(table, "parameters", source).items())
@@ -182,13 +183,13 @@ def _tables(table: dict, key: str, source: str) -> dict:
 
 def _names(value, at: str) -> tuple[str, ...]:
     if not isinstance(value, list) or not value or not all(isinstance(v, str) for v in value):
-        raise ScenarioError(f"{at} must be a non-empty list of corner names, got {value!r}")
+        raise ScenarioError(f"{at} must be a non-empty list of corner names, got {shown(value)}")
     return tuple(dict.fromkeys(value))
 
 
 def _check_corner(name: str, layers: dict, at: str) -> None:
     if name not in layers:
-        raise ScenarioError(f"{at}: unknown corner '{name}'{suggestion(name, layers)}; "
+        raise ScenarioError(f"{at}: unknown corner {shown(name)}{suggestion(name, layers)}; "
                             f"the scenario has: {', '.join(layers)}")
 
 

@@ -92,6 +92,7 @@ class SolverChoice:
     rtol: float
     atol_k: float
     output_hz: float                # stored series rate [Hz]; 0 = every sample (peaks always kept)
+    wall_clock_limit_s: float       # a run taking longer stops with an error [s]
 
     def settings(self) -> SolverSettings:
         """The integrator settings this table asks for (the one conversion, used by every study)."""

@@ -3,9 +3,10 @@ from __future__ import annotations
 
 import copy
 import math
-import tomllib
 from pathlib import Path
 
+from lapdata.echo import shown
+from lapdata.files import read_toml_file
 from lapdata.track import CarEnvelope
 from thermo.corner.geometry import (
     AirflowSettings, CaliperGeometry, CornerDesign, DiscGeometry, DuctGeometry, HubGeometry, PadGeometry,
@@ -28,17 +29,7 @@ from thermo.scenario.overrides import apply_overrides
 def load_scenario(path, overrides=()) -> Scenario:
     """Read and check a scenario file; ``overrides`` is a sequence of (dotted key, value) pairs."""
     path = Path(path)
-    source = str(path)
-    try:
-        text = path.read_text(encoding="utf-8")
-    except FileNotFoundError:
-        raise ScenarioError(f"{source}: no such scenario file") from None
-    except (OSError, UnicodeDecodeError) as error:
-        raise ScenarioError(f"{source}: cannot read the scenario file ({error})") from None
-    try:
-        raw = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as error:
-        raise ScenarioError(f"{source}: not valid TOML: {error}") from None
+    raw, text = read_toml_file(path, "scenario file", ScenarioError)
     return scenario_from_dict(raw, path=path, text=text, overrides=overrides)
 
 
@@ -79,6 +70,9 @@ def scenario_from_dict(raw: dict, *, path: Path, text: str = "", overrides=()) -
     except ValueError as error:
         raise ScenarioError(f"{source}: [car] {error}") from None
 
+    if car["fuel_kg"] > car["fuel_capacity_kg"]:
+        raise ScenarioError(f"{source}: [car] fuel_kg = {car['fuel_kg']:g} does not fit in fuel_capacity_kg = "
+                            f"{car['fuel_capacity_kg']:g}")
     corners = _corners(data["corners"], sec, vehicle, source)
     bias = _bias(sec["brakes"], corners, source)
     fluid = _fluid(sec["fluid"], source)
@@ -130,7 +124,7 @@ def _fluid(fl: dict, source: str) -> FluidSpec:
             if fl["dry_boiling_c"] <= 0 or fl["wet_boiling_c"] <= 0:
                 raise ScenarioError("grade = \"custom\" needs dry_boiling_c and wet_boiling_c (the maker's figures)")
             table = tuple(fl["boiling_table_pct_c"])
-            if any(len(r) != 2 for r in table):
+            if any(not isinstance(r, tuple) or len(r) != 2 for r in table):
                 raise ScenarioError("boiling_table_pct_c must be a list of [water %, degC] pairs")
             return FluidSpec("custom fluid", fl["dry_boiling_c"], fl["wet_boiling_c"], fl["water_content_pct"],
                              table, source="fluid maker's figures (user input)")
@@ -180,7 +174,7 @@ def _check_material(where: str, key: str, name: str, source: str) -> None:
     from thermo.scenario.convert import suggestion
     known = material_names()
     if name not in known:
-        raise ScenarioError(f"{source}: [{where}] {key} = '{name}' is not a known material{suggestion(name, known)}; "
+        raise ScenarioError(f"{source}: [{where}] {key} = {shown(name)} is not a known material{suggestion(name, known)}; "
                             f"expected one of: {', '.join(known)}")
 
 
@@ -260,9 +254,9 @@ def _plan(p: dict, raw_plan: dict, path: Path, source: str) -> Plan:
         if not isinstance(ph, dict) or "type" not in ph:
             raise ScenarioError(f"{source}: [{where}] needs a type ({', '.join(PHASE_KINDS)})")
         kind = ph["type"]
-        if kind not in S.PHASES:
+        if not isinstance(kind, str) or kind not in S.PHASES:
             from thermo.scenario.convert import suggestion
-            raise ScenarioError(f"{source}: [{where}] unknown phase type '{kind}'{suggestion(str(kind), S.PHASES)}; "
+            raise ScenarioError(f"{source}: [{where}] unknown phase type {shown(kind)}{suggestion(str(kind), S.PHASES)}; "
                                 f"expected one of: {', '.join(PHASE_KINDS)}")
         values = convert_table(where, ph, {**S.PHASE_COMMON, **S.PHASES[kind]}, source)
         values["name"] = values["name"] or f"{kind} {i}"

@@ -24,30 +24,30 @@ SCENARIO = {
 }
 
 CAR = {
-    "mass_kg": f("mass_kg", minimum=1.0, doc="car with driver, without fuel"),
-    "fuel_kg": f("fuel_kg", 0.0, minimum=0.0, doc="fuel at the start"),
-    "fuel_consumption_kg_per_lap": f("fuel_consumption_kg_per_lap", 0.0, minimum=0.0),
-    "fuel_capacity_kg": f("fuel_capacity_kg", 1.0e9, minimum=0.0),
-    "drag_cd_a_m2": f("drag_cd_a_m2", minimum=0.0),
-    "downforce_cl_a_m2": f("downforce_cl_a_m2", 0.0),
+    "mass_kg": f("mass_kg", minimum=50.0, doc="car with driver, without fuel", maximum=5000.0),
+    "fuel_kg": f("fuel_kg", 0.0, minimum=0.0, doc="fuel at the start", maximum=500.0),
+    "fuel_consumption_kg_per_lap": f("fuel_consumption_kg_per_lap", 0.0, minimum=0.0, maximum=50.0),
+    "fuel_capacity_kg": f("fuel_capacity_kg", 500.0, minimum=0.0, maximum=500.0, doc="the tank; fuel_kg and refuels must fit"),
+    "drag_cd_a_m2": f("drag_cd_a_m2", minimum=0.0, maximum=10.0),
+    "downforce_cl_a_m2": f("downforce_cl_a_m2", 0.0, minimum=-5.0, maximum=20.0),
     "rolling_resistance": f("rolling_resistance_coefficient", 0.012, minimum=0.0, maximum=1.0),
     "rotating_inertia_factor": f("rotating_inertia_factor", 0.04, minimum=0.0, maximum=1.0),
-    "engine_braking_force_n": f("engine_braking_force_n", 0.0, minimum=0.0),
-    "rolling_radius_front_mm": mm("rolling_radius_front_m"),
-    "rolling_radius_rear_mm": mm("rolling_radius_rear_m"),
+    "engine_braking_force_n": f("engine_braking_force_n", 0.0, minimum=0.0, maximum=20000.0),
+    "rolling_radius_front_mm": mm("rolling_radius_front_m", minimum=100.0, maximum=700.0),
+    "rolling_radius_rear_mm": mm("rolling_radius_rear_m", minimum=100.0, maximum=700.0),
     # envelope for the track builder
-    "braking_decel_g": f("braking_decel_g", 1.5, minimum=0.05),
-    "lateral_grip_g": f("lateral_grip_g", 1.5, minimum=0.05),
-    "power_kw": f("power_w", 400.0, factor=1000.0, minimum=0.1),
-    "traction_accel_g": f("traction_accel_g", 0.8, minimum=0.05),
-    "top_speed_kmh": f("top_speed_kmh", 0.0, minimum=0.0, doc="0 = drag-limited only"),
+    "braking_decel_g": f("braking_decel_g", 1.5, minimum=0.05, maximum=6.0),
+    "lateral_grip_g": f("lateral_grip_g", 1.5, minimum=0.05, maximum=6.0),
+    "power_kw": f("power_w", 400.0, factor=1000.0, minimum=0.1, maximum=3000.0),
+    "traction_accel_g": f("traction_accel_g", 0.8, minimum=0.05, maximum=3.0),
+    "top_speed_kmh": f("top_speed_kmh", 0.0, minimum=0.0, doc="0 = drag-limited only", maximum=500.0),
 }
 
 BRAKES = {
     "bias": f("bias", "fixed", kind=str, choices=("fixed", "hydraulic")),
     "front_share": f("front_share", 0.6, minimum=0.0, maximum=1.0),
-    "master_cylinder_front_mm": mm("master_cylinder_front_diameter_m", 0.0),
-    "master_cylinder_rear_mm": mm("master_cylinder_rear_diameter_m", 0.0),
+    "master_cylinder_front_mm": mm("master_cylinder_front_diameter_m", 0.0, maximum=50.0),
+    "master_cylinder_rear_mm": mm("master_cylinder_rear_diameter_m", 0.0, maximum=50.0),
     "balance_bar_front_share": f("balance_bar_front_share", 0.5, minimum=0.0, maximum=1.0),
     "left_share_front": f("left_share_front", 0.5, minimum=0.0, maximum=1.0),
     "left_share_rear": f("left_share_rear", 0.5, minimum=0.0, maximum=1.0),
@@ -60,14 +60,14 @@ AMBIENT = {
     "temperature_profile_h_c": f("temperature_profile_h_c", [], kind=list,
                                  doc="[[hours from start, degC], ...]; overrides temperature_c when not empty"),
     "pressure_mode": f("pressure_mode", "pressure", kind=str, choices=("pressure", "altitude")),
-    "pressure_kpa": f("pressure_pa", 101.325, factor=KPA, minimum=10.0),
+    "pressure_kpa": f("pressure_pa", 101.325, factor=KPA, minimum=10.0, maximum=120.0),
     "altitude_m": f("altitude_m", 0.0, minimum=-500.0, maximum=6000.0),
 }
 
 FLUID = {
     "grade": f("grade", "DOT 4", kind=str),
-    "dry_boiling_c": f("dry_boiling_c", 0.0),
-    "wet_boiling_c": f("wet_boiling_c", 0.0),
+    "dry_boiling_c": f("dry_boiling_c", 0.0, minimum=0.0, maximum=400.0),
+    "wet_boiling_c": f("wet_boiling_c", 0.0, minimum=0.0, maximum=400.0),
     "water_content_pct": f("water_content_pct", 0.0, minimum=0.0, maximum=10.0),
     "boiling_table_pct_c": f("boiling_table_pct_c", [], kind=list, doc="[[water %, degC], ...]"),
     "material": f("material", "brake_fluid_glycol", kind=str),
@@ -99,33 +99,35 @@ _PHASE_TRACE = {"trace": f("trace", "", kind=str, doc="this phase's own lap CSV 
                                                        "empty: the plan's lap")}
 PHASES = {
     "out_lap": {"pace": f("pace", 0.85, minimum=0.05, maximum=1.0),
-                "pit_lane_speed_kmh": f("pit_lane_speed_m_s", 60.0, factor=KMH, minimum=1.0),
-                "pit_lane_length_m": f("pit_lane_length_m", 300.0, minimum=0.0), **_PHASE_TRACE},
-    "laps": {"count": f("count", kind=int, minimum=1), "pace": f("pace", 1.0, minimum=0.05, maximum=1.0), **_PHASE_TRACE},
-    "safety_car": {"count": f("count", kind=int, minimum=1), "speed_factor": f("pace", 0.6, minimum=0.05, maximum=1.0),
+                "pit_lane_speed_kmh": f("pit_lane_speed_m_s", 60.0, factor=KMH, minimum=5.0, maximum=150.0),
+                "pit_lane_length_m": f("pit_lane_length_m", 300.0, minimum=0.0, maximum=3000.0), **_PHASE_TRACE},
+    "laps": {"count": f("count", kind=int, minimum=1, maximum=2000), "pace": f("pace", 1.0, minimum=0.05, maximum=1.0), **_PHASE_TRACE},
+    "safety_car": {"count": f("count", kind=int, minimum=1, maximum=2000), "speed_factor": f("pace", 0.6, minimum=0.05, maximum=1.0),
                    **_PHASE_TRACE},
     "in_lap": {"pace": f("pace", 0.8, minimum=0.05, maximum=1.0),
-               "pit_lane_speed_kmh": f("pit_lane_speed_m_s", 60.0, factor=KMH, minimum=1.0),
-               "pit_lane_length_m": f("pit_lane_length_m", 300.0, minimum=0.0), **_PHASE_TRACE},
-    "pit_stop": {"duration_s": f("duration_s", minimum=0.1), "pad_change": f("pad_change", False, kind=bool),
-                 "refuel_kg": f("refuel_kg", 0.0, minimum=0.0)},
-    "soak": {"duration_s": f("duration_s", minimum=1.0)},
+               "pit_lane_speed_kmh": f("pit_lane_speed_m_s", 60.0, factor=KMH, minimum=5.0, maximum=150.0),
+               "pit_lane_length_m": f("pit_lane_length_m", 300.0, minimum=0.0, maximum=3000.0), **_PHASE_TRACE},
+    "pit_stop": {"duration_s": f("duration_s", minimum=0.1, maximum=3600.0), "pad_change": f("pad_change", False, kind=bool),
+                 "refuel_kg": f("refuel_kg", 0.0, minimum=0.0, maximum=500.0)},
+    "soak": {"duration_s": f("duration_s", minimum=1.0, maximum=172800.0, doc="up to 48 h")},
 }
 
 PAD_WEAR = {
     "enabled": f("enabled", False, kind=bool),
     "wear_coefficient_mm3_per_kj": f("wear_coefficient_m3_per_j", 0.25, factor=1.0e-12, minimum=0.0,
-                                     doc="pad volume worn per friction energy; illustrative default, calibrate"),
-    "reference_temperature_c": degc("reference_temperature_k", 450.0),
-    "temperature_scale_k": f("temperature_scale_k", 150.0, minimum=1.0),
-    "warn_margin_mm": mm("warn_margin_m", 1.0),
+                                     doc="pad volume worn per friction energy; illustrative default, calibrate", maximum=100.0),
+    "reference_temperature_c": degc("reference_temperature_k", 450.0, minimum=0.0, maximum=1500.0),
+    "temperature_scale_k": f("temperature_scale_k", 150.0, minimum=1.0, maximum=2000.0),
+    "warn_margin_mm": mm("warn_margin_m", 1.0, maximum=20.0),
 }
 
 SOLVER = {
     "method": f("method", "fast", kind=str, choices=SOLVER_METHODS),
     "rtol": f("rtol", 1.0e-6, minimum=1e-12, maximum=0.1),
     "atol_k": f("atol_k", 1.0e-4, minimum=1e-12, maximum=10.0),
-    "output_hz": f("output_hz", 0.0, minimum=0.0, doc="0 = every input sample"),
+    "output_hz": f("output_hz", 0.0, minimum=0.0, doc="0 = every input sample", maximum=1000.0),
+    "wall_clock_limit_s": f("wall_clock_limit_s", 3600.0, minimum=1.0, maximum=7.0 * 86400.0,
+                            doc="a run taking longer stops with an error"),
 }
 
 SECTIONS = {

@@ -5,6 +5,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from lapdata.echo import shown
 from lapdata.suggest import did_you_mean
 from thermo.errors import ModelError
 
@@ -46,17 +47,17 @@ class SolverSettings:
             hint = did_you_mean(self.method, METHODS, n=3, cutoff=0.3)
             raise ModelError(f"solver settings: unknown method '{self.method}'{hint}; expected one of {', '.join(METHODS)}")
         if not (np.isfinite(self.rtol) and 1e-13 <= self.rtol < 1.0):
-            raise ModelError(f"solver settings: rtol must be in [1e-13, 1), got {self.rtol!r}")
+            raise ModelError(f"solver settings: rtol must be in [1e-13, 1), got {shown(self.rtol)}")
         if not (np.isfinite(self.atol_k) and self.atol_k > 0):
-            raise ModelError(f"solver settings: atol_k must be a positive number of kelvin, got {self.atol_k!r}")
+            raise ModelError(f"solver settings: atol_k must be a positive number of kelvin, got {shown(self.atol_k)}")
         if self.max_step_s is not None and not (np.isfinite(self.max_step_s) and self.max_step_s > 0):
-            raise ModelError(f"solver settings: max_step_s must be None or a positive number of seconds, got {self.max_step_s!r}")
+            raise ModelError(f"solver settings: max_step_s must be None or a positive number of seconds, got {shown(self.max_step_s)}")
         if not (np.isfinite(self.heated_max_step_samples) and self.heated_max_step_samples > 0):
             raise ModelError("solver settings: heated_max_step_samples must be a positive number, "
-                             f"got {self.heated_max_step_samples!r}")
+                             f"got {shown(self.heated_max_step_samples)}")
         for key in ("restart_at_edges", "use_jacobian"):
             if not isinstance(getattr(self, key), bool):
-                raise ModelError(f"solver settings: {key} must be true or false, got {getattr(self, key)!r}")
+                raise ModelError(f"solver settings: {key} must be true or false, got {shown(getattr(self, key))}")
         if self.method == "fast" and not self.restart_at_edges:
             raise ModelError("solver settings: method 'fast' steps on every schedule sample and so always restarts "
                              "at edges; restart_at_edges = false applies to the scipy methods only")

@@ -8,6 +8,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from pathlib import Path
 
+from lapdata.echo import shown
 from thermo.errors import ScenarioError
 from thermo.results import Results
 
@@ -30,7 +31,7 @@ class Comparison:
         for n, r in self.runs:
             if n == name:
                 return r
-        raise KeyError(f"no variant {name!r}; known: {', '.join(n for n, _ in self.runs)}")
+        raise KeyError(f"no variant {shown(name)}; known: {', '.join(n for n, _ in self.runs)}")
 
     def as_dict(self) -> dict:
         """JSON-ready, as `brakeheat compare --json` prints it."""
