@@ -189,6 +189,8 @@ CASES = (
          overrides=(("car.rolling_radius_front_mm", 150.0),)),
     Case("backing_plate_a_kilometre_thick", ("[corners.front.pad] backing_thickness_mm", "at most 20"),
          overrides=(("corners.front.pad.backing_thickness_mm", 1e9),)),
+    Case("variant_name_with_a_nul", ("[variants] name", "'a\\x00b'", "plain text"),
+         edits=(("[plan]", '[variants."a\\u0000b"]\n"car.mass_kg" = 1000\n\n[plan]'),)),
     Case("car_of_1e300_kg", ("[car] mass_kg", "at most 5000"),
          overrides=(("car.mass_kg", 1e300),)),
 )

@@ -25,6 +25,7 @@ from thermo.network.schedule import Schedule
 from thermo.network.tabulate import ConductanceGrid
 from thermo.results import CornerResult, EnergyBalance, LapSpan, PhaseSpan, Results
 from thermo.scenario.model import Scenario
+from thermo.scenario.toml_text import toml_value_text
 from thermo.solver.scipy_solve import solve_network
 from thermo.solver.settings import SolverSettings
 
@@ -346,14 +347,3 @@ def applied_overrides(scenario: Scenario) -> tuple[tuple[str, str], ...]:
     TOML value text), so that a result says which run it is. ``[calibrated]`` values are part of
     the text itself and are not repeated."""
     return tuple((str(key), toml_value_text(value)) for key, value in scenario.overrides)
-
-
-def toml_value_text(value) -> str:
-    """A value as TOML would write it: true/false, numbers, "text", [lists]."""
-    if isinstance(value, bool):
-        return "true" if value else "false"
-    if isinstance(value, (int, float)):
-        return repr(value)
-    if isinstance(value, (list, tuple)):
-        return "[" + ", ".join(toml_value_text(v) for v in value) + "]"
-    return '"' + str(value).replace("\\", "\\\\").replace('"', '\\"') + '"'

@@ -5,7 +5,9 @@ import re
 import tomllib
 from pathlib import Path
 
+from lapdata.echo import printable
 from thermo.fit.errors import FitError
+from thermo.scenario.toml_text import toml_string
 
 _TABLE = re.compile(r"^\s*\[+\s*([^\]]+?)\s*\]+\s*(#.*)?$")
 
@@ -34,14 +36,14 @@ def calibrated_text(text: str, result, fit_date: str, *, measured: str, pinned=(
     pinned : sequence of (dotted key, str)  Extra overrides, e.g. plan files made absolute [-]
     """
     body = strip_calibrated(text).rstrip("\n")
-    lines = ["", "", f"# Written by `brakeheat fit` on {fit_date} from {measured}.",
+    lines = ["", "", f"# Written by `brakeheat fit` on {fit_date} from {printable(measured)}.",
              "# Each value: fitted value, +- one approximate standard error (linearised, from the Jacobian).",
              "[calibrated]"]
     for v in result.values:
         for key in v.override_keys:
-            lines.append(f'"{key}" = {v.value:.6g}    # +- {v.std_error:.3g} (1 s.e.), {v.kind}, fitted {fit_date}')
+            lines.append(f'{toml_string(key)} = {v.value:.6g}    # +- {v.std_error:.3g} (1 s.e.), {v.kind}, fitted {fit_date}')
     for key, value in pinned:
-        lines.append(f'"{key}" = "{value}"    # the calibrated file lives elsewhere: plan file pinned')
+        lines.append(f'{toml_string(key)} = {toml_string(value)}    # the calibrated file lives elsewhere: plan file pinned')
     out = body + "\n".join(lines) + "\n"
     try:
         tomllib.loads(out)

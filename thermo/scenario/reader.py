@@ -5,7 +5,7 @@ import copy
 import math
 from pathlib import Path
 
-from lapdata.echo import shown
+from lapdata.echo import has_control_characters, shown
 from lapdata.files import read_toml_file
 from lapdata.track import CarEnvelope
 from thermo.corner.geometry import (
@@ -83,6 +83,10 @@ def scenario_from_dict(raw: dict, *, path: Path, text: str = "", overrides=()) -
     variants = data.get("variants", {})
     if not isinstance(variants, dict) or not all(isinstance(v, dict) for v in variants.values()):
         raise ScenarioError(f"{source}: [variants.NAME] tables must hold \"dotted.key\" = value overrides")
+    for name in variants:
+        if not name.strip() or has_control_characters(name):
+            raise ScenarioError(f"{source}: [variants] name {shown(name)}: expected plain text (no line breaks, "
+                                "escapes or control characters)")
     return Scenario(
         name=sec["scenario"]["name"], description=sec["scenario"]["description"], path=path, text=text, raw=raw,
         vehicle=vehicle, envelope=envelope, bias=bias, power_method=sec["brakes"]["power_method"],

@@ -8,7 +8,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from pathlib import Path
 
-from lapdata.echo import shown
+from lapdata.echo import has_control_characters, shown
 from thermo.errors import ScenarioError
 from thermo.results import Results
 
@@ -56,7 +56,10 @@ def variant_overrides(scenario_raw: dict, cli_variants, only, source: str) -> li
     for item in cli_variants:
         name, pairs = item[0], item[1:]
         if "=" in name:
-            raise ScenarioError(f"--variant {' '.join(item)}: the first word is the variant's name, then KEY=VALUE pairs")
+            raise ScenarioError(f"--variant {shown(' '.join(item))}: the first word is the variant's name, then KEY=VALUE pairs")
+        if not name.strip() or has_control_characters(name):
+            raise ScenarioError(f"--variant {shown(name)}: expected a name of plain text (no line breaks, escapes "
+                                "or control characters)")
         if not pairs:
             raise ScenarioError(f"--variant {name}: give at least one KEY=VALUE override")
         out = [(n, o) for n, o in out if n != name]
