@@ -54,14 +54,25 @@ def format_comparison(data: dict) -> str:
     return "\n".join(lines)
 
 
-def compare_command(args) -> int:
-    from thermo.cli.options import overrides_with_solver
+def write_comparison_files(data: dict, runs: list, out: Path) -> list[Path]:
+    """comparison.json and the comparison plots into ``out``, each atomically; their paths."""
     from thermo.output.atomic import atomic_write
     from thermo.output.plots import plot_comparison
+    with atomic_write(out / "comparison.json") as handle:
+        json.dump(data, handle, indent=2, allow_nan=False)
+    return [out / "comparison.json", *plot_comparison(runs, out)]
+
+
+def compare_command(args) -> int:
+    from thermo.cli.options import overrides_with_solver
+    from thermo.output.folder import check_output_folder
+    from thermo.output.manifest import write_output_set
 
     from thermo.chain import expand_plan
     from thermo.cli.progress import Progress
 
+    if args.out is not None:
+        check_output_folder(args.out, source="--out")
     plans = plan_comparison(Path(args.scenario), overrides_with_solver(args), args.variant, args.only)
     total = sum(len(expand_plan(sc)) * len(sc.corners) for _, sc in plans)
     progress = Progress(total, enabled=not (args.json or args.quiet))
@@ -72,11 +83,8 @@ def compare_command(args) -> int:
     runs = list(comparison.runs)
     data = comparison.as_dict()
     if args.out:
-        out = Path(args.out)
-        out.mkdir(parents=True, exist_ok=True)
-        with atomic_write(out / "comparison.json") as handle:
-            json.dump(data, handle, indent=2, allow_nan=False)
-        plot_comparison(runs, out)
+        command = "demo --compare" if getattr(args, "command", None) == "demo" else "compare"
+        write_output_set(Path(args.out), command, lambda out: write_comparison_files(data, runs, out))
     if args.json:
         json.dump(data, sys.stdout, indent=2, allow_nan=False)
         sys.stdout.write("\n")

@@ -20,18 +20,39 @@ def add_parser(sub) -> None:
     p.set_defaults(handler=fit_command)
 
 
+def write_fit_files(result, summary: dict, out: Path) -> list[Path]:
+    """fit_<channel>.png plots and fit.json into ``out``, each atomically; their paths."""
+    from thermo.fit.plots import plot_fit
+    from thermo.output.atomic import atomic_write
+    plots = plot_fit(result, out)
+    with atomic_write(out / "fit.json", "w") as handle:
+        json.dump(summary, handle, indent=2, allow_nan=False)
+    return [*plots, out / "fit.json"]
+
+
+def check_output_options(args, target: Path) -> None:
+    """A bad --out, or a calibrated scenario that cannot be written, fails now, before the fit."""
+    from thermo.output.folder import check_output_folder
+    if args.out is not None:
+        check_output_folder(args.out, source="--out")
+    check_output_folder(target.parent, source="--calibrated (its folder)" if args.calibrated else
+                        "the calibrated scenario's folder")
+
+
 def fit_command(args) -> int:
     from thermo.cli.options import collect_overrides
     from thermo.fit import fit_scenario
     from thermo.fit.calibrated import calibrated_text, pinned_plan_files
     from thermo.fit.report import fit_dict, format_fit
     from thermo.output.atomic import atomic_write
+    from thermo.output.manifest import write_output_set
     from thermo.scenario import load_scenario
 
     path = Path(args.scenario)
+    target = Path(args.calibrated) if args.calibrated else path.with_name(f"{path.stem}_calibrated.toml")
+    check_output_options(args, target)
     scenario = load_scenario(path, collect_overrides(args.overrides))
     result = fit_scenario(scenario, args.measured)
-    target = Path(args.calibrated) if args.calibrated else path.with_name(f"{path.stem}_calibrated.toml")
     today = datetime.date.today().isoformat()
     text = calibrated_text(scenario.text, result, today, measured=str(args.measured),
                            pinned=pinned_plan_files(scenario, target))
@@ -40,11 +61,7 @@ def fit_command(args) -> int:
         handle.write(text)
     summary = fit_dict(result, scenario=str(path), measured=str(args.measured), calibrated=str(target))
     if args.out:
-        from thermo.fit.plots import plot_fit
-        out = Path(args.out)
-        plot_fit(result, out)
-        with atomic_write(out / "fit.json", "w") as handle:
-            json.dump(summary, handle, indent=2, allow_nan=False)
+        write_output_set(Path(args.out), "fit", lambda out: write_fit_files(result, summary, out))
     if args.json:
         json.dump(summary, sys.stdout, indent=2, allow_nan=False)
         sys.stdout.write("\n")

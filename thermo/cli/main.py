@@ -21,8 +21,16 @@ EXIT_INTERRUPTED = 130
 INTERRUPTED = "brakeheat: interrupted; nothing half-written was left"
 
 
-def _terminate(signum, frame):
-    """SIGTERM is handled as Ctrl-C: the same unwinding removes every temporary file."""
+_interrupted = False
+
+
+def _interrupt(signum, frame):
+    """Ctrl-C and SIGTERM: note it and unwind as KeyboardInterrupt (which removes every temporary
+    file). The note matters when a library turns the KeyboardInterrupt into another error: numpy,
+    interrupted while it is imported, raises ImportError with no KeyboardInterrupt left in the
+    chain; the command is still reported as interrupted, not as a failure."""
+    global _interrupted
+    _interrupted = True
     raise KeyboardInterrupt
 
 
@@ -56,8 +64,12 @@ def _say(kind: str, message) -> None:
 
 
 def main(argv=None) -> int:
+    global _interrupted
+    _interrupted = False
+    previous = {}
     try:
-        signal.signal(signal.SIGTERM, _terminate)
+        for signum in (signal.SIGINT, signal.SIGTERM):
+            previous[signum] = signal.signal(signum, _interrupt)
     except ValueError:                       # not the main thread (an embedding program): leave it
         pass
     try:
@@ -65,6 +77,15 @@ def main(argv=None) -> int:
     except KeyboardInterrupt:
         print(INTERRUPTED, file=sys.stderr)
         return EXIT_INTERRUPTED
+    except BaseException:
+        if not _interrupted:
+            raise
+        print(INTERRUPTED, file=sys.stderr)
+        return EXIT_INTERRUPTED
+    finally:
+        for signum, handler in previous.items():     # a caller embedding main() gets its handlers back
+            if handler is not None:
+                signal.signal(signum, handler)
 
 
 def _main(argv) -> int:
@@ -77,15 +98,10 @@ def _main(argv) -> int:
         warnings.simplefilter("always")
         try:
             code = args.handler(args)
-        except (BrakeheatError, LapDataError) as error:
-            _say("error", error)
-            return EXIT_INPUT
-        except OSError as error:
-            _say("error", f"{error.filename or ''}: {error.strerror or error}")
-            return EXIT_INPUT
-        except (MemoryError, RecursionError) as error:
-            _say("error", f"the input needs more {'memory' if isinstance(error, MemoryError) else 'nesting'} "
-                          "than this command allows; check the sizes and counts it asks for")
+        except (BrakeheatError, LapDataError, OSError, MemoryError, RecursionError) as error:
+            if _interrupted:                 # a library turned the interrupt into an error
+                raise KeyboardInterrupt from None
+            _say("error", _one_line(error))
             return EXIT_INPUT
     seen = set()
     for w in caught:
@@ -94,6 +110,15 @@ def _main(argv) -> int:
             seen.add(text)
             _say("warning", text)
     return code
+
+
+def _one_line(error: BaseException) -> str:
+    if isinstance(error, OSError):
+        return f"{error.filename or ''}: {error.strerror or error}"
+    if isinstance(error, (MemoryError, RecursionError)):
+        return (f"the input needs more {'memory' if isinstance(error, MemoryError) else 'nesting'} than this "
+                "command allows; check the sizes and counts it asks for")
+    return str(error)
 
 
 if __name__ == "__main__":

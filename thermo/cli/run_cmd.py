@@ -47,7 +47,7 @@ def run_and_report(path: Path, args) -> int:
         progress.close()
     if args.out:
         from thermo.output.files import write_outputs
-        write_outputs(results, Path(args.out))
+        write_outputs(results, Path(args.out), command=getattr(args, "command", None) or "run")
     if args.json:
         json.dump(summary_dict(results), sys.stdout, indent=2, allow_nan=False)
         sys.stdout.write("\n")
@@ -55,12 +55,20 @@ def run_and_report(path: Path, args) -> int:
         from thermo.output.report import format_run_report
         print(format_run_report(results))
         if args.out:
-            print(f"\nWrote results.h5, summary.json and plots to {args.out}")
+            print(f"\nWrote results.h5, summary.json, plots and manifest.json to {args.out}")
     exceeded = any(c.status == "exceeded" for corner in results.corners for c in corner.checks)
     return EXIT_EXCEEDED if (args.fail_on_exceeded and exceeded) else EXIT_OK
 
 
+def check_out_option(args) -> None:
+    """A bad --out fails now, before the scenario is read or solved."""
+    if args.out is not None:
+        from thermo.output.folder import check_output_folder
+        check_output_folder(args.out, source="--out")
+
+
 def run_command(args) -> int:
+    check_out_option(args)
     return run_and_report(Path(args.scenario), args)
 
 
@@ -73,4 +81,5 @@ def demo_command(args) -> int:
         from thermo.cli.compare_cmd import compare_command
         args.scenario = str(path)
         return compare_command(args)
+    check_out_option(args)
     return run_and_report(path, args)

@@ -1,4 +1,4 @@
-"""Every file of one run's output set, written into one folder."""
+"""Every file of one run's output set, written into one folder and marked complete by manifest.json."""
 from __future__ import annotations
 
 from pathlib import Path
@@ -6,15 +6,22 @@ from pathlib import Path
 from thermo.results import Results
 
 
-def write_outputs(results: Results, out_dir) -> Path:
-    """results.h5, summary.json and the plots into ``out_dir`` (made if missing), each written
-    atomically (a temporary file renamed into place). Returns the folder."""
+def _write_run_files(results: Results, out: Path) -> list[Path]:
+    """results.h5, summary.json and the plots, each written atomically; their paths."""
     from thermo.output.hdf5 import write_results_hdf5
     from thermo.output.plots import plot_run
     from thermo.output.summary import write_summary_json
-    out = Path(out_dir)
-    out.mkdir(parents=True, exist_ok=True)
     write_results_hdf5(results, out / "results.h5")
     write_summary_json(results, out / "summary.json")
-    plot_run(results, out)
+    return [out / "results.h5", out / "summary.json", *plot_run(results, out)]
+
+
+def write_outputs(results: Results, out_dir, command: str = "run") -> Path:
+    """results.h5, summary.json and the plots into ``out_dir`` (made if missing), each written
+    atomically (a temporary file renamed into place), then manifest.json listing them, written last;
+    the folder's old manifest.json is removed first. ``command`` is recorded in the manifest.
+    Returns the folder."""
+    from thermo.output.manifest import write_output_set
+    out = Path(out_dir)
+    write_output_set(out, command, lambda folder: _write_run_files(results, folder))
     return out
