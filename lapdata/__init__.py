@@ -1,16 +1,26 @@
 """Lap traces: reading, checking, resampling, braking zones and the track builder.
 
-This package knows nothing of brakes' heat: it never imports ``thermo``.
+This package knows nothing of brakes' heat: it never imports ``thermo``. Its names are imported
+on first use, so that importing one small module of it (``lapdata.echo``, ``lapdata.units``)
+does not load numpy's and scipy's signal tools.
 """
-from lapdata.errors import LapDataError
-from lapdata.reader import read_trace_csv
-from lapdata.signal import resample_uniform, smoothed_acceleration
-from lapdata.trace import LapTrace
-from lapdata.track import CarEnvelope, TrackDescription, TrackSegment, build_speed_trace, read_track_toml
-from lapdata.zones import BrakingZone, braking_mask, find_braking_zones
+_PUBLIC = {
+    "LapDataError": "lapdata.errors", "LapTrace": "lapdata.trace", "read_trace_csv": "lapdata.reader",
+    "resample_uniform": "lapdata.signal", "smoothed_acceleration": "lapdata.signal",
+    "BrakingZone": "lapdata.zones", "braking_mask": "lapdata.zones", "find_braking_zones": "lapdata.zones",
+    "TrackSegment": "lapdata.track", "TrackDescription": "lapdata.track", "CarEnvelope": "lapdata.track",
+    "build_speed_trace": "lapdata.track", "read_track_toml": "lapdata.track",
+}
 
-__all__ = [
-    "LapDataError", "LapTrace", "read_trace_csv", "resample_uniform", "smoothed_acceleration",
-    "BrakingZone", "braking_mask", "find_braking_zones",
-    "TrackSegment", "TrackDescription", "CarEnvelope", "build_speed_trace", "read_track_toml",
-]
+__all__ = list(_PUBLIC)
+
+
+def __getattr__(name):
+    if name in _PUBLIC:
+        import importlib
+        return getattr(importlib.import_module(_PUBLIC[name]), name)
+    raise AttributeError(f"module 'lapdata' has no attribute {name!r}")
+
+
+def __dir__():
+    return sorted(list(globals()) + list(_PUBLIC))

@@ -11,7 +11,6 @@ from __future__ import annotations
 from dataclasses import replace
 
 import numpy as np
-from scipy.signal import savgol_filter
 
 from lapdata.echo import shown
 from lapdata.errors import LapDataError
@@ -96,6 +95,7 @@ def smoothed_acceleration(time_s: np.ndarray, speed_mps: np.ndarray, window_s: f
         raise LapDataError(f"smoothed_acceleration: window_s = {shown(window_s)}: expected a finite value > 0 s")
     grid, dt, uniform = _uniform_grid(t)
     n = max(_odd_window(window_s, dt, grid.size), _POLYORDER + 1)
+    from scipy.signal import savgol_filter    # imported on use: scipy.signal takes ~0.7 s to load
     acc = savgol_filter(v if uniform else np.interp(grid, t, v), n, _POLYORDER, deriv=1, delta=dt, mode="interp")
     return acc if uniform else np.interp(t, grid, acc)
 
@@ -126,6 +126,7 @@ def smoothed_channel(time_s, values, window_s: float) -> np.ndarray:
     n = _odd_window(window_s, dt, grid.size)
     if n <= _POLYORDER:
         return y.copy()
+    from scipy.signal import savgol_filter
     filtered = savgol_filter(y if uniform else np.interp(grid, t, y), n, _POLYORDER, mode="interp")
     return filtered if uniform else np.interp(t, grid, filtered)
 

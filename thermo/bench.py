@@ -15,6 +15,8 @@ Measured side by side in one run (medians over repeats):
   configurations (link conductances scaled at random by 0.8-1.2) on the graded grid in the
   linearised mode, configurations side by side in lanes, the whole hour driven in one kernel call
   (--quick: ``batch_laps_measured`` laps, scaled to the hour) (``batch_s_per_config``);
+- start-up: a fresh interpreter running ``brakeheat --help`` and ``import thermo``, beside a bare
+  interpreter (``startup``);
 - the settled lap (``thermo.chain.settle``, model already built; the build is ``model_build_s``)
   against simulating lap by lap until within 1 K.
 """
@@ -95,6 +97,22 @@ def stint(net, model, schedule, T0, settings, laps):
     return peaks
 
 
+STARTUP_TARGET_S = 0.3      # issue 14: `brakeheat --help`
+
+
+def startup_s(repeats: int = 5) -> dict:
+    """Median wall time of a fresh interpreter running `brakeheat --help` and `import thermo` [s]."""
+    import subprocess
+
+    def fresh(code):
+        return lambda: subprocess.run([sys.executable, "-c", code], capture_output=True, check=True)
+    help_s, _ = _timed(fresh("from thermo.cli.main import main; import sys; sys.argv = ['brakeheat', '--help']\n"
+                             "try:\n    main()\nexcept SystemExit:\n    pass"), repeats)
+    import_s, _ = _timed(fresh("import thermo"), repeats)
+    bare_s, _ = _timed(fresh("pass"), repeats)
+    return {"help_s": help_s, "import_thermo_s": import_s, "bare_python_s": bare_s, "target_help_s": STARTUP_TARGET_S}
+
+
 def run(quick: bool = False) -> dict:
     scenario = load_scenario(_demo_path())
     repeats = 1 if quick else 3
@@ -106,6 +124,7 @@ def run(quick: bool = False) -> dict:
     reference = SolverSettings(method="Radau", rtol=1e-8 if quick else 1e-9, atol_k=1e-6 if quick else 1e-7)
     ref_peaks = stint(net, model, schedule, T0, reference, laps)
     result = {"machine": machine(), "quick": quick, "stint_laps": laps, "corner": design.name,
+              "startup": startup_s(3 if quick else 7),
               "reference": f"Radau rtol {reference.rtol:g} atol_k {reference.atol_k:g}"}
     wall, err = {}, {}
     for name, st in (("rk45_baseline", BASELINE), ("lsoda", LSODA), ("fast", FAST)):
@@ -186,6 +205,9 @@ def _text(r: dict) -> str:
                  f"(model build included)")
     lines.append("  batch_s_per_config (1-hour stint): " + ", ".join(f"{k}: {v * 1e3:.1f} ms" for k, v in
                                                                    r["batch_s_per_config"].items()))
+    st = r["startup"]
+    lines.append(f"  start-up: brakeheat --help {st['help_s']:.2f} s (target < {st['target_help_s']:g} s), "
+                 f"import thermo {st['import_thermo_s']:.2f} s, bare python {st['bare_python_s']:.2f} s")
     s = r["settle"]
     lines.append(f"  settled lap {s['settled_lap_s']:.3f} s vs simulating {s['laps_to_1k']} laps to within 1 K "
                  f"{s['simulate_to_1k_s']:.3f} s (model build {s['model_build_s']:.2f} s not included)")

@@ -1,15 +1,25 @@
 """What a run shows the engineer: JSON summary, HDF5 results file, terminal report, plots.
 
-These modules read :class:`thermo.results.Results` objects and never run a model.
+These modules read :class:`thermo.results.Results` objects and never run a model. Names are
+imported on first use, so that a `--json` run loads neither h5py nor matplotlib.
 """
-from thermo.output.atomic import atomic_path, atomic_write
-from thermo.output.errors import OutputError
-from thermo.output.hdf5 import read_results_hdf5, write_results_hdf5
-from thermo.output.plots import plot_comparison, plot_run
-from thermo.output.report import format_run_report
-from thermo.output.summary import summary_dict, write_summary_json
+_PUBLIC = {
+    "OutputError": "thermo.output.errors", "atomic_path": "thermo.output.atomic",
+    "atomic_write": "thermo.output.atomic", "format_run_report": "thermo.output.report",
+    "plot_comparison": "thermo.output.plots", "plot_run": "thermo.output.plots",
+    "read_results_hdf5": "thermo.output.hdf5", "summary_dict": "thermo.output.summary",
+    "write_results_hdf5": "thermo.output.hdf5", "write_summary_json": "thermo.output.summary",
+}
 
-__all__ = [
-    "OutputError", "atomic_path", "atomic_write", "format_run_report", "plot_comparison", "plot_run",
-    "read_results_hdf5", "summary_dict", "write_results_hdf5", "write_summary_json",
-]
+__all__ = list(_PUBLIC)
+
+
+def __getattr__(name):
+    if name in _PUBLIC:
+        import importlib
+        return getattr(importlib.import_module(_PUBLIC[name]), name)
+    raise AttributeError(f"module 'thermo.output' has no attribute {name!r}")
+
+
+def __dir__():
+    return sorted(list(globals()) + list(_PUBLIC))
