@@ -4,6 +4,8 @@ This package knows nothing of brakes' heat: it never imports ``thermo``. Its nam
 on first use, so that importing one small module of it (``lapdata.echo``, ``lapdata.units``)
 does not load numpy's and scipy's signal tools.
 """
+from lapdata.lazy import lazy_exports
+
 _PUBLIC = {
     "LapDataError": "lapdata.errors", "LapTrace": "lapdata.trace", "read_trace_csv": "lapdata.reader",
     "resample_uniform": "lapdata.signal", "smoothed_acceleration": "lapdata.signal",
@@ -14,13 +16,4 @@ _PUBLIC = {
 
 __all__ = list(_PUBLIC)
 
-
-def __getattr__(name):
-    if name in _PUBLIC:
-        import importlib
-        return getattr(importlib.import_module(_PUBLIC[name]), name)
-    raise AttributeError(f"module 'lapdata' has no attribute {name!r}")
-
-
-def __dir__():
-    return sorted(list(globals()) + list(_PUBLIC))
+__getattr__, __dir__ = lazy_exports("lapdata", _PUBLIC)

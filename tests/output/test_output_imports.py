@@ -4,7 +4,7 @@ from pathlib import Path
 
 import thermo.output
 
-ALLOWED = {"thermo", "thermo.results", "thermo.errors", "thermo.output", "lapdata.units", "lapdata.echo"}
+ALLOWED = {"thermo", "thermo.results", "thermo.errors", "thermo.output", "lapdata.units", "lapdata.echo", "lapdata.lazy"}
 FORBIDDEN_TOP = {"thermo.solver", "thermo.network", "thermo.corner", "thermo.duty", "thermo.scenario",
                  "thermo.cli", "matplotlib.pyplot"}
 

@@ -3,6 +3,8 @@
 These modules read :class:`thermo.results.Results` objects and never run a model. Names are
 imported on first use, so that a `--json` run loads neither h5py nor matplotlib.
 """
+from lapdata.lazy import lazy_exports
+
 _PUBLIC = {
     "OutputError": "thermo.output.errors", "atomic_path": "thermo.output.atomic",
     "atomic_write": "thermo.output.atomic", "format_run_report": "thermo.output.report",
@@ -13,13 +15,4 @@ _PUBLIC = {
 
 __all__ = list(_PUBLIC)
 
-
-def __getattr__(name):
-    if name in _PUBLIC:
-        import importlib
-        return getattr(importlib.import_module(_PUBLIC[name]), name)
-    raise AttributeError(f"module 'thermo.output' has no attribute {name!r}")
-
-
-def __dir__():
-    return sorted(list(globals()) + list(_PUBLIC))
+__getattr__, __dir__ = lazy_exports("thermo.output", _PUBLIC)
