@@ -37,7 +37,8 @@ import numpy as np
 from thermo.chain.race import DEFAULT_MAX_STRIDE, race, repeated_laps
 from thermo.chain.settle import lap_setup, settled_lap
 from thermo.scenario import load_scenario
-from thermo.solver.batch import graded_grid, kernel_inputs, kernel_network, lane_width, scaled
+from thermo.solver.batch import kernel_inputs, kernel_network, lane_width, scaled
+from thermo.solver.grids import graded_grid
 from thermo.solver.scipy_solve import solve_network
 from thermo.solver.settings import SolverSettings
 

@@ -13,7 +13,8 @@ from thermo.errors import SolveError
 from thermo.network import Schedule
 from thermo.scenario import load_scenario
 from thermo.solver import SolverSettings, kernel
-from thermo.solver.batch import graded_grid, kernel_inputs, kernel_network, scaled
+from thermo.solver.batch import kernel_inputs, kernel_network, scaled
+from thermo.solver.grids import graded_grid
 
 N_LAPS = 4
 

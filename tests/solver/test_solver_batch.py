@@ -9,7 +9,8 @@ from thermo.errors import ModelError
 from thermo.network import Conduction, Network
 from thermo.network.assemble import compile_network
 from thermo.solver import SolverSettings, solve_network
-from thermo.solver.batch import batch_network, graded_grid, kernel_network, scaled, solve_batch
+from thermo.solver.batch import batch_network, kernel_network, scaled, solve_batch
+from thermo.solver.grids import graded_grid
 
 FAST = SolverSettings(method="fast", max_step_s=0.25)
 

@@ -6,7 +6,8 @@ from test_solver_fast_kernel import tabulated_network
 from test_solver_methods import nonlinear_schedule
 from thermo.network import Boundary, Conduction, HeatCapacity, Network, Node, Schedule
 from thermo.solver import SolverSettings, solve_network
-from thermo.solver.batch import graded_grid, kernel_network, solve_batch
+from thermo.solver.batch import kernel_network, solve_batch
+from thermo.solver.grids import graded_grid
 
 FAST = SolverSettings(method="fast", max_step_s=0.25)
 

@@ -1,7 +1,7 @@
 """Expand a scenario's plan into segments on one time axis: each lap, each stop, the soak."""
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from lapdata.errors import LapDataError
 from lapdata.laps import limit_speed_over_distance, paced, stationary
@@ -9,7 +9,7 @@ from lapdata.reader import read_trace_csv
 from lapdata.track import build_speed_trace, read_track_toml
 from lapdata.trace import LapTrace
 from thermo.errors import ScenarioError
-from thermo.scenario.model import Phase, Scenario
+from thermo.scenario.model import Phase, Scenario, StintTemplate
 
 
 @dataclass(frozen=True)
@@ -64,7 +64,6 @@ def _lap_for(phase: Phase, lap: LapTrace, sample_hz: float) -> LapTrace:
 
 
 def _zero_based(trace: LapTrace) -> LapTrace:
-    from dataclasses import replace
     return replace(trace, time_s=trace.time_s - trace.time_s[0], distance_m=trace.distance_m - trace.distance_m[0])
 
 
@@ -82,49 +81,97 @@ def _check_plan_size(scenario: Scenario, phase, t_s: float, samples: int) -> Non
                             f"'{phase.name}'; lower sample_hz or the lap counts")
 
 
-def expand_plan(scenario: Scenario, lap: LapTrace | None = None) -> tuple[PlanSegment, ...]:
-    """Segments of the whole plan, in order, with the fuel on board in each.
+def written_phases(plan) -> tuple[Phase, ...]:
+    """Every phase as the scenario writes it, templates' phases once each, in run order."""
+    return plan.phases + tuple(ph for stint in plan.stints for ph in stint.phases) + plan.finish
 
-    Fuel burns at the scenario's consumption per lap, scaled by the phase pace (a slower lap uses
-    less); a pit stop refuels (capped at the tank capacity). Running dry is an error naming the lap.
-    """
-    lap = base_lap(scenario) if lap is None else lap
-    if scenario.power_method == "pressure" and any(ph.kind in ("in_lap", "out_lap") and ph.pit_lane_length_m > 0
-                                                    for ph in scenario.plan.phases):
-        raise ScenarioError(f"{scenario.path}: power_method = \"pressure\" cannot re-time in/out laps for a pit "
-                            "lane; set pit_lane_length_m = 0 for those phases")
-    cache: dict[tuple, LapTrace] = {}
-    own_laps: dict = {}
-    segments, t, fuel, lap_no, samples = [], 0.0, scenario.vehicle.fuel_kg, 0, 0
-    for p_index, phase in enumerate(scenario.plan.phases):
-        if phase.driving:
-            key = (phase.kind, phase.pace, phase.pit_lane_length_m, phase.pit_lane_speed_m_s, phase.trace)
-            if key not in cache:
-                base = lap
-                if phase.trace is not None:
-                    if phase.trace not in own_laps:
-                        own_laps[phase.trace] = _read_lap(scenario, phase.trace)
-                    base = own_laps[phase.trace]
-                cache[key] = _lap_for(phase, base, scenario.plan.sample_hz)
-            trace = cache[key]
-            for _ in range(phase.count):
-                lap_no += 1
-                segments.append(PlanSegment(phase, p_index, lap_no, t, trace, fuel))
-                t += trace.duration_s
-                samples += trace.time_s.size
-                _check_plan_size(scenario, phase, t, samples)
-                fuel -= scenario.fuel_consumption_kg_per_lap * phase.pace
-                if fuel < -1e-9:
-                    raise ScenarioError(f"{scenario.path}: the fuel runs out on lap {lap_no} ({phase.name}); "
-                                        "add fuel_kg or a pit stop with refuel_kg")
-                fuel = max(fuel, 0.0)
-        else:
+
+def stint_phase(template: StintTemplate, run: int, phase: Phase) -> Phase:
+    """A template's phase in its ``run``-th repetition: named after the template and the run, with
+    new pads at its pit stops when the run is a multiple of ``pad_change_every``."""
+    change = phase.pad_change or (phase.kind == "pit_stop" and template.pad_change_every > 0
+                                  and run % template.pad_change_every == 0)
+    return replace(phase, name=f"{template.name} {run}: {phase.name}", pad_change=change)
+
+
+class _Expansion:
+    """The plan laid out segment by segment: the run clock, the fuel on board, the lap count."""
+
+    def __init__(self, scenario: Scenario, lap: LapTrace):
+        self.scenario, self.lap = scenario, lap
+        self.cache: dict[tuple, LapTrace] = {}
+        self.own_laps: dict = {}
+        self.segments: list[PlanSegment] = []
+        self.t, self.fuel, self.lap_no, self.samples, self.index = 0.0, scenario.vehicle.fuel_kg, 0, 0, -1
+
+    def _lap_trace(self, phase: Phase) -> LapTrace:
+        key = (phase.kind, phase.pace, phase.pit_lane_length_m, phase.pit_lane_speed_m_s, phase.trace)
+        if key not in self.cache:
+            base = self.lap
+            if phase.trace is not None:
+                if phase.trace not in self.own_laps:
+                    self.own_laps[phase.trace] = _read_lap(self.scenario, phase.trace)
+                base = self.own_laps[phase.trace]
+            self.cache[key] = _lap_for(phase, base, self.scenario.plan.sample_hz)
+        return self.cache[key]
+
+    def _append(self, phase: Phase, lap_index: int, trace: LapTrace) -> None:
+        self.segments.append(PlanSegment(phase, self.index, lap_index, self.t, trace, self.fuel))
+        self.t += trace.duration_s
+        self.samples += trace.time_s.size
+        _check_plan_size(self.scenario, phase, self.t, self.samples)
+
+    def add(self, phase: Phase, until_s: float = 0.0) -> bool:
+        """Lay out one phase; True when the flag fell in it (a lap ended at or after ``until_s`` > 0),
+        in which case its remaining laps are not run."""
+        scenario = self.scenario
+        self.index += 1
+        if not phase.driving:
             trace = stationary(phase.duration_s, scenario.plan.soak_sample_s if phase.kind == "soak"
                                else min(scenario.plan.soak_sample_s, 0.5), phase.name)
             if phase.kind == "pit_stop":
-                fuel = min(fuel + phase.refuel_kg, scenario.fuel_capacity_kg)
-            segments.append(PlanSegment(phase, p_index, 0, t, trace, fuel))
-            t += trace.duration_s
-            samples += trace.time_s.size
-            _check_plan_size(scenario, phase, t, samples)
-    return tuple(segments)
+                self.fuel = scenario.fuel_capacity_kg if phase.refuel_full else min(self.fuel + phase.refuel_kg,
+                                                                                    scenario.fuel_capacity_kg)
+            self._append(phase, 0, trace)
+            return False
+        trace = self._lap_trace(phase)
+        for _ in range(phase.count):
+            self.lap_no += 1
+            self._append(phase, self.lap_no, trace)
+            self.fuel -= scenario.fuel_consumption_kg_per_lap * phase.pace
+            if self.fuel < -1e-9:
+                raise ScenarioError(f"{scenario.path}: the fuel runs out on lap {self.lap_no} ({phase.name}); "
+                                    "add fuel_kg or a pit stop with refuel_kg or refuel_full")
+            self.fuel = max(self.fuel, 0.0)
+            if until_s > 0 and self.t >= until_s:
+                return True
+        return False
+
+
+def expand_plan(scenario: Scenario, lap: LapTrace | None = None) -> tuple[PlanSegment, ...]:
+    """Segments of the whole plan, in order, with the fuel on board in each.
+
+    The run is ``[[plan.phases]]``, then each stint template repeated (``repeat`` times, or until
+    a lap ends at or after its ``until_h``: the flag ends that stint, the rest of it is skipped),
+    then ``[[plan.finish]]``. Fuel burns at the scenario's consumption per lap, scaled by the phase
+    pace (a slower lap uses less); a pit stop refuels (capped at the tank capacity). Running dry
+    is an error naming the lap.
+    """
+    lap = base_lap(scenario) if lap is None else lap
+    plan = scenario.plan
+    if scenario.power_method == "pressure" and any(ph.kind in ("in_lap", "out_lap") and ph.pit_lane_length_m > 0
+                                                    for ph in written_phases(plan)):
+        raise ScenarioError(f"{scenario.path}: power_method = \"pressure\" cannot re-time in/out laps for a pit "
+                            "lane; set pit_lane_length_m = 0 for those phases")
+    out = _Expansion(scenario, lap)
+    for phase in plan.phases:
+        out.add(phase)
+    for template in plan.stints:
+        run = 0
+        while (template.repeat == 0 or run < template.repeat) and not (template.until_s and out.t >= template.until_s):
+            run += 1
+            if any(out.add(stint_phase(template, run, phase), template.until_s) for phase in template.phases):
+                break
+    for phase in plan.finish:
+        out.add(phase)
+    return tuple(out.segments)

@@ -27,7 +27,8 @@ import numpy as np
 
 from thermo.errors import ModelError, SolveError
 from thermo.solver import kernel
-from thermo.solver.batch import graded_grid, kernel_inputs, kernel_network
+from thermo.solver.batch import kernel_inputs, kernel_network
+from thermo.solver.grids import graded_grid
 from thermo.solver.settings import SolverSettings
 
 DEFAULT_MAX_STRIDE = 16

@@ -136,7 +136,7 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
     warned = set()     # pad warnings given this stint ('near', 'below'); a pad change starts a new stint
     for segment, duties in zip(segments, duties_by_segment):
         duty = duties[design.name]
-        if segment.phase.kind == "pit_stop" and segment.phase.pad_change:
+        if segment.phase.kind == "pit_stop" and (segment.phase.pad_change or thickness < segment.phase.pad_change_below_m):
             stint_thickness.append((segment.phase.name, thickness))
             old = [model.network.nodes[k].heat_capacity.enthalpy(T[k]) for k in (*i_pads, i_back)]
             thickness = design.pad.thickness_m
@@ -271,7 +271,9 @@ def _realised_partition(model: CornerModel, heat_in_j: float, direct_j: float, l
     positive) [-]."""
     if heat_in_j <= 0:
         return float(model.heat_partition)
-    crossed = float(link_energy_j[model.network.link_names.index("pad_disc_interface")])
+    names = model.network.link_names
+    crossed = float(sum(link_energy_j[names.index(name)] for name in ("pad_disc_interface", "pad_disc_interface_clamped")
+                        if name in names))
     return float((direct_j + crossed) / heat_in_j)
 
 

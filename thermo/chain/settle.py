@@ -33,7 +33,8 @@ from thermo.corner.build import build_corner
 from thermo.errors import ScenarioError, SolveError
 from thermo.network.assemble import compile_network
 from thermo.solver import kernel
-from thermo.solver.batch import graded_grid, kernel_inputs, kernel_network, scaled, solve_batch
+from thermo.solver.batch import kernel_inputs, kernel_network, scaled, solve_batch
+from thermo.solver.grids import graded_grid
 from thermo.solver.scipy_solve import solve_network
 from thermo.solver.settings import SolverSettings
 

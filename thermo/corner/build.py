@@ -325,8 +325,12 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
         sources = [HeatSource(surface, SIGNAL_DISC_HEAT, direct), HeatSource(surface, SIGNAL_PAD_HEAT, direct),
                    HeatSource(pad_face, SIGNAL_DISC_HEAT, 1.0 - direct), HeatSource(pad_face, SIGNAL_PAD_HEAT, 1.0 - direct)]
         g_applied = interface.applied_conductance(r_disc_face, r_pad_face)
-        links.append(Convection("pad_disc_interface", pad_face, surface, SIGNAL_CLAMP,
-                                interface.ClampedContact(g_applied, g_rest), "pad_interface"))
+        # resting contact always, and the rest of the clamped conductance in proportion to the clamp:
+        # G = G_rest + (G_applied - G_rest) clamp, as two links so that the tabulated part holds no
+        # geometry (a pad rebuilt as it wears reuses the same table)
+        links.append(Conduction("pad_disc_interface", pad_face, surface, g_rest, "pad_interface"))
+        links.append(Convection("pad_disc_interface_clamped", pad_face, surface, SIGNAL_CLAMP,
+                                interface.ClampShare(), "pad_interface", scale=max(g_applied - g_rest, 0.0)))
     else:
         sources = [HeatSource(surface, SIGNAL_DISC_HEAT, 1.0), HeatSource(pad_face, SIGNAL_PAD_HEAT, 1.0)]
         links.append(Conduction("pad_disc_interface", pad_face, surface, g_rest, "pad_interface"))

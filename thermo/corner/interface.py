@@ -44,18 +44,14 @@ def rest_conductance(r_disc_k_w: float, r_pad_k_w: float, contact_w_m2k: float, 
 
 
 @dataclass(frozen=True)
-class ClampedContact:
-    """G(clamp, T_pad, T_disc) = G_rest + (G_applied - G_rest) clamp, clamp in [0, 1] [W/K].
+class ClampShare:
+    """G(clamp, T_pad, T_disc) = clamp, clamp in [0, 1] [-]: the clamped part of the interface
+    conductance per W/K of (G_applied - G_rest), which the link's scale carries.
 
     ``clamp`` is the schedule signal ``pad_clamp``: 1 while the brake is applied (friction heat
-    above zero), 0 between applications, linear in between like every signal. The conductance
-    does not depend on the temperatures.
+    above zero), 0 between applications, linear in between like every signal.
     """
-
-    applied_w_k: float
-    rest_w_k: float
 
     def __call__(self, clamp, pad_k, disc_k):
         shape = np.broadcast_shapes(np.shape(clamp), np.shape(pad_k), np.shape(disc_k))
-        s = np.clip(np.broadcast_to(np.asarray(clamp, dtype=float), shape), 0.0, 1.0)
-        return self.rest_w_k + (self.applied_w_k - self.rest_w_k) * s
+        return np.clip(np.broadcast_to(np.asarray(clamp, dtype=float), shape), 0.0, 1.0)

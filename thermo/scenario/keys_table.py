@@ -17,6 +17,8 @@ def sections() -> list[tuple[str, dict[str, Field]]]:
     plan = out.index(("[plan]", S.PLAN)) + 1
     for i, (kind, table) in enumerate(S.PHASES.items()):
         out.insert(plan + i, (f'[[plan.phases]] type = "{kind}"', {"name": S.PHASE_COMMON["name"], **table}))
+    # a template's own phases ([[plan.stints.phases]]) and [[plan.finish]] take the phase keys above
+    out.insert(plan + len(S.PHASES), ("[[plan.stints]]", S.STINT))
     return out
 
 

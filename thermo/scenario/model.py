@@ -29,7 +29,9 @@ class Phase:
     pit_lane_length_m: float = 0.0
     duration_s: float = 0.0
     pad_change: bool = False
+    pad_change_below_m: float = 0.0    # pit stop: new pads on a corner whose pad is thinner (0: off)
     refuel_kg: float = 0.0
+    refuel_full: bool = False          # pit stop: fill the tank to the car's capacity
     trace: Path | None = None          # this phase's own logged lap (None: the plan's lap)
 
     @property
@@ -73,8 +75,25 @@ class Ambient:
 
 
 @dataclass(frozen=True)
+class StintTemplate:
+    """A stint written once and run ``repeat`` times, or until the run clock reaches ``until_s``.
+
+    ``repeat`` 0 means once without ``until_s`` and without limit with it (the plan's size bounds
+    still hold). ``pad_change_every`` n > 0 puts new pads on at the pit stops of every n-th run of
+    the template. The expansion into phases is ``thermo.chain.plan.plan_phases``.
+    """
+
+    name: str
+    phases: tuple[Phase, ...]
+    repeat: int = 0
+    until_s: float = 0.0
+    pad_change_every: int = 0
+
+
+@dataclass(frozen=True)
 class Plan:
-    """Where the laps come from and the ordered phases."""
+    """Where the laps come from, and the order of the run: ``phases``, then each stint template
+    in turn (``stints``), then ``finish``."""
 
     lap_source: str                 # 'track' or 'trace'
     lap_path: Path
@@ -82,6 +101,8 @@ class Plan:
     soak_sample_s: float
     phases: tuple[Phase, ...]
     repair_trace: bool = False
+    stints: tuple[StintTemplate, ...] = ()
+    finish: tuple[Phase, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -93,10 +114,15 @@ class SolverChoice:
     atol_k: float
     output_hz: float                # stored series rate [Hz]; 0 = every sample (peaks always kept)
     wall_clock_limit_s: float       # a run taking longer stops with an error [s]
+    max_stride: int                 # fast: longest step off the brakes [samples]
+    linearised: bool                # fast: linearised steps, no Newton iteration
 
     def settings(self) -> SolverSettings:
         """The integrator settings this table asks for (the one conversion, used by every study)."""
-        return SolverSettings(method=self.method, rtol=self.rtol, atol_k=self.atol_k)
+        if self.method != "fast":
+            return SolverSettings(method=self.method, rtol=self.rtol, atol_k=self.atol_k)
+        return SolverSettings(method=self.method, rtol=self.rtol, atol_k=self.atol_k, max_stride=self.max_stride,
+                              linearised=self.linearised)
 
 
 @dataclass(frozen=True)

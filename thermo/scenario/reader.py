@@ -21,7 +21,7 @@ from thermo.scenario import schema as S
 from thermo.scenario.convert import convert_table, reject_unknown
 from thermo.scenario.calibration import parse_calibration
 from thermo.scenario.model import (
-    PHASE_KINDS, Ambient, Phase, Plan, PadWear, Scenario, SolverChoice,
+    PHASE_KINDS, Ambient, Phase, Plan, PadWear, Scenario, SolverChoice, StintTemplate,
 )
 from thermo.scenario.overrides import apply_overrides
 
@@ -46,7 +46,7 @@ def scenario_from_dict(raw: dict, *, path: Path, text: str = "", overrides=()) -
     for name in ("car", "corners", "plan"):
         if name not in data:
             raise ScenarioError(f"{source}: missing section [{name}]")
-    sec = {name: convert_table(name, _without(data.get(name, {}), "phases" if name == "plan" else None), schema, source)
+    sec = {name: convert_table(name, _without(data.get(name, {}), *(PLAN_LISTS if name == "plan" else ())), schema, source)
            for name, schema in S.SECTIONS.items()}
 
     ambient = _ambient(sec["ambient"], source)
@@ -97,9 +97,12 @@ def scenario_from_dict(raw: dict, *, path: Path, text: str = "", overrides=()) -
         calibration=parse_calibration(data.get("calibration"), corners, source))
 
 
-def _without(table, key):
-    if isinstance(table, dict) and key in table:
-        return {k: v for k, v in table.items() if k != key}
+PLAN_LISTS = ("phases", "stints", "finish")     # the [plan] keys that are lists of tables, read by _plan
+
+
+def _without(table, *keys):
+    if isinstance(table, dict) and any(key in table for key in keys):
+        return {k: v for k, v in table.items() if k not in keys}
     return table
 
 
@@ -249,27 +252,60 @@ def _plan(p: dict, raw_plan: dict, path: Path, source: str) -> Plan:
     if not name:
         raise ScenarioError(f"{source}: [plan] lap_source = \"{key}\" needs {key} = \"FILE\"")
     lap_path = (path.parent / name) if not Path(name).is_absolute() else Path(name)
-    phases_raw = raw_plan.get("phases")
-    if not isinstance(phases_raw, list) or not phases_raw:
-        raise ScenarioError(f"{source}: [plan] needs at least one [[plan.phases]] entry")
+    phases = _phase_list(raw_plan, "phases", "plan.phases", path, source)
+    finish = _phase_list(raw_plan, "finish", "plan.finish", path, source)
+    stints = tuple(_stint(raw, i, path, source) for i, raw in enumerate(_table_list(raw_plan, "stints", "plan.stints", source), start=1))
+    if not phases and not stints:
+        raise ScenarioError(f"{source}: [plan] needs at least one [[plan.phases]] entry (or a [[plan.stints]] template)")
+    if not stints and not finish and phases[0].kind == "pit_stop" and len(phases) == 1:
+        raise ScenarioError(f"{source}: [plan] has only a pit stop: add laps")
+    ordered = [("plan.phases", ph) for ph in phases] + [("plan.stints", ph) for st in stints for ph in st.phases] \
+        + [("plan.finish", ph) for ph in finish]
+    soaks = [where for where, ph in ordered if ph.kind == "soak"]
+    if "plan.stints" in soaks:
+        raise ScenarioError(f"{source}: [plan.stints] a stint template cannot hold the soak (it would repeat): "
+                            "put it in [[plan.finish]]")
+    if len(soaks) > 1 or (soaks and ordered[-1][1].kind != "soak"):
+        raise ScenarioError(f"{source}: [plan] the soak must be the last phase of the run, and there can be only one")
+    return Plan(key, lap_path, p["sample_hz"], p["soak_sample_s"], phases, p["repair_trace"], stints, finish)
+
+
+def _table_list(raw: dict, key: str, where: str, source: str) -> list:
+    items = raw.get(key, [])
+    if not isinstance(items, list) or any(not isinstance(item, dict) for item in items):
+        raise ScenarioError(f"{source}: [{where}] must be a list of tables, written [[{where}]]")
+    return items
+
+
+def _phase_list(raw: dict, key: str, where: str, path: Path, source: str) -> tuple[Phase, ...]:
+    """The phases of one list of tables ([[plan.phases]], [[plan.finish]], a template's phases)."""
     phases = []
-    for i, ph in enumerate(phases_raw, start=1):
-        where = f"plan.phases #{i}"
-        if not isinstance(ph, dict) or "type" not in ph:
-            raise ScenarioError(f"{source}: [{where}] needs a type ({', '.join(PHASE_KINDS)})")
+    for i, ph in enumerate(_table_list(raw, key, where, source), start=1):
+        at = f"{where} #{i}"
+        if "type" not in ph:
+            raise ScenarioError(f"{source}: [{at}] needs a type ({', '.join(PHASE_KINDS)})")
         kind = ph["type"]
         if not isinstance(kind, str) or kind not in S.PHASES:
             from thermo.scenario.convert import suggestion
-            raise ScenarioError(f"{source}: [{where}] unknown phase type {shown(kind)}{suggestion(str(kind), S.PHASES)}; "
+            raise ScenarioError(f"{source}: [{at}] unknown phase type {shown(kind)}{suggestion(str(kind), S.PHASES)}; "
                                 f"expected one of: {', '.join(PHASE_KINDS)}")
-        values = convert_table(where, ph, {**S.PHASE_COMMON, **S.PHASES[kind]}, source)
-        values["name"] = values["name"] or f"{kind} {i}"
+        values = convert_table(at, ph, {**S.PHASE_COMMON, **S.PHASES[kind]}, source)
+        values["name"] = values["name"] or {"plan.phases": f"{kind} {i}", "plan.finish": f"finish: {kind}"}.get(where, kind)
         if "trace" in values:
             own = values.pop("trace")
             values["trace"] = (path.parent / own if not Path(own).is_absolute() else Path(own)) if own else None
         phases.append(Phase(**values))
-    if phases[0].kind in ("pit_stop",) and len(phases) == 1:
-        raise ScenarioError(f"{source}: [plan] has only a pit stop: add laps")
-    if sum(1 for ph in phases if ph.kind == "soak") > 1 or (any(ph.kind == "soak" for ph in phases) and phases[-1].kind != "soak"):
-        raise ScenarioError(f"{source}: [plan] the soak must be the last phase, and there can be only one")
-    return Plan(key, lap_path, p["sample_hz"], p["soak_sample_s"], tuple(phases), p["repair_trace"])
+    return tuple(phases)
+
+
+def _stint(raw: dict, index: int, path: Path, source: str) -> StintTemplate:
+    where = f"plan.stints #{index}"
+    values = convert_table(where, _without(raw, "phases"), S.STINT, source)
+    phases = _phase_list(raw, "phases", f"{where} phases", path, source)
+    if not any(ph.driving for ph in phases):
+        raise ScenarioError(f"{source}: [{where}] needs [[plan.stints.phases]] with at least one lap "
+                            "(laps, out_lap, in_lap or safety_car)")
+    if values["repeat"] == 0 and values["until_s"] == 0:
+        values["repeat"] = 1
+    return StintTemplate(name=values["name"] or "stint", phases=phases, repeat=values["repeat"],
+                         until_s=values["until_s"], pad_change_every=values["pad_change_every"])

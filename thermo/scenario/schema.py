@@ -107,9 +107,26 @@ PHASES = {
     "in_lap": {"pace": f("pace", 0.8, minimum=0.05, maximum=1.0),
                "pit_lane_speed_kmh": f("pit_lane_speed_m_s", 60.0, factor=KMH, minimum=5.0, maximum=150.0),
                "pit_lane_length_m": f("pit_lane_length_m", 300.0, minimum=0.0, maximum=3000.0), **_PHASE_TRACE},
-    "pit_stop": {"duration_s": f("duration_s", minimum=0.1, maximum=3600.0), "pad_change": f("pad_change", False, kind=bool),
-                 "refuel_kg": f("refuel_kg", 0.0, minimum=0.0, maximum=500.0)},
+    "pit_stop": {"duration_s": f("duration_s", minimum=0.1, maximum=3600.0),
+                 "pad_change": f("pad_change", False, kind=bool, doc="new pads on every corner at this stop"),
+                 "pad_change_below_mm": mm("pad_change_below_m", 0.0, maximum=100.0,
+                                           doc="new pads on each corner whose pad is thinner than this at the stop; 0: off"),
+                 "refuel_kg": f("refuel_kg", 0.0, minimum=0.0, maximum=500.0),
+                 "refuel_full": f("refuel_full", False, kind=bool, doc="fill the tank to fuel_capacity_kg (refuel_kg then ignored)")},
     "soak": {"duration_s": f("duration_s", minimum=1.0, maximum=172800.0, doc="up to 48 h")},
+}
+
+# [[plan.stints]]: a stint template, repeated; its own phases are [[plan.stints.phases]] (any phase
+# type but the soak). The plan runs [[plan.phases]], then each template in turn, then [[plan.finish]].
+STINT = {
+    "name": f("name", "", kind=str, doc="names the expanded phases, e.g. \"stint 3: laps\"; empty: \"stint\""),
+    "repeat": f("repeat", 0, kind=int, minimum=0, maximum=1000,
+                doc="times the template runs; 0: once, or without limit up to until_h"),
+    "until_h": f("until_s", 0.0, factor=3600.0, minimum=0.0, maximum=48.0,
+                 doc="hours from the start of the run: the template ends at the first lap end at or after it "
+                     "(the chequered flag), skipping the rest of that stint; 0: no time limit"),
+    "pad_change_every": f("pad_change_every", 0, kind=int, minimum=0, maximum=1000,
+                          doc="new pads at the pit stops of every n-th repetition; 0: as the phases say"),
 }
 
 PAD_WEAR = {
@@ -126,6 +143,11 @@ SOLVER = {
     "rtol": f("rtol", 1.0e-6, minimum=1e-12, maximum=0.1),
     "atol_k": f("atol_k", 1.0e-4, minimum=1e-12, maximum=10.0),
     "output_hz": f("output_hz", 0.0, minimum=0.0, doc="0 = every input sample", maximum=1000.0),
+    "max_stride_samples": f("max_stride", 8, kind=int, minimum=1, maximum=256,
+                            doc="fast: longest step off the brakes, in input samples (every sample while braking); "
+                                "1 = every sample"),
+    "linearised": f("linearised", False, kind=bool,
+                    doc="fast: one linearised solve a step instead of Newton iterations"),
     "wall_clock_limit_s": f("wall_clock_limit_s", 3600.0, minimum=1.0, maximum=7.0 * 86400.0,
                             doc="a run taking longer stops with an error"),
 }

@@ -21,8 +21,8 @@ Entry points
 """
 from __future__ import annotations
 
+import functools
 import os
-import weakref
 from dataclasses import dataclass, replace
 
 import numpy as np
@@ -36,8 +36,6 @@ from thermo.solver import kernel, kernel_lanes, kernel_linearised
 from thermo.solver.elimination import EliminationPlan, elimination_plan
 from thermo.solver.segments import output_grid, span, time_grid
 from thermo.solver.settings import SolverSettings
-
-_CACHE: "weakref.WeakKeyDictionary[CompiledNetwork, KernelNetwork | None]" = weakref.WeakKeyDictionary()
 
 
 @dataclass(frozen=True, eq=False)
@@ -101,6 +99,7 @@ class KernelNetwork:
     seg_slope: np.ndarray
     src: np.ndarray
     plan: EliminationPlan
+    varies_b: np.ndarray = None     # (P,) bool: table p changes along its boundary axis (None: work it out)
 
     @property
     def size(self) -> int:
@@ -226,7 +225,7 @@ class KernelNetwork:
             if q < 0:
                 # a node-to-node link: sliced only where no table of the slot varies along the
                 # second end's temperature axis (then its value there is irrelevant)
-                if any(np.ptp(self.tables[int(t)], axis=2).max() != 0.0 for t in np.unique(self.tix[:, s])):
+                if any(self._varies_along_boundary(int(t)) for t in np.unique(self.tix[:, s])):
                     continue
                 k, fk = 0, 0.0
             else:
@@ -247,6 +246,12 @@ class KernelNetwork:
                 six[which.reshape(-1) == u, s] = index[key]
         sliced = np.ascontiguousarray(np.stack(slices)).reshape(-1) if slices else np.zeros(1)
         return sliced, slot_sliced, six
+
+    def _varies_along_boundary(self, table: int) -> bool:
+        """Whether table number ``table`` changes along its boundary-temperature axis."""
+        if self.varies_b is not None:
+            return bool(self.varies_b[table])
+        return bool(np.ptp(self.tables[table], axis=2).max() != 0.0)
 
     def subset(self, index) -> "KernelNetwork":
         """The configurations ``index`` (array of ints) of this batch."""
@@ -348,11 +353,14 @@ def batch_network(networks) -> KernelNetwork:
     conv_slot = np.full(L, -1, dtype=np.int64)
     conv_slot[net0.conv_idx] = np.arange(net0.conv_idx.size)
     unique, tix = {}, np.zeros((len(nets), net0.conv_idx.size), dtype=np.int64)
+    varies_b = None
     for b, fns in enumerate(fns_all):
         for s, fn in enumerate(fns):
             tix[b, s] = unique.setdefault(id(fn.table), (len(unique), fn.table))[0]
     if unique and len(nets) == 1 and len(unique) == net0.conv_idx.size:
         tables = np.ascontiguousarray(net0.conv_tables)        # already stacked in slot order: no copy
+    elif unique and len(nets) == 1:        # one network rebuilt (a worn pad): the same paths, the same stack
+        tables, varies_b = _unique_stack(tuple(fns_all[0]))
     elif unique:
         tables = np.ascontiguousarray(np.stack([t for _, t in sorted(unique.values(), key=lambda x: x[0])]))
     if unique:
@@ -380,14 +388,28 @@ def batch_network(networks) -> KernelNetwork:
         seg_hi=np.array([c.seg_hi for c in caps]).reshape(len(nets), -1),
         seg_slope=np.array([c.seg_slope for c in caps]).reshape(len(nets), -1),
         src=np.ascontiguousarray(np.array([net.source_matrix for net in nets]).reshape(len(nets), n, -1)),
-        plan=elimination_plan(n, [(a, b) for a, b in zip(net0.link_a, net0.link_b) if b < n]))
+        plan=elimination_plan(n, [(a, b) for a, b in zip(net0.link_a, net0.link_b) if b < n]), varies_b=varies_b)
+
+
+@functools.lru_cache(maxsize=16)
+def _unique_stack(functions: tuple) -> np.ndarray:
+    """The distinct tables of a network's tabulated conductances, stacked in first-use order (the
+    order ``batch_network`` numbers them in), and whether each varies along its boundary axis;
+    cached, since equal paths give equal stacks."""
+    unique = {}
+    for fn in functions:
+        unique.setdefault(id(fn.table), fn.table)
+    tables = np.ascontiguousarray(np.stack(list(unique.values())))
+    return tables, np.ptp(tables, axis=3).max(axis=(1, 2)) != 0.0
 
 
 def kernel_network(net: CompiledNetwork) -> KernelNetwork | None:
-    """The array form of one compiled network, built once and cached on it; None if not compilable."""
-    if net not in _CACHE:
-        _CACHE[net] = batch_network([net]) if _link_tables(net) is not None else None
-    return _CACHE[net]
+    """The array form of one compiled network, built once and kept on it (so it lives exactly as
+    long as the network: a chain that rebuilds a worn corner every lap frees each lap's copy);
+    None if not compilable."""
+    if not hasattr(net, "_kernel_network"):
+        net._kernel_network = batch_network([net]) if _link_tables(net) is not None else None
+    return net._kernel_network
 
 
 def scaled(base: KernelNetwork, link_scale=None, capacity_scale=None, source_scale=None) -> KernelNetwork:
@@ -441,40 +463,6 @@ def kernel_inputs(net: CompiledNetwork, schedule: Schedule, grid: np.ndarray) ->
         qs_mid = qs_full = np.zeros((h.size, 0))
     c = np.ascontiguousarray
     return KernelInputs(grid, c(h), c(bk_grid), c(drv_grid), c(bk_mid), c(drv_mid), c(qs_mid), c(qs_full))
-
-
-def graded_grid(schedule: Schedule, net: CompiledNetwork, t_start: float, t_end: float,
-                heated_stride: int = 1, max_stride: int = 8) -> np.ndarray:
-    """A subset of the schedule's samples: every ``heated_stride``-th while any source is on,
-    growing by one sample per step up to ``max_stride`` once it is off [s].
-
-    Every switch-on and switch-off sample is kept (the heat input is integrated exactly over each
-    step in any case); the gradual growth after a source switches off keeps a thin, fast node smooth.
-    """
-    if heated_stride < 1 or max_stride < heated_stride:
-        raise ModelError("batch: graded grid needs 1 <= heated_stride <= max_stride")
-    t = schedule.time_s
-    keep = (t > t_start) & (t < t_end)
-    idx = np.flatnonzero(keep)
-    table = np.array([schedule.signals[s] for s in net.source_signals]) if net.source_signals else np.zeros((0, t.size))
-    on = np.any(table != 0.0, axis=0)
-    chosen = [t_start]
-    k = 0
-    stride = heated_stride
-    while k < idx.size:
-        i = idx[k]
-        chosen.append(t[i])
-        if on[i] or (i + 1 < t.size and on[i + 1]):
-            stride = heated_stride
-        else:
-            stride = min(stride + 1, max_stride)
-        # never step over a switch-on: stop at the sample before it
-        nxt = k + stride
-        window = idx[k + 1:min(nxt, idx.size)]
-        hits = np.flatnonzero(on[np.minimum(window + 1, t.size - 1)]) if window.size else []
-        k = (k + 1 + int(hits[0])) if len(hits) else nxt
-    chosen.append(t_end)
-    return np.unique(np.asarray(chosen, dtype=float))
 
 
 @dataclass(frozen=True, eq=False)

@@ -135,7 +135,8 @@ def solve_network(network, schedule: Schedule, initial_k, settings: SolverSettin
     settings : SolverSettings  Integrator and tolerances (default ``SolverSettings()``)
     t_start, t_end : float or None  Solve interval, default the whole schedule [s]
     output_times : array_like or None  Output times within the interval, default the schedule's
-        samples there plus both ends [s]
+        samples there plus both ends (for 'fast' with ``settings.max_stride`` > 1: the points of
+        its graded step grid) [s]
     phase : str  Name of this phase, used in error messages
 
     Returns
@@ -160,5 +161,8 @@ def solve_network(network, schedule: Schedule, initial_k, settings: SolverSettin
         bad = net.node_names[int(np.argmax(~(np.isfinite(T0) & (T0 > 0))))]
         raise ModelError(f"solve_network: initial temperature of node '{bad}' must be a positive number of kelvin")
     a, b = span(schedule, t_start, t_end)
-    out_t = output_grid(schedule, a, b, output_times)
+    if output_times is None and settings.method == "fast" and settings.max_stride > 1:
+        out_t = None            # the graded step grid's points, chosen by the integrator
+    else:
+        out_t = output_grid(schedule, a, b, output_times)
     return INTEGRATORS[settings.method](net, schedule, T0, settings, a, b, out_t, phase)

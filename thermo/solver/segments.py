@@ -103,12 +103,18 @@ def time_grid(schedule: Schedule, t_start: float, t_end: float, out_t: np.ndarra
     """Schedule samples and output times in [t_start, t_end], long intervals split [s]."""
     t = schedule.time_s
     grid = np.union1d(np.concatenate([[t_start, t_end], t[(t > t_start) & (t < t_end)]]), out_t)
-    if max_step_s is not None:
-        h = np.diff(grid)
-        m = np.ceil(h / max_step_s - 1e-12).astype(int)
-        if np.any(m > 1):
-            parts = [grid[:1]]
-            for a, b, k in zip(grid[:-1], grid[1:], m):
-                parts.append(np.linspace(a, b, k + 1)[1:] if k > 1 else np.array([b]))
-            grid = np.concatenate(parts)
-    return grid
+    return split_long_steps(grid, max_step_s)
+
+
+def split_long_steps(grid: np.ndarray, max_step_s: float | None) -> np.ndarray:
+    """The grid with every interval longer than ``max_step_s`` split evenly (None: unchanged) [s]."""
+    if max_step_s is None:
+        return grid
+    h = np.diff(grid)
+    m = np.ceil(h / max_step_s - 1e-12).astype(int)
+    if not np.any(m > 1):
+        return grid
+    parts = [grid[:1]]
+    for a, b, k in zip(grid[:-1], grid[1:], m):
+        parts.append(np.linspace(a, b, k + 1)[1:] if k > 1 else np.array([b]))
+    return np.concatenate(parts)

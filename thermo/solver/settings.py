@@ -32,6 +32,11 @@ class SolverSettings:
         difference it numerically ('fast' then differences it too) [-]
     heated_max_step_samples : float  Bound on the step inside heated segments, in sample intervals
         of that segment [-]
+    max_stride : int  'fast' only: longest step while no heat source is on, in schedule samples;
+        1 steps on every sample, more steps on the graded grid of ``thermo.solver.batch.graded_grid``
+        (every sample while a source is on). The outputs are then the step grid's points [-]
+    linearised : bool  'fast' only: one linearised solve a step instead of Newton iterations
+        (``thermo.solver.kernel_linearised``; the tolerances then do not apply) [-]
     """
 
     method: str = "LSODA"
@@ -41,6 +46,8 @@ class SolverSettings:
     restart_at_edges: bool = True
     use_jacobian: bool = True
     heated_max_step_samples: float = 4.0
+    max_stride: int = 1
+    linearised: bool = False
 
     def __post_init__(self):
         if self.method not in METHODS:
@@ -55,7 +62,9 @@ class SolverSettings:
         if not (np.isfinite(self.heated_max_step_samples) and self.heated_max_step_samples > 0):
             raise ModelError("solver settings: heated_max_step_samples must be a positive number, "
                              f"got {shown(self.heated_max_step_samples)}")
-        for key in ("restart_at_edges", "use_jacobian"):
+        if isinstance(self.max_stride, bool) or not isinstance(self.max_stride, (int, np.integer)) or not 1 <= self.max_stride <= 256:
+            raise ModelError(f"solver settings: max_stride must be a whole number of samples from 1 to 256, got {shown(self.max_stride)}")
+        for key in ("restart_at_edges", "use_jacobian", "linearised"):
             if not isinstance(getattr(self, key), bool):
                 raise ModelError(f"solver settings: {key} must be true or false, got {shown(getattr(self, key))}")
         if self.method == "fast" and not self.restart_at_edges:
