@@ -18,7 +18,11 @@ Measured side by side in one run (medians over repeats):
 - start-up: a fresh interpreter running ``brakeheat --help`` and ``import thermo``, beside a bare
   interpreter (``startup``);
 - the settled lap (``thermo.chain.settle``, model already built; the build is ``model_build_s``)
-  against simulating lap by lap until within 1 K.
+  against simulating lap by lap until within 1 K;
+- the main command on a 24-hour race (``run24h``): ``brakeheat run scenarios/demo_24h.toml`` with
+  ``--json`` and with ``--out`` in a fresh interpreter each (CPU time, peak resident memory, the
+  size of results.h5), and 2 hours on the demo's logged lap resampled to 1 kHz (--quick: 2 hours
+  of the 24-hour plan and a quarter of an hour of the 1 kHz lap).
 """
 from __future__ import annotations
 
@@ -114,6 +118,70 @@ def startup_s(repeats: int = 5) -> dict:
     return {"help_s": help_s, "import_thermo_s": import_s, "bare_python_s": bare_s, "target_help_s": STARTUP_TARGET_S}
 
 
+# issue 14: the main command on a 24-hour race and on a long logged trace
+RUN24H_TARGETS = {"json_cpu_s": 3.0, "json_peak_mb": 500.0, "out_cpu_s": 6.0, "results_h5_mb": 100.0,
+                  "trace_1khz_2h_peak_mb": 1500.0}
+_CHILD = ("import resource, sys\n"
+          "from thermo.cli.main import main\n"
+          "code = main(sys.argv[1:])\n"
+          "u = resource.getrusage(resource.RUSAGE_SELF)\n"
+          "sys.stderr.write(f'\\nBENCH {u.ru_utime + u.ru_stime} {u.ru_maxrss}\\n')\n"
+          "sys.exit(code)\n")
+
+
+def _brakeheat(argv) -> tuple[float, float]:
+    """(CPU time [s], peak resident memory [MB]) of one `brakeheat ARGV` in a fresh interpreter."""
+    import subprocess
+    done = subprocess.run([sys.executable, "-c", _CHILD, *argv], capture_output=True, text=True)
+    line = [x for x in done.stderr.splitlines() if x.startswith("BENCH ")]
+    if done.returncode not in (0, 3) or not line:
+        raise RuntimeError(f"bench: brakeheat {' '.join(argv)} failed: {done.stderr.strip()[-500:]}")
+    cpu, rss_kb = line[-1].split()[1:]
+    return float(cpu), float(rss_kb) / 1024.0
+
+
+def _logged_trace_scenario(folder: Path, hours: float, rate_hz: float) -> Path:
+    """The demo car on its logged lap resampled to ``rate_hz``, stints of 24 laps for ``hours``
+    (a 40 s stop between them to refuel) and a soak."""
+    from lapdata.reader import read_trace_csv
+    from lapdata.signal import resample_uniform
+    demo = _demo_path()
+    lap = resample_uniform(read_trace_csv(demo.parent / "demo_lap.csv"), rate_hz)
+    g = 9.80665                                                      # standard gravity (CGPM 1901)
+    rows = np.column_stack([lap.time_s - lap.time_s[0], lap.distance_m - lap.distance_m[0], lap.speed_mps * 3.6,
+                            lap.pressure_front_pa / 1e5, lap.pressure_rear_pa / 1e5, lap.accel_long_mps2 / g])
+    trace = folder / "lap_1khz.csv"
+    np.savetxt(trace, rows, delimiter=",", fmt="%.6f",
+               header="time [s],distance [m],speed [km/h],pressure_front [bar],pressure_rear [bar],accel_long [g]",
+               comments="")
+    text = demo.read_text(encoding="utf-8").split("[plan]")[0] + (
+        f'[plan]\nlap_source = "trace"\ntrace = "{trace.name}"\nsample_hz = {rate_hz:g}\n\n'
+        f'[[plan.stints]]\nuntil_h = {hours:g}\n\n[[plan.stints.phases]]\ntype = "laps"\ncount = 24\n\n'
+        '[[plan.stints.phases]]\ntype = "pit_stop"\nduration_s = 40\nrefuel_full = true\n\n'
+        '[[plan.finish]]\ntype = "soak"\nduration_s = 600\n')
+    text = text.replace('track = "demo_circuit.toml"', "")
+    path = folder / "trace_1khz.toml"
+    path.write_text(text, encoding="utf-8")
+    return path
+
+
+def run24h(quick: bool = False) -> dict:
+    """`brakeheat run scenarios/demo_24h.toml` with --json and with --out (CPU, peak memory, results.h5
+    size), and a 2-hour run on a 1 kHz logged lap (peak memory), each in a fresh interpreter."""
+    import tempfile
+    path = _demo_path().parent / "demo_24h.toml"
+    hours = ["--set", "plan.stints.1.until_h=2"] if quick else []
+    out = {"hours": 2.0 if quick else 24.0, "targets": RUN24H_TARGETS}
+    out["json_cpu_s"], out["json_peak_mb"] = _brakeheat(["run", str(path), "--json", *hours])
+    with tempfile.TemporaryDirectory() as folder:
+        out["out_cpu_s"], out["out_peak_mb"] = _brakeheat(["run", str(path), "--quiet", "--out", folder, *hours])
+        out["results_h5_mb"] = (Path(folder) / "results.h5").stat().st_size / 1e6
+        trace = _logged_trace_scenario(Path(folder), 0.25 if quick else 2.0, 1000.0)
+        out["trace_1khz_hours"] = 0.25 if quick else 2.0
+        out["trace_1khz_cpu_s"], out["trace_1khz_2h_peak_mb"] = _brakeheat(["run", str(trace), "--json"])
+    return out
+
+
 def run(quick: bool = False) -> dict:
     scenario = load_scenario(_demo_path())
     repeats = 1 if quick else 3
@@ -181,6 +249,8 @@ def run(quick: bool = False) -> dict:
     result["speedup_vs_rk45_race_path"] = wall["rk45_baseline"] / wall["race_path"]
     result["peak_error_k"] = err
 
+    result["run24h"] = run24h(quick)
+
     # settled lap against lap-by-lap simulation until within 1 K
     setup = lap_setup(scenario, design.name)
     w_setup, _ = _timed(lambda: lap_setup(scenario, design.name), 1)
@@ -209,6 +279,14 @@ def _text(r: dict) -> str:
     st = r["startup"]
     lines.append(f"  start-up: brakeheat --help {st['help_s']:.2f} s (target < {st['target_help_s']:g} s), "
                  f"import thermo {st['import_thermo_s']:.2f} s, bare python {st['bare_python_s']:.2f} s")
+    h = r["run24h"]
+    t = h["targets"]
+    lines.append(f"  run24h ({h['hours']:g} h, brakeheat run demo_24h.toml): --json {h['json_cpu_s']:.1f} s CPU "
+                 f"(target < {t['json_cpu_s']:g}), {h['json_peak_mb']:.0f} MB (target < {t['json_peak_mb']:g}); "
+                 f"--out {h['out_cpu_s']:.1f} s CPU (target < {t['out_cpu_s']:g}), {h['out_peak_mb']:.0f} MB, "
+                 f"results.h5 {h['results_h5_mb']:.1f} MB (target < {t['results_h5_mb']:g}); "
+                 f"{h['trace_1khz_hours']:g} h on a 1 kHz logged lap {h['trace_1khz_cpu_s']:.1f} s CPU, "
+                 f"{h['trace_1khz_2h_peak_mb']:.0f} MB (target < {t['trace_1khz_2h_peak_mb']:g})")
     s = r["settle"]
     lines.append(f"  settled lap {s['settled_lap_s']:.3f} s vs simulating {s['laps_to_1k']} laps to within 1 K "
                  f"{s['simulate_to_1k_s']:.3f} s (model build {s['model_build_s']:.2f} s not included)")

@@ -1,4 +1,4 @@
-"""What a run produced, per corner: temperatures, link flows, energy, checks, laps, phases.
+"""What a run produced, per corner: temperatures, link energies (and flows if asked), energy, checks, laps, phases.
 
 Plotting, reporting and the HDF5 writer read these objects and never run a model.
 All temperatures here are kelvin; converting to degrees Celsius is the job of the edges.
@@ -35,6 +35,7 @@ class PhaseSpan:
     kind: str            # "out_lap", "laps", "safety_car", "in_lap", "pit_stop", "soak"
     t_start_s: float
     t_end_s: float
+    link_energy_j: tuple[float, ...] | None = None   # heat carried by each link in the phase [J]
 
 
 @dataclass(frozen=True)
@@ -48,6 +49,7 @@ class LapSpan:
     min_k: dict[str, float]
     max_k: dict[str, float]
     braking_energy_j: float = 0.0
+    link_energy_j: tuple[float, ...] | None = None   # heat carried by each link in the lap [J]
 
 
 @dataclass(frozen=True)
@@ -60,7 +62,9 @@ class CornerResult:
     temperatures_k: np.ndarray         # (n_t, n_nodes)
     link_names: tuple[str, ...]
     link_groups: tuple[str, ...]       # heat-path group of each link ("disc_convection", "radiation", ...)
-    link_flows_w: np.ndarray           # (n_t, n_links), positive from the link's first end to its second
+    link_flows_w: np.ndarray | None    # (n_t, n_links), positive from the link's first end to its second;
+                                       # None unless asked for (``store="full"``): laps and phases carry
+                                       # each link's energy instead
     link_energy_j: np.ndarray          # (n_links,) heat carried by each link over the run [J]
     energy: EnergyBalance
     checks: tuple[CheckResult, ...]

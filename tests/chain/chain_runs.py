@@ -33,7 +33,11 @@ NO_WEAR = [("pad_wear.enabled", False)]
 
 
 def small_scenario(phases=None, overrides=(), soak_sample_s=None):
-    """The small scenario with its phases replaced (None keeps them) and overrides applied."""
+    """The small scenario with its phases replaced (None keeps them) and overrides applied.
+
+    The chain tests compare series row by row, so every solver row is stored (``output_s`` 0)
+    unless an override says otherwise."""
+    overrides = [("solver.output_s", 0.0)] + list(overrides)
     raw = copy.deepcopy(SMALL_RAW)
     if phases is not None:
         raw["plan"]["phases"] = copy.deepcopy(list(phases))

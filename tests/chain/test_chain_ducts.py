@@ -3,7 +3,7 @@ import numpy as np
 
 from chain_runs import SHORT_PLAN, small_scenario
 from thermo.chain.plan import expand_plan
-from thermo.chain.run import SegmentDuty, _schedule
+from thermo.chain.corner_run import SegmentDuty, segment_schedule
 from thermo.corner.build import build_corner
 
 
@@ -25,7 +25,7 @@ def test_second_duct_has_its_own_boundary_and_air_rise():
     segment = expand_plan(scenario)[0]
     t = segment.trace.time_s
     zeros = np.zeros_like(t)
-    schedule = _schedule(scenario, design, segment, SegmentDuty(t, zeros, zeros, segment.trace.speed_mps))
+    schedule = segment_schedule(scenario, design, segment, SegmentDuty(t, zeros, zeros, segment.trace.speed_mps))
     ambient = scenario.ambient.temperature_k
     # the values the scenario gives: ambient + air_rise_k of each duct
     assert np.allclose(schedule.value("duct_air_k", t), ambient + 5.0)

@@ -1,10 +1,10 @@
-"""[solver] output_hz thins the stored series, never the peaks, margins or laps."""
+"""[solver] output_s (or output_hz) thins the stored series, never the peaks, margins or laps."""
 from __future__ import annotations
 
 import numpy as np
 
 from chain_runs import NO_WEAR, SHORT_PLAN, small_scenario, solve_one
-from thermo.chain.run import stored_rows
+from thermo.chain.corner_run import stored_rows
 
 
 def test_stored_rows_keep_the_ends_the_extremes_and_one_row_a_step():
@@ -18,8 +18,9 @@ def test_stored_rows_keep_the_ends_the_extremes_and_one_row_a_step():
     assert np.array_equal(stored_rows(t, out, 0.0), np.arange(t.size))
 
 
-def test_a_thinned_run_has_the_same_peaks_checks_and_laps(short_run):
-    thin = solve_one(small_scenario(SHORT_PLAN, NO_WEAR + [("solver.output_hz", 0.5)]))
+def test_a_thinned_run_has_the_same_peaks_checks_and_laps():
+    short_run = solve_one(small_scenario(SHORT_PLAN, NO_WEAR), method="LSODA")
+    thin = solve_one(small_scenario(SHORT_PLAN, NO_WEAR + [("solver.output_hz", 0.5)]), method="LSODA")
     assert thin.time_s.size < 0.2 * short_run.time_s.size
     assert thin.node_names == short_run.node_names
     np.testing.assert_array_equal(thin.temperatures_k.max(axis=0), short_run.temperatures_k.max(axis=0))
@@ -27,3 +28,15 @@ def test_a_thinned_run_has_the_same_peaks_checks_and_laps(short_run):
         assert (a.name, a.peak_k, a.peak_time_s, a.margin_k) == (b.name, b.peak_k, b.peak_time_s, b.margin_k)
     assert thin.laps == short_run.laps
     assert thin.energy == short_run.energy
+
+
+def test_the_default_interval_is_one_second():
+    from thermo.scenario import load_scenario
+    from chain_runs import SMALL
+    default = load_scenario(SMALL).solver
+    assert default.output_s == 1.0 and default.output_hz == 0.0
+    run = solve_one(small_scenario(SHORT_PLAN, NO_WEAR + [("solver.output_s", 1.0)]))
+    steps = np.floor(run.time_s)
+    # one row a second, plus each segment's ends and every node's extremes in each segment
+    assert set(steps) == set(np.floor(np.arange(0.0, run.time_s[-1])))
+    assert run.time_s.size < 1.2 * run.time_s[-1] + 20 * len(run.node_names) * 3

@@ -17,7 +17,8 @@ from thermo.chain.run import run_scenario
 from thermo.scenario import load_scenario
 
 ROOT = Path(__file__).resolve().parents[2]
-FULL_GRID = [("solver.max_stride_samples", 1), ("solver.linearised", False)]
+EVERY_ROW = [("solver.output_s", 0.0)]
+FULL_GRID = EVERY_ROW + [("solver.max_stride_samples", 1), ("solver.linearised", False)]
 
 pytestmark = pytest.mark.slow
 
@@ -25,7 +26,7 @@ pytestmark = pytest.mark.slow
 @pytest.mark.parametrize("path", [ROOT / "scenarios" / "demo.toml", ROOT / "tests" / "data" / "heavy_gt.toml"],
                          ids=["demo", "heavy_gt"])
 def test_the_default_grid_keeps_peaks_within_0_05_k_of_the_full_grid(path):
-    default = load_scenario(path)
+    default = load_scenario(path, overrides=EVERY_ROW)
     assert default.solver.max_stride == 8 and not default.solver.linearised
     graded, full = run_scenario(default), run_scenario(load_scenario(path, overrides=FULL_GRID))
     for a, b in zip(graded.corners, full.corners):
@@ -37,5 +38,5 @@ def test_the_default_grid_keeps_peaks_within_0_05_k_of_the_full_grid(path):
             for node in la.max_k:
                 assert la.max_k[node] == pytest.approx(lb.max_k[node], abs=0.1), (a.name, la.index, node)
         assert a.energy.balance_rel_error < 1e-6
-        # the graded grid stores fewer rows: it is what makes the run cheaper
+        # the graded grid takes fewer steps (every row stored here): it is what makes the run cheaper
         assert a.time_s.size < 0.6 * b.time_s.size

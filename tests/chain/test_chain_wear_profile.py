@@ -4,7 +4,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from thermo.chain.run import worn_pad_profile
+from thermo.chain.corner_run import worn_pad_profile
 
 
 def test_the_worn_slice_is_the_face_and_the_back_keeps_its_temperature():

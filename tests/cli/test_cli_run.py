@@ -15,7 +15,7 @@ from thermo.limits import boiling_drop_share
 import thermo
 from thermo.output.hdf5 import read_results_hdf5
 from thermo.output.summary import summary_dict
-from conftest import cli
+from conftest import SHRINK, SMALL, cli
 
 NODES = ("disc", "pad", "piston", "fluid", "caliper", "upright", "bearing", "hub")
 CHECKS = ("fluid_boiling_dry", "fluid_boiling_wet", "fluid_boiling_at_water_content", "bearing_grease",
@@ -109,15 +109,17 @@ def test_summary_json_equals_json_output(small_runs):
 def test_hdf5_with_plain_h5py_agrees_with_summary(small_runs):
     data = small_runs["json"]
     with h5py.File(small_runs["folder"] / "results.h5", "r") as f:
-        assert f.attrs["format"] == "brakeheat-results" and int(f.attrs["format_version"]) == 1
+        assert f.attrs["format"] == "brakeheat-results" and int(f.attrs["format_version"]) == 2
         assert [str(n) for n in f.attrs["corners"]] == ["front", "rear"]
         for corner in data["corners"]:
             g = f[f"corners/{corner['name']}"]
             time_s = g["time_s"][()]
             assert g["time_s"].attrs["units"] == "s"
+            columns = [str(n) for n in g["temperature_k"].attrs["nodes"]]
+            assert g["temperature_k"].attrs["units"] == "K" and "temperature" not in g   # no per-node copies (v2)
+            assert "link_flow_w" not in g and g["laps/link_energy_j"].shape[1] == g["link_energy_j"].size
             for node in NODES:
-                series = g[f"temperature/{node}"][()]
-                assert g[f"temperature/{node}"].attrs["units"] == "K"
+                series = g["temperature_k"][:, columns.index(node)]
                 assert series.max() - KELVIN_AT_0C == pytest.approx(corner["peak_c"][node], abs=0.006)
                 assert time_s[np.argmax(series)] == pytest.approx(corner["peak_time_s"][node], abs=0.006)
             for check in corner["checks"]:
@@ -159,3 +161,19 @@ def test_demo_print_scenario(tmp_path):
 def test_version():
     code, out, err = cli(["--version"])
     assert code == 0 and out.strip() == f"brakeheat {thermo.__version__}"
+
+
+def test_store_full_keeps_every_step_and_the_link_flows(small_runs, tmp_path):
+    """README "The results file": link flows at full resolution only with --store full; the
+    standard store keeps the same peaks, margins and per-lap link energies."""
+    code, _, err = cli(["run", str(SMALL), *SHRINK, "--quiet", "--store", "full", "--out", str(tmp_path / "full")])
+    assert code == 0, err
+    full = read_results_hdf5(tmp_path / "full" / "results.h5")
+    standard = read_results_hdf5(small_runs["folder"] / "results.h5")
+    for a, b in zip(full.corners, standard.corners):
+        assert a.link_flows_w is not None and a.link_flows_w.shape == (a.time_s.size, len(a.link_names))
+        assert b.link_flows_w is None and b.time_s.size < a.time_s.size
+        assert [c.peak_k for c in a.checks] == [c.peak_k for c in b.checks]
+        np.testing.assert_allclose([lap.link_energy_j for lap in a.laps], [lap.link_energy_j for lap in b.laps])
+        # the laps' and phases' link energies add up to the run's (first law, bookkeeping)
+        np.testing.assert_allclose(np.sum([p.link_energy_j for p in b.phases], axis=0), b.link_energy_j, rtol=1e-9)

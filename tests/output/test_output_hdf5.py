@@ -80,14 +80,16 @@ def test_plain_h5py_reads_by_path(results, tmp_path, factory):
     write_results_hdf5(results, path)
     corner = results.corners[0]
     with h5py.File(path, "r") as f:
-        assert f.attrs["format"] == "brakeheat-results" and f.attrs["format_version"] == 1
+        assert f.attrs["format"] == "brakeheat-results" and f.attrs["format_version"] == 2
         assert f.attrs["scenario_text"] == results.scenario_text
         assert list(f.attrs["references"]) == list(results.references)
         g = f["corners/front_left"]
         assert g["time_s"].attrs["units"] == "s"
         assert g["temperature_k"].attrs["units"] == "K"
         assert list(g["temperature_k"].attrs["nodes"]) == list(factory.NODES)
-        np.testing.assert_array_equal(f["corners/front_left/temperature/fluid"][()], corner.temperature("fluid"))
+        fluid = list(g["temperature_k"].attrs["nodes"]).index("fluid")
+        np.testing.assert_array_equal(g["temperature_k"][:, fluid], corner.temperature("fluid"))
+        assert "temperature" not in g          # version 2: no per-node copies
         np.testing.assert_array_equal(g["link_flow_w"][()], corner.link_flows_w)
         assert list(g["link_flow_w"].attrs["groups"]) == list(corner.link_groups)
         assert g["link_flow_w"].attrs["units"] == "W"
@@ -121,8 +123,8 @@ def test_newer_format_version_rejected(results, tmp_path):
     path = tmp_path / "run.h5"
     write_results_hdf5(results, path)
     with h5py.File(path, "r+") as f:
-        f.attrs["format_version"] = 2
-    with pytest.raises(OutputError, match="format_version 2"):
+        f.attrs["format_version"] = 3
+    with pytest.raises(OutputError, match="format_version 3"):
         read_results_hdf5(path)
 
 
@@ -145,3 +147,39 @@ def test_unwritable_results_raise(results, tmp_path, change, message):
     with pytest.raises(OutputError, match=message):
         write_results_hdf5(bad, tmp_path / "bad.h5")
     assert list(tmp_path.iterdir()) == []
+
+
+def test_a_run_without_flows_stores_energies_per_lap_and_phase(results, tmp_path):
+    """Version 2: link flows only when stored; each lap's and phase's link energies are kept."""
+    from dataclasses import replace
+    corner = results.corners[0]
+    n = len(corner.link_names)
+    laps = tuple(replace(lap, link_energy_j=tuple(float(i + k) for k in range(n))) for i, lap in enumerate(corner.laps))
+    phases = tuple(replace(p, link_energy_j=tuple(2.0 * k for k in range(n))) for p in corner.phases)
+    lean = replace(results, corners=(replace(corner, link_flows_w=None, laps=laps, phases=phases),) + results.corners[1:])
+    path = tmp_path / "lean.h5"
+    write_results_hdf5(lean, path)
+    with h5py.File(path, "r") as f:
+        g = f["corners/front_left"]
+        assert "link_flow_w" not in g
+        assert g["laps/link_energy_j"].shape == (len(laps), n)
+        assert list(g["link_energy_j"].attrs["links"]) == list(corner.link_names)
+    back = read_results_hdf5(path)
+    assert back.corners[0].link_flows_w is None
+    assert back.corners[0].laps == laps and back.corners[0].phases == phases
+    assert back.corners[0].link_names == corner.link_names
+
+
+def test_version_1_files_are_still_read(results, tmp_path):
+    """A file in the version-1 layout (per-node copies, no per-lap link energies) reads as before."""
+    path = tmp_path / "v1.h5"
+    write_results_hdf5(results, path)
+    with h5py.File(path, "r+") as f:
+        f.attrs["format_version"] = 1
+        for corner in results.corners:
+            g = f[f"corners/{corner.name}"]
+            copies = g.create_group("temperature")
+            for j, node in enumerate(corner.node_names):
+                copies.create_dataset(node, data=corner.temperatures_k[:, j])
+    back = read_results_hdf5(path)
+    assert_same(results, back)

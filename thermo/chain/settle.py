@@ -28,7 +28,8 @@ import numpy as np
 
 from thermo.chain.guards import check_state_range
 from thermo.chain.plan import expand_plan
-from thermo.chain.run import _schedule, conductance_grid, corner_brakes, corner_duties
+from thermo.chain.corner_run import conductance_grid, segment_schedule
+from thermo.chain.run import corner_brakes, corner_duties
 from thermo.corner.build import build_corner
 from thermo.errors import ScenarioError, SolveError
 from thermo.network.assemble import compile_network
@@ -102,7 +103,7 @@ def lap_setups(scenario, phase_name=None) -> dict:
     out = {}
     for design in scenario.corners:
         model = models[design.name]
-        schedule = _schedule(scenario, design, segment, duties[design.name])
+        schedule = segment_schedule(scenario, design, segment, duties[design.name])
         out[design.name] = (design, model, compile_network(model.network), schedule, segment)
     return out
 

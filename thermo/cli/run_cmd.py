@@ -15,6 +15,9 @@ def add_run_options(p) -> None:
     p.add_argument("--set", metavar="KEY=VALUE", action="append", default=[], dest="overrides",
                    help="override one scenario key, e.g. --set corners.front.piston.type=vented (repeatable)")
     p.add_argument("--solver", metavar="METHOD", help="override [solver] method (LSODA, BDF, Radau, fast)")
+    p.add_argument("--store", choices=("standard", "full"), default="standard",
+                   help="what results.h5 keeps: standard (series at [solver] output_s, link energies per lap "
+                        "and phase) or full (every solver step, and every link's flow at each)")
     p.add_argument("--fail-on-exceeded", action="store_true", help="exit 3 when any check is exceeded")
     p.add_argument("--quiet", action="store_true", help="no progress indication")
 
@@ -42,7 +45,7 @@ def run_and_report(path: Path, args) -> int:
     segments = expand_plan(scenario)
     progress = Progress(len(segments) * len(scenario.corners), enabled=not (args.json or args.quiet))
     try:
-        results = run_scenario(scenario, progress=progress, segments=segments)
+        results = run_scenario(scenario, progress=progress, segments=segments, store=args.store)
     finally:
         progress.close()
     if args.out:

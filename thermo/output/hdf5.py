@@ -1,6 +1,6 @@
 """The results file: one documented HDF5 layout, written atomically, read back exactly.
 
-Layout (format "brakeheat-results", format_version 1; every array kept bit for bit):
+Layout (format "brakeheat-results", format_version 2; every array kept bit for bit):
 
 - root attrs: format, format_version, scenario_name, scenario_text, version, solver,
   solver_status, caution, references (string array), warnings (string array), overrides (string
@@ -8,17 +8,21 @@ Layout (format "brakeheat-results", format_version 1; every array kept bit for b
   scenario_text; absent in files written before it), corners
   (string array: corner order)
 - ``/corners/<corner>/`` attrs name, nodes, stop_time_s (NaN: no stop), extras_json
-  - ``time_s`` (n_t) [s]; ``temperature_k`` (n_t x n_nodes) [K], attr nodes;
-    ``temperature/<node>`` (n_t) [K], a copy per node for convenience
-  - ``link_flow_w`` (n_t x n_links) [W], attrs links, groups, sign_convention;
-    ``link_energy_j`` (n_links) [J]
+  - ``time_s`` (n_t) [s]; ``temperature_k`` (n_t x n_nodes) [K], attr nodes
+  - ``link_energy_j`` (n_links) [J], attrs links, groups, sign_convention;
+    ``link_flow_w`` (n_t x n_links) [W], same attrs, only when the run stored flows (``--store full``)
   - ``energy`` group, attrs heat_in_j, stored_j, lost_j [J], balance_rel_error [-]
   - ``checks/<check>`` groups with attrs node, limit_k, peak_k, peak_time_s, margin_k,
     status, caution_band_k, source; ``checks`` attr order
   - ``margins/<check>`` scalar datasets margin_k [K]
   - ``laps/`` index, phase, t_start_s, t_end_s, braking_energy_j, max_k and min_k
-    (n_laps x n_lap_nodes, attr nodes; NaN where max_k_present/min_k_present is false)
-  - ``phases/`` name, kind, t_start_s, t_end_s
+    (n_laps x n_lap_nodes, attr nodes; NaN where max_k_present/min_k_present is false),
+    link_energy_j (n_laps x n_links) [J]
+  - ``phases/`` name, kind, t_start_s, t_end_s, link_energy_j (n_phases x n_links) [J]
+
+Version 1 files (every run before this layout) also held ``temperature/<node>``, a copy of each
+column of ``temperature_k``, and always ``link_flow_w``, with no per-lap or per-phase link
+energies; ``read_results_hdf5`` reads both versions.
 """
 from __future__ import annotations
 
@@ -34,7 +38,8 @@ from thermo.output.jsonable import decode_exact, encode_exact
 from thermo.results import CheckResult, CornerResult, EnergyBalance, LapSpan, PhaseSpan, Results
 
 FORMAT = "brakeheat-results"
-FORMAT_VERSION = 1
+FORMAT_VERSION = 2
+READABLE_VERSIONS = (1, 2)
 COMPRESS_MIN_ELEMENTS = 1024      # smaller datasets are stored plainly
 SIGN_CONVENTION = "positive from the link's first end to its second end"
 _STR = h5py.string_dtype()
@@ -108,8 +113,8 @@ def _write_corner(group: h5py.Group, corner: CornerResult, where: str) -> None:
     if np.shape(corner.temperatures_k) != (n_t, len(corner.node_names)):
         raise OutputError(f"{where}: temperatures_k has shape {np.shape(corner.temperatures_k)}, "
                           f"expected ({n_t}, {len(corner.node_names)})")
-    if np.shape(corner.link_flows_w) != (n_t, len(corner.link_names)) or \
-            len(corner.link_groups) != len(corner.link_names) or \
+    flows_ok = corner.link_flows_w is None or np.shape(corner.link_flows_w) == (n_t, len(corner.link_names))
+    if not flows_ok or len(corner.link_groups) != len(corner.link_names) or \
             np.shape(corner.link_energy_j) != (len(corner.link_names),):
         raise OutputError(f"{where}: link_flows_w, link_groups and link_energy_j must match "
                           f"{len(corner.link_names)} links and {n_t} samples")
@@ -119,11 +124,9 @@ def _write_corner(group: h5py.Group, corner: CornerResult, where: str) -> None:
     group.attrs["extras_json"] = encode_exact(corner.extras, f"{where} extras")
     _dataset(group, "time_s", corner.time_s, units="s")
     _dataset(group, "temperature_k", corner.temperatures_k, units="K", nodes=_strings(corner.node_names))
-    per_node = group.create_group("temperature", track_order=True)
-    for j, node in enumerate(corner.node_names):
-        _dataset(per_node, node, np.ascontiguousarray(corner.temperatures_k[:, j]), units="K")
     links = dict(links=_strings(corner.link_names), groups=_strings(corner.link_groups))
-    _dataset(group, "link_flow_w", corner.link_flows_w, units="W", sign_convention=SIGN_CONVENTION, **links)
+    if corner.link_flows_w is not None:
+        _dataset(group, "link_flow_w", corner.link_flows_w, units="W", sign_convention=SIGN_CONVENTION, **links)
     _dataset(group, "link_energy_j", corner.link_energy_j, units="J", sign_convention=SIGN_CONVENTION, **links)
     energy = group.create_group("energy")
     for key in ("heat_in_j", "stored_j", "lost_j"):
@@ -141,11 +144,31 @@ def _write_corner(group: h5py.Group, corner: CornerResult, where: str) -> None:
             item.attrs[key] = float(getattr(check, key))
         _dataset(margins, check.name, float(check.margin_k), units="K", node=check.node)
     _write_laps(group.create_group("laps"), corner.laps)
+    _link_energies(group["laps"], corner.laps, len(corner.link_names), where, links)
     phases = group.create_group("phases")
     _dataset(phases, "name", _strings(p.name for p in corner.phases))
     _dataset(phases, "kind", _strings(p.kind for p in corner.phases))
     for key in ("t_start_s", "t_end_s"):
         _dataset(phases, key, np.array([getattr(p, key) for p in corner.phases], dtype=float), units="s")
+    _link_energies(phases, corner.phases, len(corner.link_names), where, links)
+
+
+def _link_energies(group: h5py.Group, spans, n_links: int, where: str, links: dict) -> None:
+    """``link_energy_j`` (n_spans x n_links) of laps or phases, when every span carries it."""
+    if not spans or any(span.link_energy_j is None for span in spans):
+        return
+    values = np.array([span.link_energy_j for span in spans], dtype=float)
+    if values.shape != (len(spans), n_links):
+        raise OutputError(f"{where}: a lap or phase carries {values.shape[-1]} link energies, expected {n_links}")
+    _dataset(group, "link_energy_j", values, units="J", sign_convention=SIGN_CONVENTION, **links)
+
+
+def _span_energies(r, group, count: int) -> list:
+    """Each span's link energies (a tuple) from ``link_energy_j``, or None for each (version 1)."""
+    if "link_energy_j" not in group:
+        return [None] * count
+    values = r.array(group, "link_energy_j")
+    return [tuple(map(float, values[i])) for i in range(count)]
 
 
 def write_results_hdf5(results: Results, path) -> None:
@@ -220,8 +243,10 @@ def _read_laps(r: _Reader, group) -> tuple[LapSpan, ...]:
         nodes = r.texts(r.obj(group, key), "nodes")
         tables[key] = [{n: float(values[i, j]) for j, n in enumerate(nodes) if present[i, j]}
                        for i in range(len(index))]
+    links = _span_energies(r, group, len(index))
     return tuple(LapSpan(index=int(index[i]), phase=phase[i], t_start_s=float(start[i]), t_end_s=float(end[i]),
-                         min_k=tables["min_k"][i], max_k=tables["max_k"][i], braking_energy_j=float(energy[i]))
+                         min_k=tables["min_k"][i], max_k=tables["max_k"][i], braking_energy_j=float(energy[i]),
+                         link_energy_j=links[i])
                  for i in range(len(index)))
 
 
@@ -238,18 +263,21 @@ def _read_corner(r: _Reader, group) -> CornerResult:
     phases_group = r.obj(group, "phases")
     names, kinds = r.text_array(phases_group, "name"), r.text_array(phases_group, "kind")
     p_start, p_end = r.array(phases_group, "t_start_s"), r.array(phases_group, "t_end_s")
-    phases = tuple(PhaseSpan(names[i], kinds[i], float(p_start[i]), float(p_end[i])) for i in range(len(names)))
+    phase_links = _span_energies(r, phases_group, len(names))
+    phases = tuple(PhaseSpan(names[i], kinds[i], float(p_start[i]), float(p_end[i]), phase_links[i])
+                   for i in range(len(names)))
     energy = r.obj(group, "energy")
-    flows = r.obj(group, "link_flow_w")
+    flows = r.obj(group, "link_flow_w") if "link_flow_w" in group else None
+    named = r.obj(group, "link_energy_j") if flows is None else flows
     stop = float(r.attr(group, "stop_time_s"))
     return CornerResult(
         name=r.text(group, "name"),
         node_names=r.texts(group, "nodes"),
         time_s=r.array(group, "time_s"),
         temperatures_k=r.array(group, "temperature_k"),
-        link_names=r.texts(flows, "links"),
-        link_groups=r.texts(flows, "groups"),
-        link_flows_w=flows[()],
+        link_names=r.texts(named, "links"),
+        link_groups=r.texts(named, "groups"),
+        link_flows_w=None if flows is None else flows[()],
         link_energy_j=r.array(group, "link_energy_j"),
         energy=EnergyBalance(*(float(r.attr(energy, k)) for k in ("heat_in_j", "stored_j", "lost_j"))),
         checks=tuple(checks),
@@ -280,8 +308,9 @@ def read_results_hdf5(path) -> Results:
         fmt, version = (_plain(f.attrs.get(key)) for key in ("format", "format_version"))
         if fmt != FORMAT:
             raise OutputError(f"{path}: attribute 'format' is {shown(fmt)}, expected {shown(FORMAT)}")
-        if version != FORMAT_VERSION:
-            raise OutputError(f"{path}: format_version {shown(version)} is not supported, expected {FORMAT_VERSION}")
+        if version not in READABLE_VERSIONS:
+            raise OutputError(f"{path}: format_version {shown(version)} is not supported, expected one of "
+                              f"{', '.join(map(str, READABLE_VERSIONS))}")
         corners_group = r.obj(f, "corners")
         corners = tuple(_read_corner(r, r.obj(corners_group, name)) for name in r.texts(f, "corners"))
         return Results(

@@ -112,7 +112,8 @@ class SolverChoice:
     method: str
     rtol: float
     atol_k: float
-    output_hz: float                # stored series rate [Hz]; 0 = every sample (peaks always kept)
+    output_s: float                 # stored series interval [s]; 0 = every solver step (extremes always kept)
+    output_hz: float                # stored series rate [Hz], used instead of output_s when above 0
     wall_clock_limit_s: float       # a run taking longer stops with an error [s]
     max_stride: int                 # fast: longest step off the brakes [samples]
     linearised: bool                # fast: linearised steps, no Newton iteration

@@ -142,7 +142,11 @@ SOLVER = {
     "method": f("method", "fast", kind=str, choices=SOLVER_METHODS),
     "rtol": f("rtol", 1.0e-6, minimum=1e-12, maximum=0.1),
     "atol_k": f("atol_k", 1.0e-4, minimum=1e-12, maximum=10.0),
-    "output_hz": f("output_hz", 0.0, minimum=0.0, doc="0 = every input sample", maximum=1000.0),
+    "output_s": f("output_s", 1.0, minimum=0.0, maximum=3600.0,
+                  doc="interval of the stored series (results.h5, plots); every node's extremes, each "
+                      "segment's ends and so every peak and lap extreme are kept; 0 = every solver step"),
+    "output_hz": f("output_hz", 0.0, minimum=0.0, maximum=1000.0, doc="if above 0, the stored series' rate instead "
+                                                                       "of output_s"),
     "max_stride_samples": f("max_stride", 8, kind=int, minimum=1, maximum=256,
                             doc="fast: longest step off the brakes, in input samples (every sample while braking); "
                                 "1 = every sample"),

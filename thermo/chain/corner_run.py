@@ -1,0 +1,332 @@
+"""One brake corner carried across the plan, segment by segment (``CornerRun``).
+
+The run (``thermo.chain.run``) works out each segment's heat input once for every corner and
+hands it to each corner's ``CornerRun.advance``; the corner solves the segment from its carried
+state, wears its pad, changes pads at stops, keeps each lap's extremes and each link's energy,
+and stores its series thinned to the output interval. ``CornerRun.result`` then makes the
+``CornerResult``. Nothing of a segment is kept beyond the stored rows, so a run's memory grows
+with the output interval, not with the solver's steps.
+"""
+from __future__ import annotations
+
+import warnings
+from dataclasses import dataclass, replace
+
+import numpy as np
+
+from thermo.chain.guards import WallClock, check_state_range
+from thermo.chain.plan import PlanSegment
+from thermo.chain.validity import check_validity
+from thermo.corner.build import (
+    SIGNAL_AMBIENT, SIGNAL_CLAMP, SIGNAL_DISC_HEAT, SIGNAL_DUCT_AIR, SIGNAL_PAD_HEAT, SIGNAL_SPEED, CornerModel, build_corner,
+    clamp_signal, duct_air_signals, pad_layers,
+)
+from thermo.corner.geometry import CornerDesign
+from thermo.errors import SolveError
+from thermo.limits import check_specs, evaluate_check, property_range_warnings
+from thermo.materials import get_material
+from thermo.network.assemble import compile_network
+from thermo.network.schedule import Schedule
+from thermo.network.tabulate import ConductanceGrid
+from thermo.results import CornerResult, EnergyBalance, LapSpan, PhaseSpan
+from thermo.scenario.model import Scenario
+from thermo.solver.scipy_solve import solve_network
+from thermo.solver.settings import SolverSettings
+
+MIN_PAD_THICKNESS_M = 0.5e-3   # a pad worn this far is held here (and the run warns)
+VALIDITY_SAMPLE_EVERY = 10     # every n-th output sample is checked against the correlations' ranges
+STORE_CHOICES = ("standard", "full")
+
+
+@dataclass(frozen=True)
+class SegmentDuty:
+    """Heat into one corner during one segment, on the segment's own time axis from 0."""
+
+    time_s: np.ndarray
+    disc_heat_w: np.ndarray
+    pad_heat_w: np.ndarray
+    speed_m_s: np.ndarray
+
+
+def segment_schedule(scenario: Scenario, design: CornerDesign, segment: PlanSegment, duty: SegmentDuty) -> Schedule:
+    """The corner network's inputs over one segment, on the run's time axis."""
+    t = segment.t_start_s + duty.time_s
+    ambient = scenario.ambient.temperature_at(t)
+    signals = {SIGNAL_DISC_HEAT: duty.disc_heat_w, SIGNAL_PAD_HEAT: duty.pad_heat_w,
+               SIGNAL_CLAMP: clamp_signal(duty.disc_heat_w + duty.pad_heat_w),
+               SIGNAL_SPEED: duty.speed_m_s, SIGNAL_AMBIENT: ambient, SIGNAL_DUCT_AIR: ambient}
+    for signal, rise in duct_air_signals(design):
+        signals[signal] = ambient + rise
+    return Schedule(t, signals)
+
+
+def conductance_grid(scenario: Scenario) -> ConductanceGrid:
+    """The tabulation grid spanning this scenario's air temperatures (ambient and duct air)."""
+    if scenario.ambient.profile_s_k:
+        temps = [t for _, t in scenario.ambient.profile_s_k]
+        lo, hi = min(temps), max(temps)
+    else:
+        lo = hi = scenario.ambient.temperature_k
+    rise = max((d.air_rise_k for c in scenario.corners for d in c.ducts), default=0.0)
+    lo, hi = np.floor(lo - 5.0), np.ceil(hi + rise + 5.0)
+    return ConductanceGrid(boundary_min_k=float(lo), boundary_max_k=float(max(hi, lo + 10.0)), boundary_step_k=5.0)
+
+
+def output_interval_s(scenario: Scenario) -> float:
+    """The stored series' interval [s]: 1 / ``[solver] output_hz`` where that is set, else
+    ``[solver] output_s`` (0: every solver row)."""
+    hz = scenario.solver.output_hz
+    return 1.0 / hz if hz > 0 else scenario.solver.output_s
+
+
+def _wear_factor(scenario: Scenario, pad_k: float) -> float:
+    w = scenario.pad_wear
+    return float(np.exp(max(pad_k - w.reference_temperature_k, 0.0) / w.temperature_scale_k))
+
+
+class CornerRun:
+    """One corner solved segment by segment, carrying its state, with pad wear and pad changes.
+
+    ``interval_s``: interval of the stored series (None: ``output_interval_s(scenario)``; 0: every
+    solver row); the rows where a node reaches its extremes in a segment are always kept.
+    ``store``: "standard" keeps each link's energy per lap and per phase; "full" also keeps every
+    link's flow at every stored row, and every solver row. ``clock``: the run's time budget (None:
+    a new one of ``[solver] wall_clock_limit_s``). Every node is checked against the model's
+    physical range after each segment (``thermo.chain.guards``).
+    """
+
+    def __init__(self, scenario: Scenario, design: CornerDesign, settings: SolverSettings, *,
+                 interval_s: float | None = None, store: str = "standard", clock: WallClock | None = None):
+        if store not in STORE_CHOICES:
+            raise ValueError(f"store must be one of {STORE_CHOICES}, got {store!r}")
+        self.scenario, self.design, self.settings = scenario, design, settings
+        self.clock = WallClock(scenario.solver.wall_clock_limit_s) if clock is None else clock
+        self.grid = conductance_grid(scenario)
+        self.full = store == "full"
+        self.interval_s = 0.0 if self.full else (output_interval_s(scenario) if interval_s is None else interval_s)
+        self.pad_layer_count = len(pad_layers(design))   # kept as the pad wears, so the state maps node for node
+        self.model, self.compiled = self._with_pad(design.pad.thickness_m)
+        names = self.model.network.node_names
+        self.i_pads = [names.index(node) for node in self.model.pad_nodes]
+        self.i_back = names.index("backing_plate")
+        self.T = np.full(len(names), float(scenario.ambient.temperature_at(0.0)))
+        self.T_initial = self.T.copy()
+        self.thickness = design.pad.thickness_m
+        self.h0 = self._enthalpy()
+        self.times, self.temps, self.flows = [], [], []
+        self.link_energy = np.zeros(len(self.model.network.links))
+        self.heat_in = self.lost = self.removed = self.direct_to_disc = 0.0
+        self.laps, self.stint_thickness, self.warns, self.states, self.lap_thickness = [], [], [], [], []
+        self.energy_by_phase: dict[int, np.ndarray] = {}
+        self.warned: set = set()    # pad warnings given this stint ('near', 'below'); a pad change starts a new stint
+
+    def _with_pad(self, thickness_m: float):
+        """The corner rebuilt with another pad thickness (conduction path and pad mass): a new pad
+        exactly as ``build_corner(design)`` builds it, a worn one with the same number of layers."""
+        design = self.design
+        pad = design.pad if thickness_m == design.pad.thickness_m else replace(
+            design.pad, thickness_m=thickness_m, layers=self.pad_layer_count)
+        built = build_corner(replace(design, pad=pad), self.scenario.ambient.pressure_pa, self.grid)
+        return built, compile_network(built.network)
+
+    def _enthalpy(self, index=None) -> float:
+        nodes = self.model.network.nodes
+        index = range(len(nodes)) if index is None else index
+        return sum(nodes[k].heat_capacity.enthalpy(self.T[k]) for k in index)
+
+    def _change_pads(self, segment: PlanSegment) -> None:
+        self.stint_thickness.append((segment.phase.name, self.thickness))
+        replaced = (*self.i_pads, self.i_back)
+        old = self._enthalpy(replaced)
+        self.thickness = self.design.pad.thickness_m
+        self.model, self.compiled = self._with_pad(self.thickness)
+        self.T[list(replaced)] = float(self.scenario.ambient.temperature_at(segment.t_start_s))
+        self.removed += old - self._enthalpy(replaced)
+        self.warned.clear()
+
+    def advance(self, segment: PlanSegment, duty: SegmentDuty) -> None:
+        """Solve one segment from the carried state and keep what the result needs."""
+        scenario, design = self.scenario, self.design
+        phase = segment.phase
+        if phase.kind == "pit_stop" and (phase.pad_change or self.thickness < phase.pad_change_below_m):
+            self._change_pads(segment)
+        schedule = segment_schedule(scenario, design, segment, duty)
+        phase_name = phase.name + (f" lap {segment.lap_index}" if segment.lap_index else "")
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            sol = solve_network(self.compiled, schedule, self.T, self.settings, phase=f"corner {design.name}, {phase_name}")
+        if sol.status != "success":
+            raise SolveError(f"corner {design.name}, {phase.name}: {sol.status}")
+        names = self.model.network.node_names
+        check_state_range(design.name, phase_name, names, sol.time_s, sol.temperatures_k)
+        self.clock.check(f"corner {design.name}, {phase_name}")
+        model = self.model
+        out = model.outputs(sol.temperatures_k)
+        keep = stored_rows(sol.time_s, out, self.interval_s)[1 if self.times else 0:]
+        self.times.append(sol.time_s[keep])
+        self.temps.append(out[keep])
+        if self.full:
+            self.flows.append(sol.link_flows_w[keep])
+        self.link_energy += sol.link_energy_j
+        previous = self.energy_by_phase.get(segment.phase_index)
+        self.energy_by_phase[segment.phase_index] = sol.link_energy_j.copy() if previous is None else previous + sol.link_energy_j
+        self.heat_in += sol.heat_in_j
+        self.direct_to_disc += _direct_share(model) * sol.heat_in_j
+        self.lost += sol.lost_j
+        self.T = sol.final_k.copy()
+        picks = slice(None, None, VALIDITY_SAMPLE_EVERY)
+        boundary_k, drivers = self.compiled.inputs_series(sol.time_s[picks], schedule)
+        self.states.append((drivers[:, 0].copy() if drivers.shape[1] else np.zeros(len(boundary_k)),
+                            sol.temperatures_k[picks].copy(), boundary_k))
+        energy_lap = float(np.trapezoid(duty.disc_heat_w + duty.pad_heat_w, duty.time_s))
+        if segment.lap_index:
+            self.laps.append(LapSpan(segment.lap_index, phase.name, float(sol.time_s[0]), float(sol.time_s[-1]),
+                                     dict(zip(model.output_nodes, map(float, out.min(axis=0)))),
+                                     dict(zip(model.output_nodes, map(float, out.max(axis=0)))), energy_lap,
+                                     tuple(map(float, sol.link_energy_j))))
+        if scenario.pad_wear.enabled and segment.moving and energy_lap > 0:
+            self._wear(segment, duty, schedule, sol, out, energy_lap)
+        if segment.lap_index:
+            self.lap_thickness.append({"lap": segment.lap_index, "thickness_m": self.thickness})
+
+    def _wear(self, segment, duty, schedule, sol, out, energy_lap: float) -> None:
+        scenario, design, model = self.scenario, self.design, self.model
+        pad_series = out[:, model.output_nodes.index("pad")]
+        weight = np.interp(sol.time_s, schedule.time_s, duty.pad_heat_w)
+        pad_k = float(np.sum(weight * pad_series) / max(np.sum(weight), 1e-12))
+        wear = (scenario.pad_wear.wear_coefficient_m3_per_j * energy_lap / (2 * design.pad.area_m2)
+                * _wear_factor(scenario, pad_k))
+        new_thickness = max(self.thickness - wear, MIN_PAD_THICKNESS_M)
+        if new_thickness < self.thickness:
+            old_h = self._enthalpy(self.i_pads)
+            old_dx = pad_layers(model.design)
+            self.model, self.compiled = self._with_pad(new_thickness)
+            # the wear takes the friction face: the rest keeps its temperature at its depth
+            # from the backing plate, and the worn slice leaves with the face's heat
+            self.T[self.i_pads] = worn_pad_profile(old_dx, self.T[self.i_pads], pad_layers(self.model.design))
+            self.removed += old_h - self._enthalpy(self.i_pads)
+            self.warns += _pad_warnings(design, scenario.pad_wear.warn_margin_m, new_thickness, segment.lap_index,
+                                        self.warned)
+            self.thickness = new_thickness
+
+    def result(self, segments) -> CornerResult:
+        """The corner's results over the segments it advanced through (in order)."""
+        scenario, design, model = self.scenario, self.design, self.model
+        stint_thickness = self.stint_thickness + [("end of run", self.thickness)]
+        validity_lines, used = check_validity(model.network, self.states, design.name)
+        warns = self.warns + validity_lines
+        time_s = np.concatenate(self.times)
+        energy = EnergyBalance(self.heat_in, self._enthalpy() - self.h0, self.lost + self.removed)
+        temps_all = np.concatenate(self.temps)
+        node_index = {n: i for i, n in enumerate(model.output_nodes)}
+        node_materials = {node: get_material(name) for node, name in _node_materials(design, model).items()
+                          if node in node_index}
+        specs = check_specs(scenario.fluid, scenario.limits, model.disc_check_node, fluid_node=model.fluid_check_node,
+                            node_materials=node_materials)
+        warns += property_range_warnings(design.name, node_materials,
+                                         {n: float(temps_all[:, i].max()) for n, i in node_index.items() if n in node_materials})
+        checks = tuple(evaluate_check(s, time_s, temps_all[:, node_index[s.node]]) for s in specs)
+        stop = next((s.t_start_s for s in segments if s.phase.kind == "soak"), None)
+        extras = {"pad_thickness_m": [{"when": w, "thickness_m": th} for w, th in stint_thickness],
+                  "pad_thickness_by_lap_m": self.lap_thickness,
+                  "pad_minimum_thickness_m": design.pad.minimum_thickness_m,
+                  "link_to_boundary": [link.b in model.network.boundary_names for link in model.network.links],
+                  "heat_partition_disc": model.heat_partition,
+                  "heat_partition_realised": _realised_partition(model, self.heat_in, self.direct_to_disc, self.link_energy),
+                  "removed_with_pad_material_j": self.removed,
+                  "initial_temperature_k": float(self.T_initial[0]),
+                  "warnings": warns,
+                  "correlations_used": sorted(used)}
+        links = model.network.links
+        return CornerResult(
+            name=design.name, node_names=model.output_nodes, time_s=time_s, temperatures_k=temps_all,
+            link_names=tuple(link.name for link in links), link_groups=tuple(link.group for link in links),
+            link_flows_w=np.concatenate(self.flows) if self.full else None, link_energy_j=self.link_energy,
+            energy=energy, checks=checks, laps=tuple(self.laps), phases=_phase_spans(segments, self.energy_by_phase),
+            stop_time_s=stop, extras=extras)
+
+
+def stored_rows(time_s: np.ndarray, outputs: np.ndarray, interval_s: float) -> np.ndarray:
+    """Indices of the rows of one segment to store: all of them (``interval_s`` 0), else the first
+    row at or after each ``interval_s`` step, the segment's ends, and every row where an output
+    node reaches its maximum or minimum in the segment, so that thinning the stored series never
+    moves a peak, a margin or a lap's extremes."""
+    n = len(time_s)
+    if interval_s <= 0 or n <= 2:
+        return np.arange(n)
+    slot = np.floor(np.asarray(time_s) / interval_s + 1e-9)
+    keep = np.zeros(n, dtype=bool)
+    keep[0] = keep[-1] = True
+    keep[1:] |= slot[1:] != slot[:-1]
+    keep[np.argmax(outputs, axis=0)] = True
+    keep[np.argmin(outputs, axis=0)] = True
+    return np.flatnonzero(keep)
+
+
+def worn_pad_profile(old_dx_m: np.ndarray, old_t_k: np.ndarray, new_dx_m: np.ndarray) -> np.ndarray:
+    """Pad layer temperatures after wear [K]: each new layer centre takes the old profile's
+    temperature at the same depth from the backing plate (linear between old centres), so the
+    material worn off the friction face takes the face's heat with it."""
+    def from_back(dx):
+        return dx.sum() - (np.cumsum(dx) - dx / 2)          # face first, so decreasing
+    old_x, new_x = from_back(np.asarray(old_dx_m)), from_back(np.asarray(new_dx_m))
+    return np.interp(new_x, old_x[::-1], np.asarray(old_t_k)[::-1])
+
+
+def _direct_share(model: CornerModel) -> float:
+    """Share of the friction heat the sources put straight into the disc's face layer [-]; the duty
+    splits it into disc_heat_w (share heat_partition) and pad_heat_w."""
+    signal_share = {SIGNAL_DISC_HEAT: model.heat_partition, SIGNAL_PAD_HEAT: 1.0 - model.heat_partition}
+    return sum(s.fraction * signal_share[s.signal] for s in model.network.sources if s.node == model.disc_face_node)
+
+
+def _realised_partition(model: CornerModel, heat_in_j: float, direct_j: float, link_energy_j: np.ndarray) -> float:
+    """Share of the run's friction heat that ended up in the disc: what the sources put into its
+    face layer (summed segment by segment) plus what crossed the pad-disc interface (pad to disc
+    positive) [-]."""
+    if heat_in_j <= 0:
+        return float(model.heat_partition)
+    names = model.network.link_names
+    crossed = float(sum(link_energy_j[names.index(name)] for name in ("pad_disc_interface", "pad_disc_interface_clamped")
+                        if name in names))
+    return float((direct_j + crossed) / heat_in_j)
+
+
+def _node_materials(design: CornerDesign, model: CornerModel) -> dict[str, str]:
+    """The material of each output node a material check or data-range warning reads."""
+    # the pad's face is the interface (the disc's face temperature): the pad maker's window is read
+    # on the pad bulk (pad_max), so the face gets no material check of its own
+    out = {"disc": design.disc.material, model.disc_check_node: design.disc.material, "pad": design.pad.material,
+           "backing_plate": design.pad.backing_material,
+           "piston": design.piston.material, "caliper": design.caliper.material, "hub": design.hub.hub_material,
+           "bearing": design.hub.bearing_material, "upright": design.hub.upright_material,
+           "disc_bell": design.disc.bell_material, "fluid_at_piston": design.fluid_material, "fluid": design.fluid_material}
+    return out
+
+
+def _pad_warnings(design: CornerDesign, margin_m: float, thickness_m: float, lap: int, warned: set) -> list[str]:
+    """Warnings, each once per stint, when a worn pad comes within ``margin_m`` of its minimum and when below it."""
+    minimum = design.pad.minimum_thickness_m
+    out = []
+    if thickness_m - minimum < margin_m and "near" not in warned:
+        warned.add("near")
+        out.append(f"corner {design.name}: pad down to {thickness_m * 1e3:.1f} mm on lap {lap}, within "
+                   f"{margin_m * 1e3:.1f} mm of its minimum {minimum * 1e3:.1f} mm")
+    if thickness_m < minimum and "below" not in warned:
+        warned.add("below")
+        held = " (held there)" if thickness_m <= MIN_PAD_THICKNESS_M else ""
+        out.append(f"corner {design.name}: pad worn to {thickness_m * 1e3:.1f} mm{held} on lap {lap}, below its "
+                   f"minimum {minimum * 1e3:.1f} mm")
+    return out
+
+
+def _phase_spans(segments, energy_by_phase: dict) -> tuple[PhaseSpan, ...]:
+    """One span per plan phase, from its first segment's start to its last segment's end, with
+    the heat each link carried in it."""
+    first: dict[int, PlanSegment] = {}
+    last: dict[int, PlanSegment] = {}
+    for seg in segments:
+        first.setdefault(seg.phase_index, seg)
+        last[seg.phase_index] = seg
+    return tuple(PhaseSpan(first[i].phase.name, first[i].phase.kind, first[i].t_start_s, last[i].t_end_s,
+                           tuple(map(float, energy_by_phase[i])) if i in energy_by_phase else None) for i in first)
