@@ -98,6 +98,7 @@ class Results:
     caution: str
     warnings: tuple[str, ...] = ()
     overrides: tuple[tuple[str, str], ...] = ()   # (dotted key, TOML value text) applied on top of scenario_text
+    hydraulics: dict | None = None     # the hydraulics block (thermo.chain.hydraulics.hydraulics_dict)
 
     def corner(self, name: str) -> CornerResult:
         for c in self.corners:

@@ -62,3 +62,42 @@ def test_only_selects_through_the_cli():
     data = json.loads(out)
     assert [v["name"] for v in data["variants"]] == ["baseline", "b"]
     assert data["variants"][0]["corners"][0]["name"] == "front"
+
+
+# issue 16: caliper swaps. small.toml with hydraulic bias (invented master cylinders) and a variant
+# with bigger front pistons, which moves the front share of the brake torque
+HYDRAULIC = ["--set", "brakes.bias=hydraulic", "--set", "brakes.master_cylinder_front_mm=19.05",
+             "--set", "brakes.master_cylinder_rear_mm=22.2", "--set", "brakes.balance_bar_front_share=0.55"]
+SWAP = ["--variant", "big_front_pistons", "corners.front.piston.diameters_mm=[36, 40, 42]"]
+
+
+@pytest.mark.parametrize("how, key", [("balance_bar", "brakes.balance_bar_front_share"),
+                                      ("rear_master_cylinder", "brakes.master_cylinder_rear_mm")])
+def test_keep_bias_holds_the_front_share_within_a_tenth_of_a_point(how, key):
+    code, out, err = cli(["compare", str(SMALL), *SHRINK, *HYDRAULIC, *SWAP, "--only", "big_front_pistons",
+                          "--keep-bias", how, "--json", "--quiet"])
+    assert code == 0, err
+    data = json.loads(out)
+    base, swap = (v["hydraulics"] for v in data["variants"])
+    assert abs(swap["front_share"] - base["front_share"]) * 100 < 0.1
+    change = data["changes"][0]
+    assert change["rebalanced"]["key"] == key and change["rebalanced"]["from"] != change["rebalanced"]["to"]
+    # the caliper swap itself still shows: more clamp force and more fluid per mm at the front
+    front = change["hydraulics"]["corners"]["front"]
+    assert front["clamp_force_n_per_bar"] > 0 and front["fluid_displacement_cm3_per_mm"] > 0
+    assert "warning" not in err
+
+
+def test_a_caliper_swap_that_moves_the_bias_is_named_without_keep_bias():
+    code, out, err = cli(["compare", str(SMALL), *SHRINK, *HYDRAULIC, *SWAP, "--only", "big_front_pistons",
+                          "--json", "--quiet"])
+    assert code == 0, err
+    data = json.loads(out)
+    moved = data["changes"][0]["hydraulics"]["front_share_change_points"]
+    assert moved > 1.0 and data["changes"][0]["rebalanced"] is None
+    assert "variant 'big_front_pistons' moves the front share" in err and "--keep-bias" in err
+
+
+def test_keep_bias_needs_hydraulic_bias():
+    code, _, err = cli(["compare", str(SMALL), *SHRINK, *SWAP, "--keep-bias", "balance_bar", "--json"])
+    assert code == 1 and "bias = \"hydraulic\"" in err and len(err.strip().splitlines()) == 1

@@ -6,6 +6,7 @@ import numpy as np
 import thermo
 from thermo.chain.corner_run import CornerRun, SegmentDuty
 from thermo.chain.guards import WallClock
+from thermo.chain.hydraulics import hydraulics_dict
 from thermo.chain.plan import PlanSegment, expand_plan
 from thermo.corner.build import heat_partition, materials_used
 from thermo.corner.geometry import CornerDesign
@@ -97,7 +98,8 @@ def run_scenario(scenario: Scenario, *, progress=None, segments=None, store: str
     return Results(
         scenario_name=scenario.name, scenario_text=scenario.text, version=thermo.__version__,
         solver=settings.method, solver_status="success", references=references_for(scenario, {n for c in corners for n in c.extras["correlations_used"]}),
-        corners=corners, caution=thermo.CAUTION, warnings=run_warnings, overrides=applied_overrides(scenario))
+        corners=corners, caution=thermo.CAUTION, warnings=run_warnings, overrides=applied_overrides(scenario),
+        hydraulics=hydraulics_dict(scenario, corners))
 
 
 def applied_overrides(scenario: Scenario) -> tuple[tuple[str, str], ...]:

@@ -5,7 +5,9 @@ import json
 import sys
 from pathlib import Path
 
-from thermo.studies.compare import plan_comparison, run_comparison
+from thermo.studies.compare import (
+    BIAS_WARNING_POINTS, KEEP_BIAS_CHOICES, bias_warnings, keep_bias_plans, plan_comparison, run_comparison,
+)
 
 COMPARE_NODES = ("disc", "disc_surface", "pad", "piston", "fluid_at_piston", "fluid", "caliper", "hub", "bearing", "upright")
 
@@ -22,6 +24,12 @@ def add_parser(sub) -> None:
     p.add_argument("--json", action="store_true", help="print one JSON object on stdout")
     p.add_argument("--out", metavar="DIR", help="write comparison.json, overlay plots and the margin bar chart into DIR")
     p.add_argument("--quiet", action="store_true", help="no progress indication")
+    p.add_argument("--keep-bias", choices=KEEP_BIAS_CHOICES, metavar="{balance_bar,rear_master_cylinder}",
+                   help="re-balance variants that move the front share (a caliper swap) back to the baseline's, "
+                        "by the balance bar or the rear master cylinder bore (needs bias = \"hydraulic\")")
+    p.add_argument("--bias-warning-points", type=float, default=BIAS_WARNING_POINTS, metavar="POINTS",
+                   help=f"name a variant that moves the front share by more than this many points "
+                        f"(default {BIAS_WARNING_POINTS:g}) when --keep-bias is not given")
     p.set_defaults(handler=compare_command)
 
 
@@ -33,7 +41,7 @@ def format_comparison(data: dict) -> str:
              "against the baseline in brackets (a positive margin change is margin gained).", ""]
     for ci, corner in enumerate(variants[0]["corners"]):
         lines.append(f"Corner {corner['name']}")
-        lines.append("  " + f"{'':<34}" + "".join(f"{n:>{width}}" for n in names))
+        lines.append("  " + f"{'':<34}" + "".join(f" {n:>{width}}" for n in names))
         nodes = [n for n in COMPARE_NODES if n in corner["peak_c"]]
         for node in nodes:
             base = corner["peak_c"][node]
@@ -41,15 +49,36 @@ def format_comparison(data: dict) -> str:
             for v in variants[1:]:
                 value = v["corners"][ci]["peak_c"][node]
                 cells.append(f"{f'{value:.1f} ({value - base:+.1f})':>{width}}")
-            lines.append("  " + f"{'peak ' + node:<34}" + "".join(cells))
+            lines.append("  " + f"{'peak ' + node:<34}" + "".join(" " + cell for cell in cells))
         for k, check in enumerate(corner["checks"]):
             base = check["margin_k"]
             cells = [f"{base:>{width}.1f}"]
             for v in variants[1:]:
                 value = v["corners"][ci]["checks"][k]["margin_k"]
                 cells.append(f"{f'{value:.1f} ({value - base:+.1f})':>{width}}")
-            lines.append("  " + f"{'margin ' + check['name']:<34}" + "".join(cells))
+            lines.append("  " + f"{'margin ' + check['name']:<34}" + "".join(" " + cell for cell in cells))
+        hyd = [v.get("hydraulics") for v in variants]
+        if all(hyd) and corner["name"] in hyd[0]["corners"]:
+            for label, key, fmt in (("clamp force [N/bar]", "clamp_force_n_per_bar", ".1f"),
+                                    ("fluid [cm3/mm piston travel]", "fluid_displacement_cm3_per_mm", ".3f")):
+                base = hyd[0]["corners"][corner["name"]][key]
+                cells = [f"{base:>{width}{fmt}}"]
+                for h in hyd[1:]:
+                    value = h["corners"][corner["name"]][key]
+                    cells.append(f"{f'{value:{fmt}} ({value - base:+{fmt}})':>{width}}")
+                lines.append("  " + f"{label:<34}" + "".join(" " + cell for cell in cells))
         lines.append("")
+    hyd = [v.get("hydraulics") for v in variants]
+    if all(hyd):
+        shares = [h["front_share"] * 100 for h in hyd]
+        cells = [f"{shares[0]:>{width}.2f}"] + [f"{f'{x:.2f} ({x - shares[0]:+.2f})':>{width}}" for x in shares[1:]]
+        lines.append("  " + f"{'front share of brake torque [%]':<34}" + "".join(" " + cell for cell in cells))
+    for change in data.get("changes", []):
+        r = change.get("rebalanced")
+        if r:
+            lines.append(f"  --keep-bias: variant '{change['name']}': {r['key']} {r['from']:.4g} -> {r['to']:.4g} "
+                         f"(front share {r['front_share_before'] * 100:.2f} % -> {r['front_share_after'] * 100:.2f} %)")
+    lines.append("")
     lines.append(data["caution"])
     return "\n".join(lines)
 
@@ -74,10 +103,16 @@ def compare_command(args) -> int:
     if args.out is not None:
         check_output_folder(args.out, source="--out")
     plans = plan_comparison(Path(args.scenario), overrides_with_solver(args), args.variant, args.only)
+    rebalanced = {}
+    if args.keep_bias:
+        plans, rebalanced = keep_bias_plans(plans, args.keep_bias, Path(args.scenario))
+    else:
+        for line in bias_warnings(plans, args.bias_warning_points):
+            print(f"brakeheat: warning: {line}", file=sys.stderr)
     total = sum(len(expand_plan(sc)) * len(sc.corners) for _, sc in plans)
     progress = Progress(total, enabled=not (args.json or args.quiet))
     try:
-        comparison = run_comparison(plans, progress=progress)
+        comparison = run_comparison(plans, progress=progress, rebalanced=rebalanced)
     finally:
         progress.close()
     runs = list(comparison.runs)

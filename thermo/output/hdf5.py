@@ -6,7 +6,8 @@ Layout (format "brakeheat-results", format_version 2; every array kept bit for b
   solver_status, caution, references (string array), warnings (string array), overrides (string
   array of "dotted.key = TOML value", the --set and variant overrides applied on top of
   scenario_text; absent in files written before it), corners
-  (string array: corner order)
+  (string array: corner order), hydraulics_json (the hydraulics block as JSON; absent in files
+  written before it)
 - ``/corners/<corner>/`` attrs name, nodes, stop_time_s (NaN: no stop), extras_json
   - ``time_s`` (n_t) [s]; ``temperature_k`` (n_t x n_nodes) [K], attr nodes
   - ``link_energy_j`` (n_links) [J], attrs links, groups, sign_convention;
@@ -190,6 +191,8 @@ def write_results_hdf5(results: Results, path) -> None:
             f.attrs["warnings"] = _strings(results.warnings)
             f.attrs["overrides"] = _strings(f"{key} = {value}" for key, value in results.overrides)
             f.attrs["corners"] = _strings(c.name for c in results.corners)
+            if results.hydraulics is not None:
+                f.attrs["hydraulics_json"] = encode_exact(results.hydraulics, f"{path} hydraulics")
             corners = f.create_group("corners", track_order=True)
             for corner in results.corners:
                 _write_corner(corners.create_group(corner.name), corner, f"{path} corner {corner.name}")
@@ -318,4 +321,5 @@ def read_results_hdf5(path) -> Results:
             version=r.text(f, "version"), solver=r.text(f, "solver"), solver_status=r.text(f, "solver_status"),
             references=r.texts(f, "references"), corners=corners, caution=r.text(f, "caution"),
             warnings=r.texts(f, "warnings"),
-            overrides=tuple(_override(line) for line in (r.texts(f, "overrides") if "overrides" in f.attrs else ())))
+            overrides=tuple(_override(line) for line in (r.texts(f, "overrides") if "overrides" in f.attrs else ())),
+            hydraulics=decode_exact(r.text(f, "hydraulics_json")) if "hydraulics_json" in f.attrs else None)

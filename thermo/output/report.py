@@ -187,6 +187,40 @@ def format_corner_report(corner: CornerResult) -> str:
     return "\n".join(parts)
 
 
+def hydraulics_lines(h: dict | None) -> list[str]:
+    """The hydraulics block: bias, pressure ratio, per-corner caliper figures, master cylinders."""
+    if not h:
+        return []
+    lines = [RULE, "Hydraulics (rigid: line and caliper compliance and seal roll-back not modelled)", RULE,
+             f"Front share of the brake torque: {h['front_share'] * 100:.1f} % ({h['bias']} bias); "
+             f"front/rear line pressure ratio {_num(h['pressure_ratio_front_to_rear'], '.3f')}"]
+    headers = ["corner", "calipers", "piston area one side [mm2]", "caliper [mm2]", "clamp [N/bar]",
+               "torque [N m/bar]", "fluid [cm3/mm]", "leading/trailing"]
+    rows = [[name, str(c["calipers"]), f"{c['piston_area_one_side_mm2']:.0f}", f"{c['piston_area_caliper_mm2']:.0f}",
+             f"{c['clamp_force_n_per_bar']:.1f}", f"{c['brake_torque_nm_per_bar']:.2f}",
+             f"{c['fluid_displacement_cm3_per_mm']:.3f}", f"{c['leading_trailing_area_ratio']:.3f}"]
+            for name, c in h["corners"].items()]
+    lines += _table(headers, rows)
+    for name, c in h["corners"].items():
+        stints = c.get("pad_wear_by_stint") or []
+        if stints:
+            lines.append(f"  {name}: fluid drawn from the reservoir as the pads wore, per stint [cm3]: "
+                         + ", ".join(f"{row['fluid_cm3']:.1f} ({row['wear_mm']:.2f} mm, to {row['stint_end']})"
+                                     for row in stints))
+    mc = h.get("master_cylinders")
+    if mc:
+        lines.append(f"Master cylinders {mc['front_bore_mm']:.1f} / {mc['rear_bore_mm']:.1f} mm, balance bar "
+                     f"{mc['balance_bar_front_share'] * 100:.1f} % front, pedal ratio {h['pedal_ratio']:g}: "
+                     f"{mc['line_pressure_front_bar_per_n']:.3f} / {mc['line_pressure_rear_bar_per_n']:.3f} bar per N "
+                     f"of pedal force front / rear")
+        lines.append(f"Pedal travel: {mc['pedal_travel_mm_per_mm_piston_travel']:.2f} mm per mm of piston travel; "
+                     f"{mc['knock_back_pedal_travel_mm']:.1f} mm to take up a knock-back of {h['knock_back_mm']:.2f} mm")
+    else:
+        lines.append("Master cylinders: not given (bias = \"fixed\"); give them with bias = \"hydraulic\" "
+                     "for line pressures and pedal travel")
+    return lines
+
+
 def format_run_report(results: Results) -> str:
     """The whole run as plain ASCII text, ending with the caution.
 
@@ -205,7 +239,8 @@ def format_run_report(results: Results) -> str:
     if results.warnings:
         head += ["Warnings:"] + [f"  ! {w}" for w in results.warnings]
     body = [format_corner_report(c) for c in results.corners]
-    tail = [RULE, "References"] + [f"  - {ref}" for ref in results.references]
+    tail = hydraulics_lines(results.hydraulics)
+    tail += [RULE, "References"] + [f"  - {ref}" for ref in results.references]
     tail += [RULE, results.caution or CAUTION]
     text = "\n".join(head + [""] + ["\n\n".join(body)] + tail) + "\n"
     return text.encode("ascii", "replace").decode("ascii")

@@ -115,7 +115,8 @@ def summary_dict(results: Results) -> dict:
 
     Returns
     -------
-    dict  Keys scenario, version, solver, solver_status, caution, overrides, warnings, references, corners [-]
+    dict  Keys scenario, version, solver, solver_status, caution, overrides, warnings, references, corners,
+        hydraulics (null for results read from a file written before it) [-]
     """
     return {
         "scenario": results.scenario_name,
@@ -127,7 +128,19 @@ def summary_dict(results: Results) -> dict:
         "warnings": list(results.warnings),
         "references": list(results.references),
         "corners": [corner_summary(c) for c in results.corners],
+        "hydraulics": _rounded(results.hydraulics),
     }
+
+
+def _rounded(value):
+    """A nested block with its floats to 6 significant digits (an infinite ratio becomes null)."""
+    if isinstance(value, dict):
+        return {k: _rounded(v) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [_rounded(v) for v in value]
+    if isinstance(value, float):
+        return _significant(value, 6) if math.isfinite(value) else None
+    return value
 
 
 def summary_json(results: Results) -> str:

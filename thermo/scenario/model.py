@@ -150,6 +150,8 @@ class Scenario:
     plan: Plan
     pad_wear: PadWear
     solver: SolverChoice
+    pedal_ratio: float              # pushrod force per pedal force [-]
+    knock_back_m: float             # piston travel lost to knock-back, for the pedal travel report [m]
     variants: dict = field(default_factory=dict)
     overrides: tuple[tuple[str, object], ...] = ()
     calibration: object = None      # thermo.scenario.calibration.Calibration, or None without [calibration]

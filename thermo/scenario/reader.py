@@ -93,7 +93,8 @@ def scenario_from_dict(raw: dict, *, path: Path, text: str = "", overrides=()) -
         left_share_front=sec["brakes"]["left_share_front"], left_share_rear=sec["brakes"]["left_share_rear"],
         fuel_consumption_kg_per_lap=car["fuel_consumption_kg_per_lap"], fuel_capacity_kg=car["fuel_capacity_kg"],
         ambient=ambient, fluid=fluid, limits=limits, corners=corners, plan=plan, pad_wear=pad_wear,
-        solver=solver, variants=variants, overrides=tuple(overrides),
+        solver=solver, pedal_ratio=sec["brakes"]["pedal_ratio"], knock_back_m=sec["brakes"]["knock_back_m"],
+        variants=variants, overrides=tuple(overrides),
         calibration=parse_calibration(data.get("calibration"), corners, source))
 
 

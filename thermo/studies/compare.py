@@ -25,6 +25,7 @@ class Comparison:
     """
 
     runs: tuple[tuple[str, Results], ...]
+    rebalanced: tuple[tuple[str, dict], ...] = ()     # (variant, what --keep-bias changed), see keep_bias_plans
 
     def results(self, name: str) -> Results:
         """The results of one variant (or ``"baseline"``)."""
@@ -35,7 +36,7 @@ class Comparison:
 
     def as_dict(self) -> dict:
         """JSON-ready, as `brakeheat compare --json` prints it."""
-        return comparison_dict(self.runs)
+        return comparison_dict(self.runs, dict(self.rebalanced))
 
 
 def variant_overrides(scenario_raw: dict, cli_variants, only, source: str) -> list[tuple[str, list]]:
@@ -94,13 +95,80 @@ def plan_comparison(path: Path, overrides=(), variants=(), only=None) -> list[tu
     return plans
 
 
-def run_comparison(plans, *, progress=None) -> Comparison:
-    """Run each planned scenario in full (``progress(corner, segment)`` is called as segments finish)."""
+KEEP_BIAS_CHOICES = ("balance_bar", "rear_master_cylinder")
+BIAS_WARNING_POINTS = 1.0       # a variant moving the front share further than this (points) is named
+
+
+def keep_bias_plans(plans, how: str, path: Path) -> tuple[list, dict]:
+    """Re-balance each variant whose front share of the brake torque differs from the baseline's
+    (a caliper swap), so that it is the baseline's again: by the balance bar (``how`` =
+    "balance_bar") or by the rear master cylinder bore ("rear_master_cylinder"), as the override
+    ``brakes.balance_bar_front_share`` or ``brakes.master_cylinder_rear_mm`` added to the variant.
+
+    Returns the plans with those variants re-read, and per re-balanced variant what was changed:
+    {"key", "from", "to", "front_share_before", "front_share_after"}. Needs ``bias = "hydraulic"``
+    (a fixed share does not move with the calipers).
+    """
+    from thermo.chain.hydraulics import front_share, master_cylinders, scenario_calipers
+    from thermo.duty.hydraulics import balance_bar_for_share, rear_area_for_share
+    from thermo.scenario import load_scenario
+    if how not in KEEP_BIAS_CHOICES:
+        raise ScenarioError(f"--keep-bias {shown(how)}: expected one of {', '.join(KEEP_BIAS_CHOICES)}")
+    base = plans[0][1]
+    if master_cylinders(base) is None:
+        raise ScenarioError(f"{path}: --keep-bias needs [brakes] bias = \"hydraulic\" (with bias = \"fixed\" the "
+                            "front share is given, and a caliper swap does not move it)")
+    target = front_share(base)
+    out, notes = [plans[0]], {}
+    for name, scenario in plans[1:]:
+        before = front_share(scenario)
+        mc = master_cylinders(scenario)
+        if abs(before - target) < 1e-9 or mc is None:
+            out.append((name, scenario))
+            continue
+        calipers = scenario_calipers(scenario)
+        if how == "balance_bar":
+            key, old = "brakes.balance_bar_front_share", mc.balance_bar_front_share
+            new = balance_bar_for_share(target, calipers, mc.area_front_m2, mc.area_rear_m2)
+        else:
+            key, old = "brakes.master_cylinder_rear_mm", (4.0 * mc.area_rear_m2 / 3.141592653589793) ** 0.5 * 1e3
+            area = rear_area_for_share(target, calipers, mc.area_front_m2, mc.balance_bar_front_share)
+            new = (4.0 * area / 3.141592653589793) ** 0.5 * 1e3
+        try:
+            again = load_scenario(path, list(scenario.overrides) + [(key, new)])
+        except ScenarioError as error:
+            raise ScenarioError(f"variant '{name}': --keep-bias {how} needs {key} = {new:.4g}, which the scenario "
+                                f"does not allow: {error}") from None
+        out.append((name, again))
+        notes[name] = {"key": key, "from": old, "to": new, "front_share_before": before,
+                       "front_share_after": front_share(again)}
+    return out, notes
+
+
+def bias_warnings(plans, threshold_points: float = BIAS_WARNING_POINTS) -> list[str]:
+    """One line per variant whose front share of the brake torque moved from the baseline's by
+    more than ``threshold_points`` percentage points."""
+    from thermo.chain.hydraulics import front_share
+    base = front_share(plans[0][1])
+    lines = []
+    for name, scenario in plans[1:]:
+        moved = (front_share(scenario) - base) * 100.0
+        if abs(moved) > threshold_points:
+            lines.append(f"variant '{name}' moves the front share of the brake torque by {moved:+.1f} points "
+                         f"(from {base * 100:.1f} %): its temperatures change with the bias too; use --keep-bias "
+                         "to hold the baseline's share")
+    return lines
+
+
+def run_comparison(plans, *, progress=None, rebalanced=None) -> Comparison:
+    """Run each planned scenario in full (``progress(corner, segment)`` is called as segments finish);
+    ``rebalanced``: what ``keep_bias_plans`` changed, carried into the comparison."""
     from thermo.chain import run_scenario
-    return Comparison(tuple((name, run_scenario(sc, progress=progress)) for name, sc in plans))
+    return Comparison(tuple((name, run_scenario(sc, progress=progress)) for name, sc in plans),
+                      tuple((rebalanced or {}).items()))
 
 
-def compare(path, *, variants=(), overrides=(), only=None) -> Comparison:
+def compare(path, *, variants=(), overrides=(), only=None, keep_bias=None) -> Comparison:
     """The baseline and each variant of a scenario file, run in full.
 
     Parameters
@@ -109,17 +177,39 @@ def compare(path, *, variants=(), overrides=(), only=None) -> Comparison:
     variants : sequence  More variants as [NAME, "KEY=VALUE", ...] lists [-]
     overrides : sequence  (dotted key, value) pairs applied to every run [-]
     only : sequence of str or None  Run only these variants [-]
+    keep_bias : str or None  "balance_bar" or "rear_master_cylinder": re-balance variants that move
+        the front share back to the baseline's (``keep_bias_plans``); None: leave them [-]
 
     Returns
     -------
     Comparison  The runs, the baseline first [-]
     """
-    return run_comparison(plan_comparison(Path(path), overrides, variants, only))
+    plans = plan_comparison(Path(path), overrides, variants, only)
+    rebalanced = {}
+    if keep_bias is not None:
+        plans, rebalanced = keep_bias_plans(plans, keep_bias, Path(path))
+    return run_comparison(plans, rebalanced=rebalanced)
 
 
-def comparison_dict(runs) -> dict:
+def _hydraulics_change(base: dict | None, variant: dict | None) -> dict | None:
+    """Front share [points] and each corner's clamp force per bar and fluid per mm against the baseline."""
+    if not base or not variant:
+        return None
+    corners = {}
+    for name, v in variant["corners"].items():
+        b = base["corners"].get(name)
+        if b is not None:
+            corners[name] = {key: round(v[key] - b[key], 4) for key in
+                             ("clamp_force_n_per_bar", "fluid_displacement_cm3_per_mm", "piston_area_one_side_mm2")}
+    return {"front_share_change_points": round((variant["front_share"] - base["front_share"]) * 100.0, 3),
+            "corners": corners}
+
+
+def comparison_dict(runs, rebalanced=None) -> dict:
     """JSON-ready: ``variants`` (baseline first), each with ``name`` and ``corners`` as in `run --json`,
-    and ``changes``: per variant and corner, peak and margin differences against the baseline [K]."""
+    and ``changes``: per variant and corner, peak and margin differences against the baseline [K],
+    the hydraulics' changes (front share in points, clamp force per bar, fluid per mm of piston
+    travel) and, where ``--keep-bias`` re-balanced the variant, what it changed (``rebalanced``)."""
     from thermo.output.summary import summary_dict
     summaries = [(name, summary_dict(res)) for name, res in runs]
     base = summaries[0][1]
@@ -133,7 +223,9 @@ def comparison_dict(runs) -> dict:
                 "margin_change_k": {c["name"]: round(c["margin_k"] - b["margin_k"], 3)
                                     for c, b in zip(vc["checks"], bc["checks"])},
             })
-        changes.append({"name": name, "corners": corners})
+        changes.append({"name": name, "corners": corners,
+                        "hydraulics": _hydraulics_change(base.get("hydraulics"), s.get("hydraulics")),
+                        "rebalanced": (rebalanced or {}).get(name)})
     return {
         "scenario": base["scenario"], "version": base["version"], "caution": base["caution"],
         "variants": [{"name": name, **{k: v for k, v in s.items() if k not in ("caution", "version")}} for name, s in summaries],
