@@ -85,3 +85,22 @@ def test_smoothed_acceleration_rejects_bad_input():
         smoothed_acceleration(np.array([0.0, 1.0, 1.0]), np.ones(3))
     with pytest.raises(LapDataError):
         smoothed_acceleration(np.arange(5.0), np.ones(4))
+
+
+@pytest.mark.parametrize("window", [3, 5, 9, 21, 41])
+@pytest.mark.parametrize("deriv", [0, 1])
+def test_savgol_matches_scipy_signal_savgol_filter(window, deriv):
+    """lapdata's own filter against the reference implementation (scipy.signal.savgol_filter,
+    mode='interp', PyPI), edges included, on a noisy random walk."""
+    from scipy.signal import savgol_filter
+    from lapdata.signal import savgol
+    y = np.random.default_rng(window + deriv).normal(size=301).cumsum()
+    ours = savgol(y, window, 2, deriv=deriv, delta=0.05)
+    reference = savgol_filter(y, window, 2, deriv=deriv, delta=0.05, mode="interp")
+    np.testing.assert_allclose(ours, reference, rtol=1e-10, atol=1e-10 * np.abs(reference).max())
+
+
+def test_savgol_rejects_a_window_it_cannot_fit():
+    from lapdata.signal import savgol
+    with pytest.raises(LapDataError, match="window 4 must be odd"):
+        savgol(np.arange(10.0), 4, 2)
