@@ -77,3 +77,23 @@ def test_bearing_is_reached_only_through_hub_and_upright(front):
     assert {link.name for link in touching} == {"hub_to_bearing", "bearing_to_upright"}
     assert all(isinstance(link, Conduction) for link in touching)
     assert all(source.node != "bearing" for source in model.network.sources)
+
+
+# issue 16, geometry sanity from the trade: warnings, not errors (common practice, no published
+# source: a pad's outer edge within about 0.5 mm of the disc's, its inner edge on the friction ring)
+@pytest.mark.parametrize("offset_mm, height_mm, expected", [
+    (0.0, 0.0, []),                                   # nothing given: nothing to check
+    (0.4, 0.0, []),                                   # within the tolerance
+    (0.8, 0.0, ["overhangs the disc's outer edge"]),
+    (-0.8, 0.0, ["stops short of the disc's outer edge"]),
+    (0.0, 60.0, []),                                  # demo-like front: ring (380 - 250) / 2 = 65 mm high
+    (0.0, 66.0, ["inside the friction ring's inner diameter"]),   # inner edge 190 - 66 = 124 < 125 - 0.5 mm
+    (0.0, 30.0, ["wider than the pad's radial height"]),          # the 36 mm piston on a 30 mm pad
+])
+def test_pad_alignment_warnings(front, offset_mm, height_mm, expected):
+    pad = replace(front.pad, outer_edge_offset_m=offset_mm * 1e-3, radial_height_m=height_mm * 1e-3)
+    design = replace(front, pad=pad, disc=replace(front.disc, outer_diameter_m=0.380, inner_diameter_m=0.250))
+    warnings = design.alignment_warnings()
+    assert len(warnings) == len(expected)
+    for line, words in zip(warnings, expected):
+        assert words in line and "\n" not in line

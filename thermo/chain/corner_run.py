@@ -214,7 +214,7 @@ class CornerRun:
         scenario, design, model = self.scenario, self.design, self.model
         stint_thickness = self.stint_thickness + [("end of run", self.thickness)]
         validity_lines, used = check_validity(model.network, self.states, design.name)
-        warns = self.warns + validity_lines
+        warns = design.alignment_warnings() + self.warns + validity_lines
         time_s = np.concatenate(self.times)
         energy = EnergyBalance(self.heat_in, self._enthalpy() - self.h0, self.lost + self.removed)
         temps_all = np.concatenate(self.temps)

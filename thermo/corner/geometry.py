@@ -130,6 +130,9 @@ class DiscGeometry:
         return vane_sides + cheek_faces
 
 
+PAD_EDGE_TOLERANCE_M = 0.5e-3   # common practice, no published source: pad edge to disc edge
+
+
 @dataclass(frozen=True)
 class PadGeometry:
     """Both pads of the corner together (one each side of the disc).
@@ -156,6 +159,10 @@ class PadGeometry:
     # common practice, no published source
     rest_contact_conductance_w_m2k: float = key("rest_contact_conductance_w_m2k", 400.0, minimum=0.0,
                                                 doc="pad resting on the disc between applications", maximum=100000.0)
+    radial_height_m: float = key("radial_height_mm", 0.0, factor=MM, minimum=0.0, maximum=200.0,
+                                 doc="friction face's radial height, for the alignment warnings; 0: not given")
+    outer_edge_offset_m: float = key("outer_edge_offset_mm", 0.0, factor=MM, minimum=-50.0, maximum=50.0,
+                                     doc="pad's outer edge beyond (+) or inside (-) the disc's outer edge")
     section: str = "pad"
 
     def __post_init__(self):
@@ -392,6 +399,36 @@ class CornerDesign:
             raise ScenarioError(
                 f"[{where}.disc] outer_diameter_mm = {disc.outer_diameter_m * 1e3:g} does not fit inside a wheel of "
                 f"rolling radius {self.rolling_radius_m * 1e3:g} mm ([car] rolling_radius_{self.axle}_mm)")
+
+    def alignment_warnings(self) -> list[str]:
+        """Warnings (not errors) from the trade's rules for how a pad sits on its disc.
+
+        Common practice, no published source: the pad's outer edge within about 0.5 mm of the
+        disc's outer edge (beyond it the pad overhangs and wears a step; inside it the disc keeps
+        an unswept rim that grows into a lip), the pad's inner edge on the friction ring, and each
+        piston no wider than the pad's radial height. Needs ``pad.radial_height_mm`` for all but
+        the first.
+        """
+        where = f"corners.{self.name}.pad"
+        pad, disc = self.pad, self.disc
+        out = []
+        offset = pad.outer_edge_offset_m
+        if abs(offset) > PAD_EDGE_TOLERANCE_M:
+            side = "overhangs the disc's outer edge" if offset > 0 else "stops short of the disc's outer edge"
+            out.append(f"[{where}] outer_edge_offset_mm = {offset * 1e3:+.2f}: the pad {side} by more than "
+                       f"{PAD_EDGE_TOLERANCE_M * 1e3:g} mm, which wears a step into the "
+                       f"{'pad' if offset > 0 else 'disc'} (common practice, no published source)")
+        if pad.radial_height_m > 0:
+            inner_edge = disc.outer_diameter_m / 2 + offset - pad.radial_height_m
+            if inner_edge < disc.inner_diameter_m / 2 - PAD_EDGE_TOLERANCE_M:
+                out.append(f"[{where}] radial_height_mm = {pad.radial_height_m * 1e3:g}: the pad's inner edge sits "
+                           f"{(disc.inner_diameter_m / 2 - inner_edge) * 1e3:.1f} mm inside the friction ring's inner "
+                           f"diameter ({disc.inner_diameter_m * 1e3:g} mm) (common practice, no published source)")
+            widest = max(self.piston.diameters_m)
+            if widest > pad.radial_height_m:
+                out.append(f"[{where}] a {widest * 1e3:g} mm piston is wider than the pad's radial height "
+                           f"({pad.radial_height_m * 1e3:g} mm): it pushes past the friction material's edge")
+        return out
 
     @property
     def fluid_at_pistons_volume_m3(self) -> float:
