@@ -134,3 +134,23 @@ def test_a_signal_in_the_write_phase_leaves_the_set_marked_incomplete(interrupte
     for r in hits:
         assert not (r["folder"] / MANIFEST_NAME).exists()
 
+
+
+def test_an_interrupt_swallowed_by_a_callback_from_c_still_stops_the_command(monkeypatch, capsys):
+    """While numba loads or compiles a kernel, the compiler calls back into Python through ctypes;
+    a Ctrl-C raised inside such a callback is swallowed there (printed as "Exception ignored") and
+    the run went on. It must still end the command as an interrupt: exit 130, one line."""
+    import ctypes
+    import thermo.cli.main as cli_main
+    import thermo.cli.run_cmd as run_cmd
+
+    def command(args):
+        callback = ctypes.CFUNCTYPE(None)(lambda: signal.raise_signal(signal.SIGTERM))
+        callback()                         # the handler's KeyboardInterrupt dies in the callback
+        return 0                           # ... and the command would report success
+
+    monkeypatch.setattr(run_cmd, "run_command", command)
+    code = cli_main.main(["run", str(SMALL), "--quiet"])
+    captured = capsys.readouterr()
+    assert code == 130
+    assert captured.err.strip().splitlines() == [INTERRUPTED]

@@ -34,6 +34,44 @@ def _interrupt(signum, frame):
     raise KeyboardInterrupt
 
 
+def _unraisable(unraisable) -> None:
+    """An interrupt raised inside a callback from C (a ctypes callback of the compiler while numba
+    loads or compiles a kernel) is swallowed there and reported as "unraisable"; the run would go
+    on with a traceback on stderr. Note it instead; ``raise_swallowed_interrupt`` raises it again at
+    the next safe point, and the command unwinds like any interrupt."""
+    global _swallowed
+    if _interrupted and isinstance(unraisable.exc_value, KeyboardInterrupt):
+        _swallowed = True
+        return
+    _previous_unraisable(unraisable)
+
+
+def raise_swallowed_interrupt() -> None:
+    """At a safe point (between segments, at the end of a command): raise the interrupt that a
+    callback from C swallowed, so that the command stops and reports it."""
+    global _swallowed
+    if _swallowed:
+        _swallowed = False
+        raise KeyboardInterrupt
+
+
+_previous_unraisable = sys.unraisablehook
+_swallowed = False
+
+
+def _drain_pending_interrupts() -> None:
+    """Run, under brakeheat's own handler, any interrupt still pending (one delivered again by
+    ``_unraisable``, or a second Ctrl-C), so that none reaches the caller's handler after the
+    command has already reported the interrupt: a KeyboardInterrupt escaping there would end the
+    process by SIGINT instead of with exit code 130."""
+    import time
+    for _ in range(3):
+        try:
+            time.sleep(0)                    # a call that runs pending signal handlers
+        except KeyboardInterrupt:
+            pass
+
+
 def build_parser():
     import argparse
 
@@ -64,14 +102,15 @@ def _say(kind: str, message) -> None:
 
 
 def main(argv=None) -> int:
-    global _interrupted
-    _interrupted = False
+    global _interrupted, _previous_unraisable, _swallowed
+    _interrupted = _swallowed = False
     previous = {}
     try:
         for signum in (signal.SIGINT, signal.SIGTERM):
             previous[signum] = signal.signal(signum, _interrupt)
     except ValueError:                       # not the main thread (an embedding program): leave it
         pass
+    _previous_unraisable, sys.unraisablehook = sys.unraisablehook, _unraisable
     try:
         return _main(argv)
     except KeyboardInterrupt:
@@ -83,6 +122,9 @@ def main(argv=None) -> int:
         print(INTERRUPTED, file=sys.stderr)
         return EXIT_INTERRUPTED
     finally:
+        if _interrupted:
+            _drain_pending_interrupts()
+        sys.unraisablehook = _previous_unraisable
         for signum, handler in previous.items():     # a caller embedding main() gets its handlers back
             if handler is not None:
                 signal.signal(signum, handler)
@@ -98,6 +140,7 @@ def _main(argv) -> int:
         warnings.simplefilter("always")
         try:
             code = args.handler(args)
+            raise_swallowed_interrupt()
         except (BrakeheatError, LapDataError, OSError, MemoryError, RecursionError) as error:
             if _interrupted:                 # a library turned the interrupt into an error
                 raise KeyboardInterrupt from None
@@ -122,4 +165,7 @@ def _one_line(error: BaseException) -> str:
 
 
 if __name__ == "__main__":
-    sys.exit(main())
+    # run the package's copy of this module, not this __main__ one, so that the interrupt state
+    # (set by the signal handler, read by the progress line's safe points) lives in one place
+    from thermo.cli.main import main as package_main
+    sys.exit(package_main())

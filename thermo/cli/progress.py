@@ -18,6 +18,8 @@ class Progress:
         self.shown = False
 
     def __call__(self, corner: str, segment) -> None:
+        from thermo.cli.main import raise_swallowed_interrupt
+        raise_swallowed_interrupt()          # a safe point between segments
         self.done += 1
         if not self.enabled or time.monotonic() - self.start < self.delay_s:
             return
