@@ -12,6 +12,7 @@ from __future__ import annotations
 import signal
 import sys
 
+from thermo.cli import interrupts
 from thermo.cli.exit_codes import EXIT_EXCEEDED, EXIT_INPUT, EXIT_OK, EXIT_USAGE  # noqa: F401 (re-exported)
 
 # Nothing heavy is imported above this line: Ctrl-C while numpy and scipy load (the first
@@ -19,57 +20,6 @@ from thermo.cli.exit_codes import EXIT_EXCEEDED, EXIT_INPUT, EXIT_OK, EXIT_USAGE
 
 EXIT_INTERRUPTED = 130
 INTERRUPTED = "brakeheat: interrupted; nothing half-written was left"
-
-
-_interrupted = False
-
-
-def _interrupt(signum, frame):
-    """Ctrl-C and SIGTERM: note it and unwind as KeyboardInterrupt (which removes every temporary
-    file). The note matters when a library turns the KeyboardInterrupt into another error: numpy,
-    interrupted while it is imported, raises ImportError with no KeyboardInterrupt left in the
-    chain; the command is still reported as interrupted, not as a failure."""
-    global _interrupted
-    _interrupted = True
-    raise KeyboardInterrupt
-
-
-def _unraisable(unraisable) -> None:
-    """An interrupt raised inside a callback from C (a ctypes callback of the compiler while numba
-    loads or compiles a kernel) is swallowed there and reported as "unraisable"; the run would go
-    on with a traceback on stderr. Note it instead; ``raise_swallowed_interrupt`` raises it again at
-    the next safe point, and the command unwinds like any interrupt."""
-    global _swallowed
-    if _interrupted and isinstance(unraisable.exc_value, KeyboardInterrupt):
-        _swallowed = True
-        return
-    _previous_unraisable(unraisable)
-
-
-def raise_swallowed_interrupt() -> None:
-    """At a safe point (between segments, at the end of a command): raise the interrupt that a
-    callback from C swallowed, so that the command stops and reports it."""
-    global _swallowed
-    if _swallowed:
-        _swallowed = False
-        raise KeyboardInterrupt
-
-
-_previous_unraisable = sys.unraisablehook
-_swallowed = False
-
-
-def _drain_pending_interrupts() -> None:
-    """Run, under brakeheat's own handler, any interrupt still pending (one delivered again by
-    ``_unraisable``, or a second Ctrl-C), so that none reaches the caller's handler after the
-    command has already reported the interrupt: a KeyboardInterrupt escaping there would end the
-    process by SIGINT instead of with exit code 130."""
-    import time
-    for _ in range(3):
-        try:
-            time.sleep(0)                    # a call that runs pending signal handlers
-        except KeyboardInterrupt:
-            pass
 
 
 def build_parser():
@@ -102,29 +52,28 @@ def _say(kind: str, message) -> None:
 
 
 def main(argv=None) -> int:
-    global _interrupted, _previous_unraisable, _swallowed
-    _interrupted = _swallowed = False
+    interrupts.reset()
     previous = {}
     try:
         for signum in (signal.SIGINT, signal.SIGTERM):
-            previous[signum] = signal.signal(signum, _interrupt)
+            previous[signum] = signal.signal(signum, interrupts.on_signal)
     except ValueError:                       # not the main thread (an embedding program): leave it
         pass
-    _previous_unraisable, sys.unraisablehook = sys.unraisablehook, _unraisable
+    previous_hook, sys.unraisablehook = sys.unraisablehook, interrupts.unraisable_hook(sys.unraisablehook)
     try:
         return _main(argv)
     except KeyboardInterrupt:
         print(INTERRUPTED, file=sys.stderr)
         return EXIT_INTERRUPTED
     except BaseException:
-        if not _interrupted:
+        if not interrupts.interrupted():
             raise
         print(INTERRUPTED, file=sys.stderr)
         return EXIT_INTERRUPTED
     finally:
-        if _interrupted:
-            _drain_pending_interrupts()
-        sys.unraisablehook = _previous_unraisable
+        if interrupts.interrupted():
+            interrupts.drain_pending()
+        sys.unraisablehook = previous_hook
         for signum, handler in previous.items():     # a caller embedding main() gets its handlers back
             if handler is not None:
                 signal.signal(signum, handler)
@@ -140,9 +89,9 @@ def _main(argv) -> int:
         warnings.simplefilter("always")
         try:
             code = args.handler(args)
-            raise_swallowed_interrupt()
+            interrupts.raise_swallowed()
         except (BrakeheatError, LapDataError, OSError, MemoryError, RecursionError) as error:
-            if _interrupted:                 # a library turned the interrupt into an error
+            if interrupts.interrupted():     # a library turned the interrupt into an error
                 raise KeyboardInterrupt from None
             _say("error", _one_line(error))
             return EXIT_INPUT

@@ -4,6 +4,8 @@ from __future__ import annotations
 import sys
 import time
 
+from thermo.cli import interrupts
+
 
 class Progress:
     """Counts finished steps; prints 'corner front: lap 12/47' on stderr after ``delay_s``."""
@@ -18,8 +20,7 @@ class Progress:
         self.shown = False
 
     def __call__(self, corner: str, segment) -> None:
-        from thermo.cli.main import raise_swallowed_interrupt
-        raise_swallowed_interrupt()          # a safe point between segments
+        interrupts.raise_swallowed()         # a safe point between segments
         self.done += 1
         if not self.enabled or time.monotonic() - self.start < self.delay_s:
             return
