@@ -104,3 +104,17 @@ def test_warning_near_the_minimum_thickness():
 @pytest.fixture(scope="module")
 def small_design():
     return small_scenario().corners[0]
+
+
+def test_pad_warnings_say_near_above_the_minimum_and_below_under_it(small_design):
+    """Issue 17: a pad already under its minimum was reported as "within 1.0 mm of its minimum"."""
+    from thermo.chain.corner_run import _pad_warnings
+    minimum = small_design.pad.minimum_thickness_m
+    warned = set()
+    near = _pad_warnings(small_design, 1.0e-3, minimum + 0.4e-3, 7, warned)
+    assert len(near) == 1 and "within 1.0 mm of its minimum" in near[0]
+    below = _pad_warnings(small_design, 1.0e-3, minimum - 2.8e-3, 9, warned)
+    assert len(below) == 1 and "below its minimum" in below[0]
+    # straight from well above to under the minimum in one lap: only "below", never "within"
+    jump = _pad_warnings(small_design, 1.0e-3, minimum - 2.8e-3, 9, set())
+    assert len(jump) == 1 and "below its minimum" in jump[0] and "within" not in jump[0]

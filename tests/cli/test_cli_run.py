@@ -177,3 +177,33 @@ def test_store_full_keeps_every_step_and_the_link_flows(small_runs, tmp_path):
         np.testing.assert_allclose([lap.link_energy_j for lap in a.laps], [lap.link_energy_j for lap in b.laps])
         # the laps' and phases' link energies add up to the run's (first law, bookkeeping)
         np.testing.assert_allclose(np.sum([p.link_energy_j for p in b.phases], axis=0), b.link_energy_j, rtol=1e-9)
+
+
+def test_laps_and_checks_csv_hold_the_summary_numbers(small_runs, tmp_path):
+    """--out writes laps.csv and checks.csv (issue 17, exports); read back with Python's csv
+    module they agree with the JSON summary; --csv FILE writes the per-lap table alone."""
+    import csv
+    folder = small_runs["folder"]
+    laps = list(csv.DictReader((folder / "laps.csv").open(encoding="utf-8")))
+    checks = list(csv.DictReader((folder / "checks.csv").open(encoding="utf-8")))
+    data = small_runs["json"]
+    assert len(laps) == sum(len(c["laps"]) for c in data["corners"])
+    assert len(checks) == sum(len(c["checks"]) for c in data["corners"])
+    by_corner = {c["name"]: c for c in data["corners"]}
+    for row in laps:
+        lap = by_corner[row["corner"]]["laps"][int(row["lap"]) - 1]
+        assert row["phase"] == lap["phase"]
+        for node, value in lap["max_c"].items():
+            assert float(row[f"{node} max [degC]"]) == pytest.approx(value, abs=0.006)
+        assert float(row["braking_energy [kJ]"]) == pytest.approx(lap["braking_energy_j"] / 1e3, abs=1e-3)
+        assert float(row["pad_thickness [mm]"]) > 0
+    for row in checks:
+        check = next(c for c in by_corner[row["corner"]]["checks"] if c["name"] == row["check"])
+        assert float(row["margin [K]"]) == pytest.approx(check["margin_k"], abs=0.006)
+        assert row["status"] == check["status"] and row["node"] == check["node"]
+    assert all(" [" in h for h in laps[0] if h not in ("corner", "lap", "phase"))   # name [unit] headers
+    manifest = json.loads((folder / "manifest.json").read_text())
+    assert {"laps.csv", "checks.csv"} <= {f["name"] for f in manifest["files"]}
+    code, _, err = cli(["run", str(SMALL), *SHRINK, "--quiet", "--csv", str(tmp_path / "laps_only.csv")])
+    assert code == 0, err
+    assert (tmp_path / "laps_only.csv").read_text(encoding="utf-8") == (folder / "laps.csv").read_text(encoding="utf-8")

@@ -308,12 +308,12 @@ def _pad_warnings(design: CornerDesign, margin_m: float, thickness_m: float, lap
     """Warnings, each once per stint, when a worn pad comes within ``margin_m`` of its minimum and when below it."""
     minimum = design.pad.minimum_thickness_m
     out = []
-    if thickness_m - minimum < margin_m and "near" not in warned:
+    if 0.0 <= thickness_m - minimum < margin_m and "near" not in warned:
         warned.add("near")
         out.append(f"corner {design.name}: pad down to {thickness_m * 1e3:.1f} mm on lap {lap}, within "
                    f"{margin_m * 1e3:.1f} mm of its minimum {minimum * 1e3:.1f} mm")
     if thickness_m < minimum and "below" not in warned:
-        warned.add("below")
+        warned.update(("near", "below"))
         held = " (held there)" if thickness_m <= MIN_PAD_THICKNESS_M else ""
         out.append(f"corner {design.name}: pad worn to {thickness_m * 1e3:.1f} mm{held} on lap {lap}, below its "
                    f"minimum {minimum * 1e3:.1f} mm")

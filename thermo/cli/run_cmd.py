@@ -18,6 +18,7 @@ def add_run_options(p) -> None:
     p.add_argument("--store", choices=("standard", "full"), default="standard",
                    help="what results.h5 keeps: standard (series at [solver] output_s, link energies per lap "
                         "and phase) or full (every solver step, and every link's flow at each)")
+    p.add_argument("--csv", metavar="FILE", help="also write the per-lap table (as laps.csv under --out) to FILE")
     p.add_argument("--fail-on-exceeded", action="store_true", help="exit 3 when any check is exceeded")
     p.add_argument("--quiet", action="store_true", help="no progress indication")
 
@@ -51,6 +52,9 @@ def run_and_report(path: Path, args) -> int:
     if args.out:
         from thermo.output.files import write_outputs
         write_outputs(results, Path(args.out), command=getattr(args, "command", None) or "run")
+    if args.csv:
+        from thermo.output.tables_csv import write_laps_csv
+        write_laps_csv(results, Path(args.csv))
     if args.json:
         json.dump(summary_dict(results), sys.stdout, indent=2, allow_nan=False)
         sys.stdout.write("\n")
@@ -64,10 +68,15 @@ def run_and_report(path: Path, args) -> int:
 
 
 def check_out_option(args) -> None:
-    """A bad --out fails now, before the scenario is read or solved."""
+    """A bad --out or --csv fails now, before the scenario is read or solved."""
     if args.out is not None:
         from thermo.output.folder import check_output_folder
         check_output_folder(args.out, source="--out")
+    if getattr(args, "csv", None):
+        from thermo.output.errors import OutputError
+        target = Path(args.csv)
+        if target.is_dir() or not target.parent.is_dir():
+            raise OutputError(f"--csv {args.csv}: expected a file in an existing folder")
 
 
 def run_command(args) -> int:
