@@ -72,6 +72,8 @@ class CornerResult:
     phases: tuple[PhaseSpan, ...] = ()
     stop_time_s: float | None = None   # when the car stopped for the final soak (None: no soak)
     extras: dict = field(default_factory=dict)   # further per-corner facts (pad thickness per stint ...)
+    speed_m_s: np.ndarray | None = None      # (n_t,) car speed at the stored rows [m/s] (None: not kept)
+    brake_power_w: np.ndarray | None = None  # (n_t,) friction heat into the corner at the stored rows [W]
 
     def temperature(self, node: str) -> np.ndarray:
         """Temperature history of one output node [K]."""

@@ -82,3 +82,41 @@ def test_comparison_needs_matching_corners(factory, tmp_path):
     with pytest.raises(OutputError, match="unique"):
         plot_comparison([("same", base), ("same", base)], tmp_path)
     assert list(tmp_path.iterdir()) == []
+
+
+def test_the_temperature_figure_reads_at_a_glance():
+    """Issue 17: stacked panels sharing the time axis (speed and brake power on top, then disc and
+    pad, pistons and fluid, hub and bearing), labels in words with units, each check's limit as its
+    own line in the panel of its node, the stop marked. Checked on matplotlib's objects, on a real run."""
+    from pathlib import Path
+    from thermo.chain.run import run_scenario
+    from thermo.output.plots import corner_temperature_figure
+    from thermo.scenario import load_scenario
+    small = Path(__file__).resolve().parents[1] / "data" / "small.toml"
+    run = run_scenario(load_scenario(small, [("plan.phases.1.count", 1), ("plan.phases.4.count", 1),
+                                             ("plan.phases.5.duration_s", 60)]))
+    corner = run.corners[0]
+    figure = corner_temperature_figure(corner, "small ")
+    axes = [a for a in figure.axes if a.get_title(loc="left")]
+    assert [a.get_title(loc="left") for a in axes] == ["speed and brake power", "disc and pad",
+                                                       "pistons, fluid and caliper", "hub, bearing and upright"]
+    assert axes[0].get_ylabel() == "speed [km/h]" and any(a.get_ylabel() == "brake power [kW]" for a in figure.axes)
+    assert all(a.get_ylabel() == "temperature [degC]" for a in axes[1:])
+    assert axes[-1].get_xlabel() == "time from the start of the run [min]"
+    assert all(a in axes[0].get_shared_x_axes().get_siblings(axes[0]) for a in axes)   # one time axis
+    for panel in axes[1:]:
+        labels = panel.get_legend_handles_labels()[1]
+        nodes_here = [n for n in corner.node_names if any(label == _word(n) for label in labels)]
+        limits = [label for label in labels if label.startswith("limit: ")]
+        # every check on a node of this panel has its own limit line, and no other does
+        expected = [c for c in corner.checks if c.node in nodes_here]
+        assert len(limits) == len(expected) and all(c.name.replace("_", " ") in " ".join(limits) for c in expected)
+    styles = {line.get_linestyle() for line in axes[2].get_lines() if line.get_label().startswith("limit: fluid")}
+    assert len(styles) == 3                       # the three fluid limits, each in its own style
+    assert any(line.get_label() == "car stops" for line in axes[0].get_lines())
+    assert "\nsmall" not in figure.get_suptitle() and figure.get_suptitle().startswith("small\ncorner front")
+
+
+def _word(node):
+    from thermo.output.plots import node_style
+    return node_style(node)[2]

@@ -113,7 +113,7 @@ class CornerRun:
         self.T_initial = self.T.copy()
         self.thickness = design.pad.thickness_m
         self.h0 = self._enthalpy()
-        self.times, self.temps, self.flows = [], [], []
+        self.times, self.temps, self.flows, self.speeds, self.powers = [], [], [], [], []
         self.link_energy = np.zeros(len(self.model.network.links))
         self.heat_in = self.lost = self.removed = self.direct_to_disc = 0.0
         self.laps, self.stint_thickness, self.warns, self.states, self.lap_thickness = [], [], [], [], []
@@ -165,6 +165,9 @@ class CornerRun:
         keep = stored_rows(sol.time_s, out, self.interval_s)[1 if self.times else 0:]
         self.times.append(sol.time_s[keep])
         self.temps.append(out[keep])
+        local = sol.time_s[keep] - segment.t_start_s
+        self.speeds.append(np.interp(local, duty.time_s, duty.speed_m_s))
+        self.powers.append(np.interp(local, duty.time_s, duty.disc_heat_w + duty.pad_heat_w))
         if self.full:
             self.flows.append(sol.link_flows_w[keep])
         self.link_energy += sol.link_energy_j
@@ -243,7 +246,8 @@ class CornerRun:
             link_names=tuple(link.name for link in links), link_groups=tuple(link.group for link in links),
             link_flows_w=np.concatenate(self.flows) if self.full else None, link_energy_j=self.link_energy,
             energy=energy, checks=checks, laps=tuple(self.laps), phases=_phase_spans(segments, self.energy_by_phase),
-            stop_time_s=stop, extras=extras)
+            stop_time_s=stop, extras=extras, speed_m_s=np.concatenate(self.speeds),
+            brake_power_w=np.concatenate(self.powers))
 
 
 def stored_rows(time_s: np.ndarray, outputs: np.ndarray, interval_s: float) -> np.ndarray:

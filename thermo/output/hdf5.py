@@ -9,7 +9,9 @@ Layout (format "brakeheat-results", format_version 2; every array kept bit for b
   (string array: corner order), hydraulics_json (the hydraulics block as JSON; absent in files
   written before it)
 - ``/corners/<corner>/`` attrs name, nodes, stop_time_s (NaN: no stop), extras_json
-  - ``time_s`` (n_t) [s]; ``temperature_k`` (n_t x n_nodes) [K], attr nodes
+  - ``time_s`` (n_t) [s]; ``temperature_k`` (n_t x n_nodes) [K], attr nodes; ``speed_m_s`` (n_t)
+    [m/s] and ``brake_power_w`` (n_t) [W], the car's speed and the friction heat into the corner
+    at the stored rows (absent in files written before them)
   - ``link_energy_j`` (n_links) [J], attrs links, groups, sign_convention;
     ``link_flow_w`` (n_t x n_links) [W], same attrs, only when the run stored flows (``--store full``)
   - ``energy`` group, attrs heat_in_j, stored_j, lost_j [J], balance_rel_error [-]
@@ -125,6 +127,11 @@ def _write_corner(group: h5py.Group, corner: CornerResult, where: str) -> None:
     group.attrs["extras_json"] = encode_exact(corner.extras, f"{where} extras")
     _dataset(group, "time_s", corner.time_s, units="s")
     _dataset(group, "temperature_k", corner.temperatures_k, units="K", nodes=_strings(corner.node_names))
+    for key, values, units in (("speed_m_s", corner.speed_m_s, "m/s"), ("brake_power_w", corner.brake_power_w, "W")):
+        if values is not None:
+            if np.shape(values) != (n_t,):
+                raise OutputError(f"{where}: {key} has shape {np.shape(values)}, expected ({n_t},)")
+            _dataset(group, key, values, units=units)
     links = dict(links=_strings(corner.link_names), groups=_strings(corner.link_groups))
     if corner.link_flows_w is not None:
         _dataset(group, "link_flow_w", corner.link_flows_w, units="W", sign_convention=SIGN_CONVENTION, **links)
@@ -288,6 +295,8 @@ def _read_corner(r: _Reader, group) -> CornerResult:
         phases=phases,
         stop_time_s=None if math.isnan(stop) else stop,
         extras=decode_exact(r.text(group, "extras_json")),
+        speed_m_s=r.array(group, "speed_m_s") if "speed_m_s" in group else None,
+        brake_power_w=r.array(group, "brake_power_w") if "brake_power_w" in group else None,
     )
 
 

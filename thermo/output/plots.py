@@ -19,9 +19,9 @@ from thermo.output.errors import OutputError
 from thermo.results import CornerResult, Results
 
 DPI = 110
-# the fluid at the pistons is what the boiling checks read; "fluid" (the bulk) is kept for results
-# written before that node existed, where it carries the fluid checks
-LAP_PEAK_NODES = ("disc", "fluid_at_piston", "fluid", "bearing")
+# the nodes the per-lap plot may show, in order; it shows those a check reads (the disc's face and
+# bulk, the fluid at the pistons, or the bulk fluid in results written before that node, the bearing)
+LAP_PEAK_NODES = ("disc_surface", "disc", "fluid_at_piston", "fluid", "bearing")
 COMPARE_NODES = ("fluid_at_piston", "fluid", "bearing")
 # phase kind: (fill colour, label) of the shaded spans; other kinds are not shaded
 PHASE_SHADES = {"pit_stop": ("tab:red", "pit stop"), "safety_car": ("gold", "safety car"),
@@ -73,48 +73,162 @@ def _shade_phases(axes, corner: CornerResult) -> None:
         axes.axvline(corner.stop_time_s / MINUTE, color="black", linestyle=":", linewidth=1.2, label="car stops")
 
 
+# Okabe & Ito (2008), "Color Universal Design": a palette that readers with the common colour-vision
+# deficiencies can tell apart. Each node keeps one colour and line style in every plot.
+OKABE_ITO = {"orange": "#E69F00", "sky": "#56B4E9", "green": "#009E73", "yellow": "#F0E442", "blue": "#0072B2",
+             "vermillion": "#D55E00", "purple": "#CC79A7", "black": "#000000", "grey": "#999999"}
+NODE_STYLES = {  # node: (colour, line style, label in words)
+    "disc_surface": (OKABE_ITO["vermillion"], "-", "disc friction face"),
+    "disc": (OKABE_ITO["vermillion"], "--", "disc bulk"),
+    "pad_surface": (OKABE_ITO["orange"], ":", "pad friction face"),
+    "pad": (OKABE_ITO["orange"], "-", "pad bulk"),
+    "backing_plate": (OKABE_ITO["yellow"], "-", "pad backing plate"),
+    "piston": (OKABE_ITO["purple"], "-", "piston"),
+    "piston_seal": (OKABE_ITO["purple"], ":", "piston seal"),
+    "fluid_at_piston": (OKABE_ITO["blue"], "-", "fluid at the pistons"),
+    "fluid": (OKABE_ITO["sky"], "-", "bulk fluid"),
+    "caliper": (OKABE_ITO["green"], "-", "caliper body"),
+    "hub": (OKABE_ITO["grey"], "-", "hub"),
+    "bearing": (OKABE_ITO["black"], "-", "wheel bearing"),
+    "upright": (OKABE_ITO["green"], "--", "upright"),
+    "disc_bell": (OKABE_ITO["grey"], "--", "disc bell"),
+}
+TEMPERATURE_PANELS = (   # title, nodes; a node in none of them gets a panel of its own at the end
+    ("disc and pad", ("disc_surface", "disc", "pad")),
+    ("pistons, fluid and caliper", ("piston", "fluid_at_piston", "fluid", "caliper")),
+    ("hub, bearing and upright", ("hub", "bearing", "upright")),
+)
+LIMIT_STYLES = ("--", "-.", ":", (0, (5, 1, 1, 1, 1, 1)), (0, (8, 3)))
+
+
+def node_style(node: str, fallback_index: int = 0) -> tuple:
+    """(colour, line style, label) of a node, the same in every plot."""
+    if node in NODE_STYLES:
+        return NODE_STYLES[node]
+    colours = list(OKABE_ITO.values())
+    return colours[fallback_index % len(colours)], "-", node.replace("_", " ")
+
+
+def _panels(corner: CornerResult) -> list[tuple[str, list[str]]]:
+    present = set(corner.node_names)
+    panels = [(title, [n for n in nodes if n in present]) for title, nodes in TEMPERATURE_PANELS]
+    placed = {n for _, nodes in panels for n in nodes}
+    rest = [n for n in corner.node_names if n not in placed and n not in ("pad_surface", "backing_plate",
+                                                                          "piston_seal", "disc_bell")]
+    if rest:
+        panels.append(("other nodes", rest))
+    return [(title, nodes) for title, nodes in panels if nodes]
+
+
+def _mark_phases(axes, corner: CornerResult, label: bool) -> None:
+    used = set()
+    for phase in corner.phases:
+        if phase.kind not in PHASE_SHADES:
+            continue
+        colour, name = PHASE_SHADES[phase.kind]
+        axes.axvspan(phase.t_start_s / MINUTE, phase.t_end_s / MINUTE, color=colour, alpha=0.12,
+                     label=name if label and phase.kind not in used else None)
+        used.add(phase.kind)
+    if corner.stop_time_s is not None:
+        axes.axvline(corner.stop_time_s / MINUTE, color="black", linestyle=":", linewidth=1.2,
+                     label="car stops" if label else None)
+
+
 def plot_corner_temperatures(corner: CornerResult, path: Path, title: str = "") -> Path:
-    """Every output node against time [degC vs min], limit lines for the checks, phases shaded."""
-    entries = len(corner.node_names) + len(corner.checks)
-    figure = _new_figure(width=13.0 if entries > 20 else 10.0, height=6.5 if entries > 20 else 5.5)
-    axes = figure.add_subplot()
-    colours = _node_colours(corner.node_names)
+    """``corner_temperature_figure`` written as PNG to ``path``."""
+    return save_png(corner_temperature_figure(corner, title), path)
+
+
+def corner_temperature_figure(corner: CornerResult, title: str = "") -> Figure:
+    """One corner over the run, in stacked panels sharing the time axis [min]: speed and brake power
+    on top (when the results hold them); disc and pad; pistons, fluid and caliper; hub, bearing and
+    upright; each with the limits of the checks that read its nodes, phases shaded, the stop marked."""
+    panels = _panels(corner)
+    top = corner.speed_m_s is not None and corner.brake_power_w is not None
+    rows = len(panels) + (1 if top else 0)
+    figure = _new_figure(12.0, 2.6 * rows + 0.6)
     minutes = np.asarray(corner.time_s) / MINUTE
-    for j, node in enumerate(corner.node_names):
-        axes.plot(minutes, kelvin_to_celsius(corner.temperatures_k[:, j]), color=colours[node], label=node)
-    for check in corner.checks:
-        axes.axhline(kelvin_to_celsius(check.limit_k), color=colours.get(check.node, "black"), linestyle="--",
-                     linewidth=1.0, label=f"limit {check.name} ({kelvin_to_celsius(check.limit_k):.0f} degC)")
-    _shade_phases(axes, corner)
-    axes.set_xlabel("time [min]")
-    axes.set_ylabel("temperature [degC]")
-    axes.set_title(f"{title}{corner.name}: temperatures")
-    axes.grid(True, alpha=0.3)
-    # many nodes and limits: two columns, so that the legend fits beside the axes
-    axes.legend(loc="center left", bbox_to_anchor=(1.01, 0.5), fontsize="x-small" if entries > 20 else "small",
-                ncol=2 if entries > 20 else 1)
-    return save_png(figure, path)
+    axes_list = figure.subplots(rows, 1, sharex=True, squeeze=False)[:, 0]
+    k = 0
+    if top:
+        axes = axes_list[0]
+        axes.plot(minutes, np.asarray(corner.speed_m_s) * 3.6, color=OKABE_ITO["grey"], linewidth=0.8, label="car speed")
+        axes.set_ylabel("speed [km/h]")
+        power = axes.twinx()
+        power.plot(minutes, np.asarray(corner.brake_power_w) / 1e3, color=OKABE_ITO["vermillion"], linewidth=0.8,
+                   label="brake power into the corner")
+        power.set_ylabel("brake power [kW]")
+        _mark_phases(axes, corner, label=True)
+        handles = axes.get_legend_handles_labels()[0] + power.get_legend_handles_labels()[0]
+        labels = axes.get_legend_handles_labels()[1] + power.get_legend_handles_labels()[1]
+        axes.legend(handles, labels, loc="center left", bbox_to_anchor=(1.08, 0.5), fontsize="small")
+        axes.set_title("speed and brake power", loc="left", fontsize="medium")
+        axes.grid(True, alpha=0.3)
+        k = 1
+    for (panel_title, nodes), axes in zip(panels, axes_list[k:]):
+        for i, node in enumerate(nodes):
+            colour, style, label = node_style(node, i)
+            bulk_over_face = node == "disc" and "disc_surface" in nodes    # drawn over the face's band
+            axes.plot(minutes, kelvin_to_celsius(corner.temperature(node)), color=colour, linestyle=style,
+                      linewidth=1.8 if bulk_over_face else 1.2, zorder=3 if bulk_over_face else 2, label=label)
+        checks = [c for c in corner.checks if c.node in nodes]
+        for m, check in enumerate(checks):
+            colour, _, _ = node_style(check.node)
+            limit_c = kelvin_to_celsius(check.limit_k)
+            axes.axhline(limit_c, color=colour, linestyle=LIMIT_STYLES[m % len(LIMIT_STYLES)], linewidth=0.9,
+                         alpha=0.8, label=f"limit: {check.name.replace('_', ' ')} {limit_c:.0f} degC")
+        _mark_phases(axes, corner, label=not top and axes is axes_list[0])
+        axes.set_ylabel("temperature [degC]")
+        axes.set_title(panel_title, loc="left", fontsize="medium")
+        axes.grid(True, alpha=0.3)
+        axes.legend(loc="center left", bbox_to_anchor=(1.01, 0.5), fontsize="x-small" if len(checks) > 4 else "small")
+    axes_list[-1].set_xlabel("time from the start of the run [min]")
+    figure.suptitle(f"{title.strip()}\ncorner {corner.name}: temperatures over the run" if title.strip()
+                    else f"corner {corner.name}: temperatures over the run")
+    return figure
 
 
 def plot_lap_peaks(results: Results, path: Path, nodes=LAP_PEAK_NODES) -> Path:
-    """Per-lap peak of disc, fluid (at the pistons and bulk) and bearing for all corners [degC vs lap]."""
-    present = [n for n in nodes if any(lap.max_k.get(n) is not None for c in results.corners for lap in c.laps)]
+    """Per-lap peak of the nodes the main checks read (disc face, fluid at the pistons, bearing) for
+    every corner [degC vs lap], each with the limits of the checks on it and, after the last lap,
+    the peak of the soak (where the bearing usually peaks)."""
+    read = {check.node for corner in results.corners for check in corner.checks}
+    present = [n for n in nodes if n in read
+               and any(lap.max_k.get(n) is not None for c in results.corners for lap in c.laps)]
     if not present:
         raise OutputError(f"lap peak plot: no lap has a maximum for any of {', '.join(nodes)}")
-    figure = _new_figure(10.0, 2.8 * len(present))
+    figure = _new_figure(11.0, 2.8 * len(present) + 0.4)
+    markers = ("o", "s", "^", "D")
     for k, node in enumerate(present):
         axes = figure.add_subplot(len(present), 1, k + 1)
-        for corner in results.corners:
+        colour, _, label = node_style(node)
+        last_lap = 0
+        for m, corner in enumerate(results.corners):
             laps = [lap for lap in corner.laps if node in lap.max_k]
-            if laps:
-                axes.plot([lap.index for lap in laps], [kelvin_to_celsius(lap.max_k[node]) for lap in laps],
-                          marker="o", markersize=3, label=corner.name)
+            if not laps:
+                continue
+            marker = markers[m % len(markers)]
+            axes.plot([lap.index for lap in laps], [kelvin_to_celsius(lap.max_k[node]) for lap in laps],
+                      marker=marker, markersize=3, linewidth=1.0, color=colour, alpha=1.0 - 0.35 * (m % 2),
+                      label=f"{corner.name}")
+            last_lap = max(last_lap, laps[-1].index)
+            if corner.stop_time_s is not None and node in corner.node_names:
+                after = np.asarray(corner.time_s) >= corner.stop_time_s
+                if np.any(after):
+                    soak_c = kelvin_to_celsius(float(corner.temperature(node)[after].max()))
+                    axes.plot([laps[-1].index + 1.5], [soak_c], marker=marker, markersize=7, color=colour,
+                              linestyle="none", markerfacecolor="none", label=f"{corner.name}: soak peak")
+        for n, check in enumerate(c for c in results.corners[0].checks if c.node == node):
+            limit_c = kelvin_to_celsius(check.limit_k)
+            axes.axhline(limit_c, color="black", linestyle=LIMIT_STYLES[n % len(LIMIT_STYLES)], linewidth=0.9,
+                         label=f"limit: {check.name.replace('_', ' ')} {limit_c:.0f} degC")
         axes.xaxis.set_major_locator(MaxNLocator(integer=True))
-        axes.set_ylabel(f"{node} peak [degC]")
-        axes.set_title(f"{node}: highest temperature in each lap")
+        axes.set_ylabel("peak [degC]")
+        axes.set_title(f"{label}: highest temperature in each lap, and in the soak (open marker)", loc="left",
+                       fontsize="medium")
         axes.grid(True, alpha=0.3)
-        axes.legend(fontsize="small")
-    axes.set_xlabel("lap [-]")
+        axes.legend(loc="center left", bbox_to_anchor=(1.01, 0.5), fontsize="small")
+    axes.set_xlabel("lap [-] (the soak after the last lap)")
     return save_png(figure, path)
 
 
