@@ -60,19 +60,6 @@ def _node_colours(nodes) -> dict[str, tuple]:
     return {node: cmap(order[i % 20]) for i, node in enumerate(nodes)}
 
 
-def _shade_phases(axes, corner: CornerResult) -> None:
-    used = set()
-    for phase in corner.phases:
-        if phase.kind not in PHASE_SHADES:
-            continue
-        colour, label = PHASE_SHADES[phase.kind]
-        axes.axvspan(phase.t_start_s / MINUTE, phase.t_end_s / MINUTE, color=colour, alpha=0.15,
-                     label=None if phase.kind in used else label)
-        used.add(phase.kind)
-    if corner.stop_time_s is not None:
-        axes.axvline(corner.stop_time_s / MINUTE, color="black", linestyle=":", linewidth=1.2, label="car stops")
-
-
 # Okabe & Ito (2008), "Color Universal Design": a palette that readers with the common colour-vision
 # deficiencies can tell apart. Each node keeps one colour and line style in every plot.
 OKABE_ITO = {"orange": "#E69F00", "sky": "#56B4E9", "green": "#009E73", "yellow": "#F0E442", "blue": "#0072B2",
@@ -120,17 +107,23 @@ def _panels(corner: CornerResult) -> list[tuple[str, list[str]]]:
     return [(title, nodes) for title, nodes in panels if nodes]
 
 
-def _mark_phases(axes, corner: CornerResult, label: bool) -> None:
+def _time_unit(corner: CornerResult) -> tuple[float, str]:
+    """(seconds per unit, unit) of a run's time axis: minutes, or hours for a run over 3 hours."""
+    end = float(np.asarray(corner.time_s)[-1]) if np.size(corner.time_s) else 0.0
+    return (3600.0, "h") if end > 3 * 3600.0 else (MINUTE, "min")
+
+
+def _mark_phases(axes, corner: CornerResult, label: bool, unit_s: float = MINUTE) -> None:
     used = set()
     for phase in corner.phases:
         if phase.kind not in PHASE_SHADES:
             continue
         colour, name = PHASE_SHADES[phase.kind]
-        axes.axvspan(phase.t_start_s / MINUTE, phase.t_end_s / MINUTE, color=colour, alpha=0.12,
+        axes.axvspan(phase.t_start_s / unit_s, phase.t_end_s / unit_s, color=colour, alpha=0.12,
                      label=name if label and phase.kind not in used else None)
         used.add(phase.kind)
     if corner.stop_time_s is not None:
-        axes.axvline(corner.stop_time_s / MINUTE, color="black", linestyle=":", linewidth=1.2,
+        axes.axvline(corner.stop_time_s / unit_s, color="black", linestyle=":", linewidth=1.2,
                      label="car stops" if label else None)
 
 
@@ -147,7 +140,8 @@ def corner_temperature_figure(corner: CornerResult, title: str = "") -> Figure:
     top = corner.speed_m_s is not None and corner.brake_power_w is not None
     rows = len(panels) + (1 if top else 0)
     figure = _new_figure(12.0, 2.6 * rows + 0.6)
-    minutes = np.asarray(corner.time_s) / MINUTE
+    unit_s, unit = _time_unit(corner)
+    minutes = np.asarray(corner.time_s) / unit_s
     axes_list = figure.subplots(rows, 1, sharex=True, squeeze=False)[:, 0]
     k = 0
     if top:
@@ -158,7 +152,7 @@ def corner_temperature_figure(corner: CornerResult, title: str = "") -> Figure:
         power.plot(minutes, np.asarray(corner.brake_power_w) / 1e3, color=OKABE_ITO["vermillion"], linewidth=0.8,
                    label="brake power into the corner")
         power.set_ylabel("brake power [kW]")
-        _mark_phases(axes, corner, label=True)
+        _mark_phases(axes, corner, label=True, unit_s=unit_s)
         handles = axes.get_legend_handles_labels()[0] + power.get_legend_handles_labels()[0]
         labels = axes.get_legend_handles_labels()[1] + power.get_legend_handles_labels()[1]
         axes.legend(handles, labels, loc="center left", bbox_to_anchor=(1.08, 0.5), fontsize="small")
@@ -177,12 +171,12 @@ def corner_temperature_figure(corner: CornerResult, title: str = "") -> Figure:
             limit_c = kelvin_to_celsius(check.limit_k)
             axes.axhline(limit_c, color=colour, linestyle=LIMIT_STYLES[m % len(LIMIT_STYLES)], linewidth=0.9,
                          alpha=0.8, label=f"limit: {check.name.replace('_', ' ')} {limit_c:.0f} degC")
-        _mark_phases(axes, corner, label=not top and axes is axes_list[0])
+        _mark_phases(axes, corner, label=not top and axes is axes_list[0], unit_s=unit_s)
         axes.set_ylabel("temperature [degC]")
         axes.set_title(panel_title, loc="left", fontsize="medium")
         axes.grid(True, alpha=0.3)
         axes.legend(loc="center left", bbox_to_anchor=(1.01, 0.5), fontsize="x-small" if len(checks) > 4 else "small")
-    axes_list[-1].set_xlabel("time from the start of the run [min]")
+    axes_list[-1].set_xlabel(f"time from the start of the run [{unit}]")
     figure.suptitle(f"{title.strip()}\ncorner {corner.name}: temperatures over the run" if title.strip()
                     else f"corner {corner.name}: temperatures over the run")
     return figure
