@@ -113,3 +113,14 @@ def test_still_rising_soak_asks_for_a_longer_soak(results, factory):
     checks = _section(text, "Limit checks")
     assert checks[-1].strip().startswith("! fluid_boiling_dry: peak still rising at the end of the soak")
     assert checks[-1].rstrip().endswith("run a longer soak (plan soak duration_s)")
+
+
+def test_the_number_of_lap_rows_is_the_users_choice(factory):
+    """`run --laps all|N` (issue 17): every lap of a long run, or about N rows."""
+    r = factory.results(n_race_laps=60)
+    every = _section(format_run_report(r, lap_rows=10 ** 9), "Per-lap maxima")
+    assert every[0] == "Per-lap maxima [degC], 62 laps"
+    assert [int(line.split()[0]) for line in every[3:]] == list(range(1, 63))
+    few = _section(format_run_report(r, lap_rows=7), "Per-lap maxima")
+    shown = [int(line.split()[0]) for line in few[3:]]
+    assert 7 <= len(shown) <= 9 and shown[-1] == 62          # about 7, with the last (and the worst)

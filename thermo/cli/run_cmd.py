@@ -9,6 +9,16 @@ from thermo.cli.exit_codes import EXIT_EXCEEDED, EXIT_OK
 from thermo.cli.options import demo_scenario_path, overrides_with_solver
 
 
+def _lap_rows(text: str) -> int:
+    """--laps: "all" (a very large count) or a whole number of at least 1."""
+    import argparse
+    if text == "all":
+        return 10 ** 9
+    if not text.isdigit() or int(text) < 1:
+        raise argparse.ArgumentTypeError(f"expected all or a whole number of rows of at least 1, got {text!r}")
+    return int(text)
+
+
 def add_run_options(p) -> None:
     p.add_argument("--json", action="store_true", help="print one JSON object on stdout instead of the report")
     p.add_argument("--out", metavar="DIR", help="write results.h5, summary.json and PNG plots into DIR")
@@ -18,6 +28,9 @@ def add_run_options(p) -> None:
     p.add_argument("--store", choices=("standard", "full"), default="standard",
                    help="what results.h5 keeps: standard (series at [solver] output_s, link energies per lap "
                         "and phase) or full (every solver step, and every link's flow at each)")
+    p.add_argument("--laps", type=_lap_rows, default=None, metavar="all|N",
+                   help="per-lap table rows in the report: all, or about N (default: all up to 40 laps, "
+                        "else about 20 with the last and the worst)")
     p.add_argument("--csv", metavar="FILE", help="also write the per-lap table (as laps.csv under --out) to FILE")
     p.add_argument("--fail-on-exceeded", action="store_true", help="exit 3 when any check is exceeded")
     p.add_argument("--quiet", action="store_true", help="no progress indication")
@@ -60,7 +73,7 @@ def run_and_report(path: Path, args) -> int:
         sys.stdout.write("\n")
     else:
         from thermo.output.report import format_run_report
-        print(format_run_report(results))
+        print(format_run_report(results, args.laps))
         if args.out:
             print(f"\nWrote results.h5, summary.json, plots and manifest.json to {args.out}")
     exceeded = any(c.status == "exceeded" for corner in results.corners for c in corner.checks)

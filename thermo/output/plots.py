@@ -240,7 +240,10 @@ def plot_heat_paths(results: Results, path: Path) -> Path:
     left = np.zeros(len(names))
     for group in groups:
         width = np.array([100.0 * shares[n].get(group, 0.0) for n in names])
-        axes.barh(names, width, left=left, label=group)
+        bars = axes.barh(names, width, left=left, label=group.replace("_", " "))
+        # each share written on its bar where it is wide enough to hold the number
+        axes.bar_label(bars, labels=[f"{w:.0f} %" if w >= 4.0 else "" for w in width], label_type="center",
+                       fontsize="x-small")
         left += width
     axes.set_xlabel("share of the heat that left the corner [%]")
     axes.set_ylabel("corner")
@@ -303,7 +306,8 @@ def _overlay(variants: list[tuple[str, Results]], corner_name: str, path: Path) 
 
 def _gain_bars(variants: list[tuple[str, Results]], path: Path) -> Path:
     gains = margin_gains(variants, COMPARE_NODES)
-    labels = [f"{corner}\n{node}" for corner, per_node in next(iter(gains.values())).items() for node in per_node]
+    labels = [f"{corner}\n{node_style(node)[2]}" for corner, per_node in next(iter(gains.values())).items()
+              for node in per_node]
     if not labels:
         raise OutputError("comparison: the baseline has no check on fluid or bearing, so no margin to compare")
     figure = _new_figure(max(6.0, 1.1 * len(labels) + 3.0), 5.0)
@@ -312,7 +316,8 @@ def _gain_bars(variants: list[tuple[str, Results]], path: Path) -> Path:
     width = 0.8 / len(gains)
     for k, (name, per_corner) in enumerate(gains.items()):
         values = [g for per_node in per_corner.values() for g in per_node.values()]
-        axes.bar(x + (k - (len(gains) - 1) / 2) * width, values, width, label=name)
+        bars = axes.bar(x + (k - (len(gains) - 1) / 2) * width, values, width, label=name)
+        axes.bar_label(bars, labels=[f"{v:+.1f}" for v in values], fontsize="x-small", padding=2)
     axes.axhline(0.0, color="black", linewidth=0.8)
     axes.set_xticks(x, labels)
     axes.set_ylabel("margin gained vs baseline [K]")

@@ -120,10 +120,13 @@ def _soak_section(corner: CornerResult) -> list[str]:
     return lines
 
 
-def _laps_section(corner: CornerResult) -> list[str]:
+def _laps_section(corner: CornerResult, lap_rows: int | None = None) -> list[str]:
     if not corner.laps:
         return ["Laps: none recorded"]
-    shown, stride = laps_to_show(corner.laps, corner)
+    if lap_rows is None:
+        shown, stride = laps_to_show(corner.laps, corner)
+    else:
+        shown, stride = laps_to_show(corner.laps, corner, max_rows=lap_rows, every_target=lap_rows)
     lap_nodes = [n for n in corner.node_names if n in corner.laps[0].max_k]
     lap_nodes += [n for n in corner.laps[0].max_k if n not in lap_nodes]
     title = f"Per-lap maxima [degC], {len(corner.laps)} laps"
@@ -177,10 +180,11 @@ def _pad_lines(corner: CornerResult) -> list[str]:
     return lines
 
 
-def format_corner_report(corner: CornerResult) -> str:
-    """The report section of one corner."""
+def format_corner_report(corner: CornerResult, lap_rows: int | None = None) -> str:
+    """The report section of one corner; ``lap_rows``: about how many per-lap rows (None: up to 40
+    laps all, else about 20 of them with the last and the worst)."""
     parts = [RULE, f"Corner {corner.name}", RULE, *_peaks_section(corner), "", *_checks_section(corner), "",
-             *_energy_lines(corner), "", *_soak_section(corner), "", *_laps_section(corner)]
+             *_energy_lines(corner), "", *_soak_section(corner), "", *_laps_section(corner, lap_rows)]
     pad = _pad_lines(corner)
     if pad:
         parts += ["", *pad]
@@ -221,12 +225,13 @@ def hydraulics_lines(h: dict | None) -> list[str]:
     return lines
 
 
-def format_run_report(results: Results) -> str:
+def format_run_report(results: Results, lap_rows: int | None = None) -> str:
     """The whole run as plain ASCII text, ending with the caution.
 
     Parameters
     ----------
     results : Results  A finished run [-]
+    lap_rows : int or None  About how many rows each per-lap table shows (None: the compact default) [-]
 
     Returns
     -------
@@ -238,7 +243,7 @@ def format_run_report(results: Results) -> str:
         head += ["Overrides applied on top of the scenario file:"] + [f"  {k} = {v}" for k, v in results.overrides]
     if results.warnings:
         head += ["Warnings:"] + [f"  ! {w}" for w in results.warnings]
-    body = [format_corner_report(c) for c in results.corners]
+    body = [format_corner_report(c, lap_rows) for c in results.corners]
     tail = hydraulics_lines(results.hydraulics)
     tail += [RULE, "References"] + [f"  - {ref}" for ref in results.references]
     tail += [RULE, results.caution or CAUTION]
