@@ -233,3 +233,34 @@ def margin_gains(variants: list[tuple[str, Results]], nodes=("fluid_at_piston", 
             per_corner[base_corner.name] = per_node
         gains[name] = per_corner
     return gains
+
+
+# pad thickness entries of a corner's extras, and the factor from their unit to mm
+PAD_THICKNESS_KEYS = {"pad_thickness_m": 1.0e3, "pad_thickness_mm": 1.0}
+PAD_MINIMUM_KEYS = {"pad_minimum_thickness_m": 1.0e3, "pad_minimum_thickness_mm": 1.0}
+
+
+def thickness_items(corner: CornerResult, key: str, per_mm: float) -> list[tuple[str, float]]:
+    """(label, thickness [mm]) pairs from an extras entry in one of the accepted shapes."""
+    value = corner.extras[key]
+    bad = OutputError(f"corner {corner.name} extras '{key}': expected a number, a list of numbers, a dict "
+                      f"label: number, or a list of {{'when': label, 'thickness_{'mm' if per_mm == 1 else 'm'}': "
+                      f"number}}, got {shown(value)}")
+    if isinstance(value, dict):
+        items = list(value.items())
+    elif isinstance(value, (list, tuple)):
+        items = []
+        for i, item in enumerate(value):
+            if isinstance(item, dict):
+                unit_key = "thickness_mm" if per_mm == 1 else "thickness_m"
+                if unit_key not in item:
+                    raise bad
+                items.append((str(item.get("when", f"stint {i + 1}")), item[unit_key]))
+            else:
+                items.append((f"stint {i + 1}", item))
+    else:
+        items = [("", value)]
+    try:
+        return [(str(label), float(number) * per_mm) for label, number in items]
+    except (TypeError, ValueError):
+        raise bad from None

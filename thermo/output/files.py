@@ -7,20 +7,24 @@ from thermo.results import Results
 
 
 def _write_run_files(results: Results, out: Path) -> list[Path]:
-    """results.h5, summary.json, laps.csv, checks.csv and the plots, each written atomically; their paths."""
+    """results.h5, summary.json, laps.csv, checks.csv, report.html and the plots, each written atomically;
+    their paths."""
     from thermo.output.hdf5 import write_results_hdf5
     from thermo.output.plots import plot_run
     from thermo.output.summary import write_summary_json
+    from thermo.output.html_report import write_report_html
     from thermo.output.tables_csv import write_checks_csv, write_laps_csv
     write_results_hdf5(results, out / "results.h5")
     write_summary_json(results, out / "summary.json")
     write_laps_csv(results, out / "laps.csv")
     write_checks_csv(results, out / "checks.csv")
-    return [out / "results.h5", out / "summary.json", out / "laps.csv", out / "checks.csv", *plot_run(results, out)]
+    write_report_html(results, out / "report.html")
+    return [out / "results.h5", out / "summary.json", out / "laps.csv", out / "checks.csv", out / "report.html",
+            *plot_run(results, out)]
 
 
 def write_outputs(results: Results, out_dir, command: str = "run") -> Path:
-    """results.h5, summary.json, laps.csv, checks.csv and the plots into ``out_dir`` (made if missing), each written
+    """results.h5, summary.json, laps.csv, checks.csv, report.html and the plots into ``out_dir`` (made if missing), each written
     atomically (a temporary file renamed into place), then manifest.json listing them, written last;
     the folder's old manifest.json is removed first. ``command`` is recorded in the manifest.
     Returns the folder."""

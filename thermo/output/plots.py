@@ -48,6 +48,24 @@ def save_png(figure: Figure, path: Path) -> Path:
 
 
 
+def svg_text(figure: Figure) -> str:
+    """``figure`` as an SVG element for inline use in HTML (no XML declaration or DOCTYPE); every
+    text drawn literally, as in ``save_png``, and kept as text (searchable, printable)."""
+    import io
+    from matplotlib import rc_context
+    for text in figure.findobj(Text):
+        text.set_parse_math(False)
+    import re
+    buffer = io.StringIO()
+    with rc_context({"svg.fonttype": "none", "svg.hashsalt": "brakeheat"}):      # stable ids: same run, same page
+        figure.savefig(buffer, format="svg", metadata={"Date": None})
+    svg = buffer.getvalue()
+    svg = svg[svg.index("<svg"):]
+    # the RDF metadata block and its name spaces: nothing a page needs, and links to nowhere useful
+    svg = re.sub(r"<metadata>.*?</metadata>\s*", "", svg, flags=re.S)
+    return re.sub(r'\s+xmlns:(dc|cc|rdf)="[^"]*"', "", svg)
+
+
 def _safe(name: str) -> str:
     return "".join(ch if ch.isalnum() or ch in "-_" else "_" for ch in name)
 
@@ -86,6 +104,26 @@ TEMPERATURE_PANELS = (   # title, nodes; a node in none of them gets a panel of 
     ("hub, bearing and upright", ("hub", "bearing", "upright")),
 )
 LIMIT_STYLES = ("--", "-.", ":", (0, (5, 1, 1, 1, 1, 1)), (0, (8, 3)))
+
+
+MAX_PLOT_POINTS = 3000     # per line: longer series are drawn as their envelope (min and max per bucket)
+
+
+def envelope(x: np.ndarray, y: np.ndarray, max_points: int = MAX_PLOT_POINTS) -> tuple[np.ndarray, np.ndarray]:
+    """A long series thinned for drawing: in each of ``max_points // 2`` equal runs of samples,
+    the lowest and the highest sample in their time order, so peaks and troughs stay drawn."""
+    x, y = np.asarray(x), np.asarray(y)
+    if x.size <= max_points:
+        return x, y
+    buckets = max_points // 2
+    edges = np.linspace(0, x.size, buckets + 1).astype(int)
+    keep = []
+    for a, b in zip(edges[:-1], edges[1:]):
+        if b > a:
+            lo, hi = a + int(np.argmin(y[a:b])), a + int(np.argmax(y[a:b]))
+            keep += sorted({lo, hi})
+    keep = np.asarray(keep)
+    return x[keep], y[keep]
 
 
 def node_style(node: str, fallback_index: int = 0) -> tuple:
@@ -146,11 +184,12 @@ def corner_temperature_figure(corner: CornerResult, title: str = "") -> Figure:
     k = 0
     if top:
         axes = axes_list[0]
-        axes.plot(minutes, np.asarray(corner.speed_m_s) * 3.6, color=OKABE_ITO["grey"], linewidth=0.8, label="car speed")
+        axes.plot(*envelope(minutes, np.asarray(corner.speed_m_s) * 3.6), color=OKABE_ITO["grey"], linewidth=0.8,
+                  label="car speed")
         axes.set_ylabel("speed [km/h]")
         power = axes.twinx()
-        power.plot(minutes, np.asarray(corner.brake_power_w) / 1e3, color=OKABE_ITO["vermillion"], linewidth=0.8,
-                   label="brake power into the corner")
+        power.plot(*envelope(minutes, np.asarray(corner.brake_power_w) / 1e3), color=OKABE_ITO["vermillion"],
+                   linewidth=0.8, label="brake power into the corner")
         power.set_ylabel("brake power [kW]")
         _mark_phases(axes, corner, label=True, unit_s=unit_s)
         handles = axes.get_legend_handles_labels()[0] + power.get_legend_handles_labels()[0]
@@ -163,7 +202,7 @@ def corner_temperature_figure(corner: CornerResult, title: str = "") -> Figure:
         for i, node in enumerate(nodes):
             colour, style, label = node_style(node, i)
             bulk_over_face = node == "disc" and "disc_surface" in nodes    # drawn over the face's band
-            axes.plot(minutes, kelvin_to_celsius(corner.temperature(node)), color=colour, linestyle=style,
+            axes.plot(*envelope(minutes, kelvin_to_celsius(corner.temperature(node))), color=colour, linestyle=style,
                       linewidth=1.8 if bulk_over_face else 1.2, zorder=3 if bulk_over_face else 2, label=label)
         checks = [c for c in corner.checks if c.node in nodes]
         for m, check in enumerate(checks):
@@ -183,6 +222,11 @@ def corner_temperature_figure(corner: CornerResult, title: str = "") -> Figure:
 
 
 def plot_lap_peaks(results: Results, path: Path, nodes=LAP_PEAK_NODES) -> Path:
+    """``lap_peaks_figure`` written as PNG to ``path``."""
+    return save_png(lap_peaks_figure(results, nodes), path)
+
+
+def lap_peaks_figure(results: Results, nodes=LAP_PEAK_NODES) -> Figure:
     """Per-lap peak of the nodes the main checks read (disc face, fluid at the pistons, bearing) for
     every corner [degC vs lap], each with the limits of the checks on it and, after the last lap,
     the peak of the soak (where the bearing usually peaks)."""
@@ -223,10 +267,15 @@ def plot_lap_peaks(results: Results, path: Path, nodes=LAP_PEAK_NODES) -> Path:
         axes.grid(True, alpha=0.3)
         axes.legend(loc="center left", bbox_to_anchor=(1.01, 0.5), fontsize="small")
     axes.set_xlabel("lap [-] (the soak after the last lap)")
-    return save_png(figure, path)
+    return figure
 
 
 def plot_heat_paths(results: Results, path: Path) -> Path:
+    """``heat_paths_figure`` written as PNG to ``path``."""
+    return save_png(heat_paths_figure(results), path)
+
+
+def heat_paths_figure(results: Results) -> Figure:
     """Where the heat went: a stacked horizontal bar of heat-path shares per corner [%]."""
     shares = {c.name: heat_path_shares(c) for c in results.corners}
     groups = []
@@ -251,7 +300,7 @@ def plot_heat_paths(results: Results, path: Path) -> Path:
     axes.invert_yaxis()   # corners top to bottom in run order
     axes.set_title("Where the heat went, whole run")
     axes.legend(loc="center left", bbox_to_anchor=(1.01, 0.5), fontsize="small")
-    return save_png(figure, path)
+    return figure
 
 
 def plot_run(results: Results, out_dir) -> list[Path]:

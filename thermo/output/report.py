@@ -9,10 +9,10 @@ from __future__ import annotations
 import math
 
 from lapdata.echo import shown
-from lapdata.units import MM, kelvin_to_celsius
+from lapdata.units import kelvin_to_celsius
 from thermo import CAUTION
 from thermo.output.analysis import (
-    check_still_rising, heat_path_shares, laps_to_show, node_peaks, soak_rows, worst_lap,
+    PAD_MINIMUM_KEYS, PAD_THICKNESS_KEYS, check_still_rising, heat_path_shares, laps_to_show, node_peaks, soak_rows, thickness_items, worst_lap,
 )
 from thermo.output.errors import OutputError
 from thermo.results import CornerResult, Results
@@ -20,8 +20,6 @@ from thermo.results import CornerResult, Results
 RULE = "-" * 78
 # extras keys with pad thickness, and the factor to mm: a number, a list per stint, a dict label: value,
 # or a list of {"when": label, "thickness_mm" (or "thickness_m"): value}
-PAD_THICKNESS_KEYS = {"pad_thickness_m": 1.0 / MM, "pad_thickness_mm": 1.0}
-PAD_MINIMUM_KEYS = {"pad_minimum_thickness_m": 1.0 / MM, "pad_minimum_thickness_mm": 1.0}
 STATUS_WORDS = {"ok": "ok", "caution": "CAUTION", "exceeded": "EXCEEDED"}
 AFTER_STOP_MARK = "<< worst of the run came AFTER the stop"
 STILL_RISING_MARK = "still rising at the end"
@@ -138,42 +136,16 @@ def _laps_section(corner: CornerResult, lap_rows: int | None = None) -> list[str
     return [title, *_table(["lap", "phase"] + lap_nodes + ["braking [kJ]"], rows)]
 
 
-def _thickness_items(corner: CornerResult, key: str, per_mm: float) -> list[tuple[str, float]]:
-    """(label, thickness [mm]) pairs from an extras entry in one of the accepted shapes."""
-    value = corner.extras[key]
-    bad = OutputError(f"corner {corner.name} extras '{key}': expected a number, a list of numbers, a dict "
-                      f"label: number, or a list of {{'when': label, 'thickness_{'mm' if per_mm == 1 else 'm'}': "
-                      f"number}}, got {shown(value)}")
-    if isinstance(value, dict):
-        items = list(value.items())
-    elif isinstance(value, (list, tuple)):
-        items = []
-        for i, item in enumerate(value):
-            if isinstance(item, dict):
-                unit_key = "thickness_mm" if per_mm == 1 else "thickness_m"
-                if unit_key not in item:
-                    raise bad
-                items.append((str(item.get("when", f"stint {i + 1}")), item[unit_key]))
-            else:
-                items.append((f"stint {i + 1}", item))
-    else:
-        items = [("", value)]
-    try:
-        return [(str(label), float(number) * per_mm) for label, number in items]
-    except (TypeError, ValueError):
-        raise bad from None
-
-
 def _pad_lines(corner: CornerResult) -> list[str]:
     """Pad thickness lines from extras: ``pad_thickness_m`` / ``pad_thickness_mm`` and their minimum."""
     lines = []
     for key, per_mm in PAD_THICKNESS_KEYS.items():
         if key in corner.extras:
-            text = ", ".join(f"{label} {mm:.1f}".strip() for label, mm in _thickness_items(corner, key, per_mm))
+            text = ", ".join(f"{label} {mm:.1f}".strip() for label, mm in thickness_items(corner, key, per_mm))
             lines.append(f"Pad thickness [mm]: {text}")
     for key, per_mm in PAD_MINIMUM_KEYS.items():
         if key in corner.extras:
-            items = _thickness_items(corner, key, per_mm)
+            items = thickness_items(corner, key, per_mm)
             if len(items) != 1:
                 raise OutputError(f"corner {corner.name} extras '{key}': expected one number, got {shown(corner.extras[key])}")
             lines.append(f"Pad minimum thickness [mm]: {items[0][1]:.1f}")
