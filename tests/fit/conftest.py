@@ -86,7 +86,7 @@ def cli_fit(stint, tmp_path_factory):
     """`brakeheat fit --json --out` on the synthetic stint: (parsed JSON, out dir, calibrated path)."""
     scenario, log = stint
     out = tmp_path_factory.mktemp("fit_out")
-    calibrated = scenario.with_name("fit_calibrated.toml")
+    calibrated = out / "fit_calibrated.toml"          # with --out the calibrated scenario joins the output set
     code, text = run_cli(["fit", str(scenario), "--measured", str(log), "--out", str(out), "--json"])
     assert code == 0
     return json.loads(text), out, calibrated

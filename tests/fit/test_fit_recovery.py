@@ -6,7 +6,7 @@ linearised standard errors).
 """
 import pytest
 
-from conftest import CHANNELS, TRUE_CALIPER_OFFSET_K, TRUTH
+from conftest import CHANNELS, TRUE_CALIPER_OFFSET_K, TRUTH, run_cli
 from thermo.scenario import load_scenario
 
 
@@ -45,3 +45,20 @@ def test_calibrated_scenario_runs_with_the_fitted_values(cli_fit):
     for ch in CHANNELS:
         assert (out / f"fit_{ch.channel}.png").stat().st_size > 10_000
     assert (out / "fit.json").is_file()
+
+
+def test_the_calibrated_scenario_joins_the_output_set_and_json_alone_writes_nothing(cli_fit, stint, tmp_path):
+    """Issue 17: with --out the calibrated scenario is written into that folder and listed in its
+    manifest (never beside the scenario); `fit --json` alone writes no file."""
+    import json
+    from thermo.output.manifest import verify_manifest
+    summary, out, calibrated = cli_fit
+    assert summary["calibrated_scenario"] == str(calibrated) and calibrated.parent == out
+    assert "fit_calibrated.toml" in {f["name"] for f in json.loads((out / "manifest.json").read_text())["files"]}
+    assert verify_manifest(out) == []
+    scenario, log = stint
+    assert not scenario.with_name("fit_calibrated.toml").exists()
+    before = sorted(p.name for p in scenario.parent.iterdir())
+    code, text = run_cli(["fit", str(scenario), "--measured", str(log), "--json"])
+    assert code == 0 and json.loads(text)["calibrated_scenario"] is None
+    assert sorted(p.name for p in scenario.parent.iterdir()) == before

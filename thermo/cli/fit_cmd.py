@@ -13,30 +13,50 @@ def add_parser(sub) -> None:
     p.add_argument("--measured", metavar="LOG.csv", required=True, help="logged stint: speed, distance, temp_* channels")
     p.add_argument("--out", metavar="DIR", help="write fit.json and fit_<channel>.png plots into DIR")
     p.add_argument("--calibrated", metavar="FILE",
-                   help="where to write the calibrated scenario (default: SCENARIO_calibrated.toml beside it)")
+                   help="where to write the calibrated scenario (default: SCENARIO_calibrated.toml in the --out "
+                        "folder; without --out beside the scenario, and with --json alone not at all)")
     p.add_argument("--set", metavar="KEY=VALUE", action="append", default=[], dest="overrides",
                    help="override one scenario key before fitting (repeatable)")
     p.add_argument("--json", action="store_true", help="print one JSON object on stdout instead of the table")
     p.set_defaults(handler=fit_command)
 
 
-def write_fit_files(result, summary: dict, out: Path) -> list[Path]:
-    """fit_<channel>.png plots and fit.json into ``out``, each atomically; their paths."""
+def write_fit_files(result, summary: dict, out: Path, calibrated: tuple[Path, str] | None = None) -> list[Path]:
+    """fit_<channel>.png plots, fit.json and (``calibrated`` = (path in ``out``, text)) the calibrated
+    scenario into ``out``, each atomically; their paths."""
     from thermo.fit.plots import plot_fit
     from thermo.output.atomic import atomic_write
     plots = plot_fit(result, out)
     with atomic_write(out / "fit.json", "w") as handle:
         json.dump(summary, handle, indent=2, allow_nan=False)
-    return [*plots, out / "fit.json"]
+    written = [*plots, out / "fit.json"]
+    if calibrated is not None:
+        with atomic_write(calibrated[0], "w") as handle:
+            handle.write(calibrated[1])
+        written.append(calibrated[0])
+    return written
 
 
-def check_output_options(args, target: Path) -> None:
+def calibrated_target(args) -> Path | None:
+    """Where the calibrated scenario goes: ``--calibrated``; else into the ``--out`` folder (listed
+    in its manifest); else beside the scenario; with ``--json`` and neither, nowhere."""
+    path = Path(args.scenario)
+    name = f"{path.stem}_calibrated.toml"
+    if args.calibrated:
+        return Path(args.calibrated)
+    if args.out:
+        return Path(args.out) / name
+    return None if args.json else path.with_name(name)
+
+
+def check_output_options(args, target: Path | None) -> None:
     """A bad --out, or a calibrated scenario that cannot be written, fails now, before the fit."""
     from thermo.output.folder import check_output_folder
     if args.out is not None:
         check_output_folder(args.out, source="--out")
-    check_output_folder(target.parent, source="--calibrated (its folder)" if args.calibrated else
-                        "the calibrated scenario's folder")
+    if target is not None and not (args.out and target.parent == Path(args.out)):
+        check_output_folder(target.parent, source="--calibrated (its folder)" if args.calibrated else
+                            "the calibrated scenario's folder")
 
 
 def fit_command(args) -> int:
@@ -49,23 +69,30 @@ def fit_command(args) -> int:
     from thermo.scenario import load_scenario
 
     path = Path(args.scenario)
-    target = Path(args.calibrated) if args.calibrated else path.with_name(f"{path.stem}_calibrated.toml")
+    target = calibrated_target(args)
     check_output_options(args, target)
     scenario = load_scenario(path, collect_overrides(args.overrides))
     result = fit_scenario(scenario, args.measured)
     today = datetime.date.today().isoformat()
-    text = calibrated_text(scenario.text, result, today, measured=str(args.measured),
-                           pinned=pinned_plan_files(scenario, target))
-    target.parent.mkdir(parents=True, exist_ok=True)
-    with atomic_write(target, "w") as handle:
-        handle.write(text)
-    summary = fit_dict(result, scenario=str(path), measured=str(args.measured), calibrated=str(target))
+    in_set = target is not None and args.out is not None and target.parent == Path(args.out)
+    text = None if target is None else calibrated_text(scenario.text, result, today, measured=str(args.measured),
+                                                       pinned=pinned_plan_files(scenario, target))
+    if target is not None and not in_set:
+        target.parent.mkdir(parents=True, exist_ok=True)
+        with atomic_write(target, "w") as handle:
+            handle.write(text)
+    summary = fit_dict(result, scenario=str(path), measured=str(args.measured),
+                       calibrated=None if target is None else str(target))
     if args.out:
-        write_output_set(Path(args.out), "fit", lambda out: write_fit_files(result, summary, out))
+        write_output_set(Path(args.out), "fit",
+                         lambda out: write_fit_files(result, summary, out, (target, text) if in_set else None))
     if args.json:
         json.dump(summary, sys.stdout, indent=2, allow_nan=False)
         sys.stdout.write("\n")
     else:
         print(format_fit(result))
-        print(f"\nWrote the calibrated scenario {target}" + (f"; fit.json and plots in {args.out}" if args.out else ""))
+        wrote = [f"the calibrated scenario {target}"] if target is not None else []
+        wrote += [f"fit.json and plots in {args.out}"] if args.out else []
+        if wrote:
+            print("\nWrote " + "; ".join(wrote))
     return 0
