@@ -80,3 +80,21 @@ def test_race_in_threads_equals_the_serial_race(demo):
     assert 0 < one["build_s"] < one["wall_s"]
     with pytest.raises(ModelError, match="hours must be > 0"):
         race(demo, 0.0)
+
+
+def test_settle_reports_margins_against_the_runs_limits(demo):
+    """Issue 17: `settle` reads the same checks as `run` (same names, same nodes, same limits) and
+    gives each margin = limit - settled peak, with the run's status rule."""
+    from thermo.chain.corner_run import corner_check_specs
+    from thermo.corner.build import build_corner
+    from thermo.limits import status_of
+    from thermo.studies.settle import settle, settled_dict
+    data = settled_dict(demo, settle(demo, corners=["rear"]))
+    corner = data["corners"][0]
+    design = next(d for d in demo.corners if d.name == "rear")
+    specs = corner_check_specs(demo, design, build_corner(design, demo.ambient.pressure_pa, grid=None))
+    assert [(c["name"], c["node"]) for c in corner["checks"]] == [(s.name, s.node) for s in specs]
+    for check, spec in zip(corner["checks"], specs):
+        assert check["peak_c"] == corner["peak_c"][check["node"]]
+        assert check["margin_k"] == pytest.approx(check["limit_c"] - check["peak_c"], abs=0.011)
+        assert check["status"] == status_of(spec.limit_k - (check["peak_c"] + 273.15), spec.caution_band_k)

@@ -222,10 +222,8 @@ class CornerRun:
         energy = EnergyBalance(self.heat_in, self._enthalpy() - self.h0, self.lost + self.removed)
         temps_all = np.concatenate(self.temps)
         node_index = {n: i for i, n in enumerate(model.output_nodes)}
-        node_materials = {node: get_material(name) for node, name in _node_materials(design, model).items()
-                          if node in node_index}
-        specs = check_specs(scenario.fluid, scenario.limits, model.disc_check_node, fluid_node=model.fluid_check_node,
-                            node_materials=node_materials)
+        node_materials = output_node_materials(design, model)
+        specs = corner_check_specs(scenario, design, model)
         warns += property_range_warnings(design.name, node_materials,
                                          {n: float(temps_all[:, i].max()) for n, i in node_index.items() if n in node_materials})
         checks = tuple(evaluate_check(s, time_s, temps_all[:, node_index[s.node]]) for s in specs)
@@ -294,6 +292,19 @@ def _realised_partition(model: CornerModel, heat_in_j: float, direct_j: float, l
     crossed = float(sum(link_energy_j[names.index(name)] for name in ("pad_disc_interface", "pad_disc_interface_clamped")
                         if name in names))
     return float((direct_j + crossed) / heat_in_j)
+
+
+def output_node_materials(design: CornerDesign, model: CornerModel) -> dict:
+    """The Material of each output node that a material check or data-range warning reads."""
+    return {node: get_material(name) for node, name in _node_materials(design, model).items()
+            if node in model.output_nodes}
+
+
+def corner_check_specs(scenario: Scenario, design: CornerDesign, model: CornerModel) -> tuple:
+    """The limit checks of one corner (``thermo.limits.check_specs``) on the nodes this model has:
+    the disc's face where it is layered, the fluid at the pistons, each material's service limit."""
+    return check_specs(scenario.fluid, scenario.limits, model.disc_check_node, fluid_node=model.fluid_check_node,
+                       node_materials=output_node_materials(design, model))
 
 
 def _node_materials(design: CornerDesign, model: CornerModel) -> dict[str, str]:

@@ -30,6 +30,13 @@ def format_settled(data: dict) -> str:
         for node, peak in c["peak_c"].items():
             lines.append(f"  {node:<15} {peak:19.1f} {c['min_c'][node]:22.1f}")
         lines.append(f"  ({c['method']}, {c['lap_solves']} lap solves, residual {c['residual_k']:.2g} K)")
+        if c.get("checks"):
+            width = max(len(k["name"]) for k in c["checks"])
+            lines.append(f"  {'check':<{width}}  {'node':<15}  {'limit [degC]':>12}  {'settled peak [degC]':>19}  "
+                         f"{'margin [K]':>10}  status")
+            for k in c["checks"]:
+                lines.append(f"  {k['name']:<{width}}  {k['node']:<15}  {k['limit_c']:12.1f}  {k['peak_c']:19.1f}  "
+                             f"{k['margin_k']:+10.1f}  {k['status'].upper() if k['status'] != 'ok' else 'ok'}")
         lines.append("")
     lines.append(data["caution"])
     return "\n".join(lines)

@@ -25,14 +25,33 @@ def settle(scenario, *, corners=None, phase=None) -> list:
     return [settled_lap(scenario, name, phase_name=phase, settings=settings) for name in names]
 
 
+def settled_checks(scenario, result) -> list:
+    """The run's limit checks of one corner against its settled peaks: ``CheckResult`` each, the
+    peak that of the settled lap (its time 0: the settled lap has no run time)."""
+    import numpy as np
+
+    from thermo.chain.corner_run import corner_check_specs
+    from thermo.corner.build import build_corner
+    from thermo.limits import evaluate_check
+    design = next(d for d in scenario.corners if d.name == result.corner)
+    model = build_corner(design, scenario.ambient.pressure_pa, grid=None)
+    return [evaluate_check(spec, np.zeros(1), np.array([result.peak_k[spec.node]]))
+            for spec in corner_check_specs(scenario, design, model) if spec.node in result.peak_k]
+
+
 def settled_dict(scenario, results) -> dict:
+    """JSON-ready: per corner the settled peaks and minima, laps to within 1 K, and ``checks``: each
+    of the run's limit checks against the settled peak (``limit_c``, ``peak_c``, ``margin_k``, ``status``)."""
     import thermo
-    return {
-        "scenario": scenario.name, "version": thermo.__version__, "caution": thermo.CAUTION,
-        "corners": [{
+    out = {"scenario": scenario.name, "version": thermo.__version__, "caution": thermo.CAUTION, "corners": []}
+    for r in results:
+        checks = [{"name": c.name, "node": c.node, "limit_c": round(float(kelvin_to_celsius(c.limit_k)), 2),
+                   "peak_c": round(float(kelvin_to_celsius(c.peak_k)), 2), "margin_k": round(c.margin_k, 2),
+                   "status": c.status, "source": c.source} for c in settled_checks(scenario, r)]
+        out["corners"].append({
             "name": r.corner, "phase": r.phase, "lap_time_s": round(r.lap_time_s, 3),
             "peak_c": {n: round(float(kelvin_to_celsius(v)), 2) for n, v in r.peak_k.items()},
             "min_c": {n: round(float(kelvin_to_celsius(v)), 2) for n, v in r.min_k.items()},
             "laps_to_within_1k": r.laps_to_1k, "residual_k": r.residual_k, "lap_solves": r.lap_solves,
-            "method": r.method, "wall_s": round(r.wall_s, 4)} for r in results],
-    }
+            "method": r.method, "wall_s": round(r.wall_s, 4), "checks": checks})
+    return out
