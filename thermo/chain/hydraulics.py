@@ -10,8 +10,8 @@ from __future__ import annotations
 
 from thermo.duty.bias import HydraulicBias
 from thermo.duty.hydraulics import (
-    PA_PER_BAR, MasterCylinders, axle_displacement_m3_per_m, axle_torque_nm_per_pa, caliper_hydraulics,
-    pressure_ratio_for_share,
+    PA_PER_BAR, MasterCylinders, axle_displacement_m3_per_m, axle_torque_nm_per_pa, bore_diameter_m,
+    caliper_hydraulics, pressure_ratio_for_share,
 )
 from thermo.scenario.model import Scenario
 
@@ -72,17 +72,14 @@ def hydraulics_dict(scenario: Scenario, corners=()) -> dict:
         per_mm = mc.pedal_travel_m(axle_displacement_m3_per_m(calipers, "front") * 1e-3,
                                    axle_displacement_m3_per_m(calipers, "rear") * 1e-3) * 1e3
         out["master_cylinders"] = {
-            "front_bore_mm": _bore_mm(mc.area_front_m2), "rear_bore_mm": _bore_mm(mc.area_rear_m2),
+            "front_bore_mm": bore_diameter_m(mc.area_front_m2) * 1e3,
+            "rear_bore_mm": bore_diameter_m(mc.area_rear_m2) * 1e3,
             "front_area_mm2": mc.area_front_m2 * 1e6, "rear_area_mm2": mc.area_rear_m2 * 1e6,
             "balance_bar_front_share": mc.balance_bar_front_share,
             "line_pressure_front_bar_per_n": p_front / PA_PER_BAR, "line_pressure_rear_bar_per_n": p_rear / PA_PER_BAR,
             "pedal_travel_mm_per_mm_piston_travel": per_mm,
             "knock_back_pedal_travel_mm": per_mm * scenario.knock_back_m * 1e3}
     return out
-
-
-def _bore_mm(area_m2: float) -> float:
-    return (4.0 * area_m2 / 3.141592653589793) ** 0.5 * 1e3
 
 
 def _wear_by_stint(thickness_rows, new_thickness_m: float, caliper) -> list[dict]:

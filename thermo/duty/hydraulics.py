@@ -34,6 +34,12 @@ def piston_area_m2(diameters_m) -> float:
     return float(sum(math.pi / 4.0 * d * d for d in diameters_m))
 
 
+def bore_diameter_m(area_m2: float) -> float:
+    """The bore diameter of a circular area, sqrt(4 A / pi) [m]."""
+    check_number("bore_diameter_m", "area_m2", area_m2, positive=True)
+    return math.sqrt(4.0 * area_m2 / math.pi)
+
+
 def leading_trailing_area_ratio(diameters_m) -> float:
     """Area of the leading piston over that of the trailing one [-].
 

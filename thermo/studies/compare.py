@@ -110,7 +110,7 @@ def keep_bias_plans(plans, how: str, path: Path) -> tuple[list, dict]:
     (a fixed share does not move with the calipers).
     """
     from thermo.chain.hydraulics import front_share, master_cylinders, scenario_calipers
-    from thermo.duty.hydraulics import balance_bar_for_share, rear_area_for_share
+    from thermo.duty.hydraulics import balance_bar_for_share, bore_diameter_m, rear_area_for_share
     from thermo.scenario import load_scenario
     if how not in KEEP_BIAS_CHOICES:
         raise ScenarioError(f"--keep-bias {shown(how)}: expected one of {', '.join(KEEP_BIAS_CHOICES)}")
@@ -131,9 +131,9 @@ def keep_bias_plans(plans, how: str, path: Path) -> tuple[list, dict]:
             key, old = "brakes.balance_bar_front_share", mc.balance_bar_front_share
             new = balance_bar_for_share(target, calipers, mc.area_front_m2, mc.area_rear_m2)
         else:
-            key, old = "brakes.master_cylinder_rear_mm", (4.0 * mc.area_rear_m2 / 3.141592653589793) ** 0.5 * 1e3
+            key, old = "brakes.master_cylinder_rear_mm", bore_diameter_m(mc.area_rear_m2) * 1e3
             area = rear_area_for_share(target, calipers, mc.area_front_m2, mc.balance_bar_front_share)
-            new = (4.0 * area / 3.141592653589793) ** 0.5 * 1e3
+            new = bore_diameter_m(area) * 1e3
         try:
             again = load_scenario(path, list(scenario.overrides) + [(key, new)])
         except ScenarioError as error:
