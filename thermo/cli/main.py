@@ -25,7 +25,7 @@ INTERRUPTED = "brakeheat: interrupted; nothing half-written was left"
 def build_parser():
     import argparse
 
-    from thermo.cli import compare_cmd, fit_cmd, keys_cmd, lap_cmd, report_cmd, run_cmd, settle_cmd
+    from thermo.cli import compare_cmd, fit_cmd, keys_cmd, lap_cmd, report_cmd, run_cmd, settle_cmd, study_cmd
     parser = argparse.ArgumentParser(
         prog="brakeheat",
         description="Transient heat in race-car brake corners: fluid boiling margin, bearing heat soak, options compared.")
@@ -37,6 +37,7 @@ def build_parser():
     compare_cmd.add_parser(sub)
     fit_cmd.add_parser(sub)
     settle_cmd.add_parser(sub)
+    study_cmd.add_parsers(sub)
     keys_cmd.add_parser(sub)
     report_cmd.add_parser(sub)
     return parser

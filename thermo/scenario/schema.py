@@ -167,7 +167,30 @@ SECTIONS = {
 CORNER_SECTIONS = {"disc": DISC, "pad": PAD, "piston": PISTON, "caliper": CALIPER, "hub": HUB,
                    "airflow": AIRFLOW}
 CORNER_NAMES = ("front", "rear", "front_left", "front_right", "rear_left", "rear_right")
-TOP_LEVEL = tuple(SECTIONS) + ("corners", "variants", "calibrated", "calibration")
+TOP_LEVEL = tuple(SECTIONS) + ("corners", "variants", "calibrated", "calibration", "uncertainty")
 # [calibrated]: "dotted.key" = value pairs written by `brakeheat fit`, applied before any override.
 # [calibration]: what `brakeheat fit` fits and against which measurements (read by thermo.fit).
+# [uncertainty]: the uncertain inputs of `brakeheat uncertainty` (read by thermo.studies.uncertainty).
 
+
+
+def key_field(dotted: str) -> Field | None:
+    """The declaration of a dotted scenario key as ``--set`` addresses it (its unit, kind, range),
+    e.g. ``corners.front.ducts.main.inlet_area_mm2``; None if it names no key."""
+    parts = dotted.split(".")
+    if len(parts) == 2 and parts[0] in SECTIONS:
+        return SECTIONS[parts[0]].get(parts[1])
+    if parts[0] == "corners" and len(parts) == 3:
+        return CORNER.get(parts[2])
+    if parts[0] == "corners" and len(parts) == 4 and parts[2] in CORNER_SECTIONS:
+        return CORNER_SECTIONS[parts[2]].get(parts[3])
+    if parts[0] == "corners" and len(parts) == 5 and parts[2] == "ducts":
+        return DUCT.get(parts[4])
+    if parts[0] == "plan" and len(parts) >= 4 and parts[1] in ("phases", "stints", "finish"):
+        if parts[1] == "stints" and len(parts) == 4:
+            return STINT.get(parts[3])
+        name = parts[-1]
+        for table in (PHASE_COMMON, *PHASES.values()):
+            if name in table:
+                return table[name]
+    return None
