@@ -22,7 +22,9 @@ Measured side by side in one run (medians over repeats):
 - the main command on a 24-hour race (``run24h``): ``brakeheat run scenarios/demo_24h.toml`` with
   ``--json`` and with ``--out`` in a fresh interpreter each (CPU time, peak resident memory, the
   size of results.h5), and 2 hours on the demo's logged lap resampled to 1 kHz (--quick: 2 hours
-  of the 24-hour plan and a quarter of an hour of the 1 kHz lap).
+  of the 24-hour plan and a quarter of an hour of the 1 kHz lap);
+- a study (``study``): ``brakeheat uncertainty scenarios/demo.toml --json`` with 1000 samples of
+  the first stint (--quick: 48, scaled), wall time and peak memory of the command and its workers.
 """
 from __future__ import annotations
 
@@ -76,10 +78,8 @@ def machine() -> dict:
 
 def _forget_tabulated_conductances() -> None:
     """Empty the caches of tabulated convection conductances, so that a timed model build is cold."""
-    from thermo.corner import build
-    from thermo.network import assemble
-    build._tabulated.cache_clear()
-    assemble._stacked_tables.cache_clear()
+    from thermo.chain.run import forget_cached_tables
+    forget_cached_tables()
 
 
 def _timed(fn, repeats):
@@ -182,6 +182,40 @@ def run24h(quick: bool = False) -> dict:
     return out
 
 
+# issue 15: 1000 uncertainty samples of the demo's first stint
+STUDY_TARGETS = {"samples": 1000, "wall_s": 60.0, "peak_mb": 2000.0}
+_STUDY_CHILD = ("import resource, sys, time\n"
+                "from thermo.cli.main import main\n"
+                "t = time.perf_counter()\n"
+                "code = main(sys.argv[1:])\n"
+                "wall = time.perf_counter() - t\n"
+                "me, kids = resource.getrusage(resource.RUSAGE_SELF), resource.getrusage(resource.RUSAGE_CHILDREN)\n"
+                "sys.stderr.write(f'\\nBENCH {wall} {me.ru_maxrss} {kids.ru_maxrss}\\n')\n"
+                "sys.exit(code)\n")
+
+
+def study(quick: bool = False) -> dict:
+    """`brakeheat uncertainty scenarios/demo.toml --json` (the demo's [uncertainty] table: convection
+    multipliers, front duct inlet area, front pad thickness, fluid water content; the first stint)
+    in a fresh interpreter with the default workers (one process per core): wall time, and peak
+    memory as the command's own plus workers x the largest worker's (an upper bound). --quick: 48
+    samples, scaled to 1000."""
+    import subprocess
+
+    from thermo.studies.engine import default_workers
+    samples = 48 if quick else STUDY_TARGETS["samples"]
+    done = subprocess.run([sys.executable, "-c", _STUDY_CHILD, "uncertainty", str(_demo_path()), "--json", "--quiet",
+                           "--samples", str(samples)], capture_output=True, text=True)
+    line = [x for x in done.stderr.splitlines() if x.startswith("BENCH ")]
+    if done.returncode != 0 or not line:
+        raise RuntimeError(f"bench: brakeheat uncertainty failed: {done.stderr.strip()[-500:]}")
+    wall, own_kb, worker_kb = map(float, line[-1].split()[1:])
+    workers = default_workers()
+    return {"samples": samples, "workers": workers, "wall_s": wall,
+            "wall_s_per_1000": wall * STUDY_TARGETS["samples"] / samples,
+            "peak_mb": (own_kb + workers * worker_kb) / 1024.0, "targets": STUDY_TARGETS}
+
+
 def run(quick: bool = False) -> dict:
     scenario = load_scenario(_demo_path())
     repeats = 1 if quick else 3
@@ -250,6 +284,7 @@ def run(quick: bool = False) -> dict:
     result["peak_error_k"] = err
 
     result["run24h"] = run24h(quick)
+    result["study"] = study(quick)
 
     # settled lap against lap-by-lap simulation until within 1 K
     setup = lap_setup(scenario, design.name)
@@ -287,6 +322,11 @@ def _text(r: dict) -> str:
                  f"results.h5 {h['results_h5_mb']:.1f} MB (target < {t['results_h5_mb']:g}); "
                  f"{h['trace_1khz_hours']:g} h on a 1 kHz logged lap {h['trace_1khz_cpu_s']:.1f} s CPU, "
                  f"{h['trace_1khz_2h_peak_mb']:.0f} MB (target < {t['trace_1khz_2h_peak_mb']:g})")
+    u = r["study"]
+    t = u["targets"]
+    lines.append(f"  study (brakeheat uncertainty demo.toml, {u['samples']} samples of the first stint, {u['workers']} "
+                 f"workers): {u['wall_s']:.1f} s wall, {u['wall_s_per_1000']:.0f} s per 1000 samples (target < "
+                 f"{t['wall_s']:g}), peak {u['peak_mb']:.0f} MB (target < {t['peak_mb']:g})")
     s = r["settle"]
     lines.append(f"  settled lap {s['settled_lap_s']:.3f} s vs simulating {s['laps_to_1k']} laps to within 1 K "
                  f"{s['simulate_to_1k_s']:.3f} s (model build {s['model_build_s']:.2f} s not included)")

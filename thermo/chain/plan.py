@@ -1,7 +1,9 @@
 """Expand a scenario's plan into segments on one time axis: each lap, each stop, the soak."""
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass, replace
+from pathlib import Path
 
 from lapdata.errors import LapDataError
 from lapdata.laps import limit_speed_over_distance, paced, stationary
@@ -37,12 +39,24 @@ class PlanSegment:
 
 
 def base_lap(scenario: Scenario) -> LapTrace:
-    """The race lap at full pace: built from the track description or read from the logged trace."""
+    """The race lap at full pace: built from the track description or read from the logged trace.
+
+    A built lap is kept for the next scenario with the same track file (same size and modification
+    time), car envelope and sample rate: the points of a sweep usually share their lap, and
+    building it is about a fifth of a one-stint run."""
     plan = scenario.plan
     if plan.lap_source == "track":
-        track = read_track_toml(plan.lap_path)
-        return build_speed_trace(track, scenario.envelope, sample_hz=plan.sample_hz)
+        stat = Path(plan.lap_path).stat()
+        return _built_lap(str(plan.lap_path), stat.st_size, stat.st_mtime_ns, scenario.envelope, plan.sample_hz)
     return _read_lap(scenario, plan.lap_path)
+
+
+@functools.lru_cache(maxsize=4)
+def _built_lap(path: str, size: int, mtime_ns: int, envelope, sample_hz: float) -> LapTrace:
+    """``base_lap`` of a track description (the file's size and time are part of the key, so an
+    edited file is read again). Callers never change a trace in place (``paced`` and the plan make
+    new ones)."""
+    return build_speed_trace(read_track_toml(path), envelope, sample_hz=sample_hz)
 
 
 def _read_lap(scenario: Scenario, path) -> LapTrace:

@@ -107,3 +107,16 @@ def applied_overrides(scenario: Scenario) -> tuple[tuple[str, str], ...]:
     TOML value text), so that a result says which run it is. ``[calibrated]`` values are part of
     the text itself and are not repeated."""
     return tuple((str(key), toml_value_text(value)) for key, value in scenario.overrides)
+
+
+def forget_cached_tables() -> None:
+    """Empty the caches of convection tables (each path's tabulated conductance, and the stacks the
+    compiled kernels read). Within a run they spare rebuilding a worn corner's tables; a process
+    that runs many configurations with their own tables (a study's worker) empties them after each,
+    so that its memory holds one configuration's tables, not hundreds (about 6 MB each)."""
+    from thermo.corner import build
+    from thermo.network import assemble
+    from thermo.solver import batch
+    build._tabulated.cache_clear()
+    assemble._stacked_tables.cache_clear()
+    batch._unique_stack.cache_clear()

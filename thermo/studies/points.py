@@ -105,8 +105,14 @@ def _laps_to_settle(scenario) -> dict:
 
 def run_chunk(job: StudyJob, chunk) -> list:
     """A chunk of points, ``[(index, values), ...]``, run one after another in this process:
-    ``[(index, point), ...]``. The unit of work sent to an executor."""
-    return [(index, run_point(job, values)) for index, values in chunk]
+    ``[(index, point), ...]``. The unit of work sent to an executor. The convection-table caches
+    are emptied after each point, so that a worker's memory stays that of one point."""
+    from thermo.chain.run import forget_cached_tables
+    out = []
+    for index, values in chunk:
+        out.append((index, run_point(job, values)))
+        forget_cached_tables()
+    return out
 
 
 def _plain(value):
