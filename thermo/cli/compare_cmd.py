@@ -34,45 +34,29 @@ def add_parser(sub) -> None:
 
 def format_comparison(data: dict) -> str:
     from thermo.output.analysis import COMPARED_PEAK_NODES as COMPARE_NODES
+    from thermo.output.text_table import format_table
     variants = data["variants"]
     names = [v["name"] for v in variants]
-    width = max(14, *(len(n) + 2 for n in names))
+
+    def row(label: str, values: list, fmt: str = ".1f") -> list[str]:
+        base = values[0]
+        return [label, format(base, fmt)] + [f"{x:{fmt}} ({x - base:+{fmt.lstrip('+')}})" for x in values[1:]]
     lines = [f"Comparison: {data['scenario']}", "Peaks in degC and margins in K; each variant shows its change "
              "against the baseline in brackets (a positive margin change is margin gained).", ""]
-    for ci, corner in enumerate(variants[0]["corners"]):
-        lines.append(f"Corner {corner['name']}")
-        lines.append("  " + f"{'':<34}" + "".join(f" {n:>{width}}" for n in names))
-        nodes = [n for n in COMPARE_NODES if n in corner["peak_c"]]
-        for node in nodes:
-            base = corner["peak_c"][node]
-            cells = [f"{base:>{width}.1f}"]
-            for v in variants[1:]:
-                value = v["corners"][ci]["peak_c"][node]
-                cells.append(f"{f'{value:.1f} ({value - base:+.1f})':>{width}}")
-            lines.append("  " + f"{'peak ' + node:<34}" + "".join(" " + cell for cell in cells))
-        for k, check in enumerate(corner["checks"]):
-            base = check["margin_k"]
-            cells = [f"{base:>{width}.1f}"]
-            for v in variants[1:]:
-                value = v["corners"][ci]["checks"][k]["margin_k"]
-                cells.append(f"{f'{value:.1f} ({value - base:+.1f})':>{width}}")
-            lines.append("  " + f"{'margin ' + check['name']:<34}" + "".join(" " + cell for cell in cells))
-        hyd = [v.get("hydraulics") for v in variants]
-        if all(hyd) and corner["name"] in hyd[0]["corners"]:
-            for label, key, fmt in (("clamp force [N/bar]", "clamp_force_n_per_bar", ".1f"),
-                                    ("fluid [cm3/mm piston travel]", "fluid_displacement_cm3_per_mm", ".3f")):
-                base = hyd[0]["corners"][corner["name"]][key]
-                cells = [f"{base:>{width}{fmt}}"]
-                for h in hyd[1:]:
-                    value = h["corners"][corner["name"]][key]
-                    cells.append(f"{f'{value:{fmt}} ({value - base:+{fmt}})':>{width}}")
-                lines.append("  " + f"{label:<34}" + "".join(" " + cell for cell in cells))
-        lines.append("")
     hyd = [v.get("hydraulics") for v in variants]
+    for ci, corner in enumerate(variants[0]["corners"]):
+        rows = [row(f"peak {node}", [v["corners"][ci]["peak_c"][node] for v in variants])
+                for node in COMPARE_NODES if node in corner["peak_c"]]
+        rows += [row(f"margin {check['name']}", [v["corners"][ci]["checks"][k]["margin_k"] for v in variants], "+.1f")
+                 for k, check in enumerate(corner["checks"])]
+        if all(hyd) and corner["name"] in hyd[0]["corners"]:
+            rows += [row(label, [h["corners"][corner["name"]][key] for h in hyd], fmt)
+                     for label, key, fmt in (("clamp force [N/bar]", "clamp_force_n_per_bar", ".1f"),
+                                             ("fluid [cm3/mm piston travel]", "fluid_displacement_cm3_per_mm", ".3f"))]
+        lines += [f"Corner {corner['name']}", *format_table([""] + names, rows), ""]
     if all(hyd):
-        shares = [h["front_share"] * 100 for h in hyd]
-        cells = [f"{shares[0]:>{width}.2f}"] + [f"{f'{x:.2f} ({x - shares[0]:+.2f})':>{width}}" for x in shares[1:]]
-        lines.append("  " + f"{'front share of brake torque [%]':<34}" + "".join(" " + cell for cell in cells))
+        lines += format_table([""] + names, [row("front share of brake torque [%]", [h["front_share"] * 100 for h in hyd],
+                                                 ".2f")])
     for change in data.get("changes", []):
         r = change.get("rebalanced")
         if r:

@@ -30,6 +30,7 @@ def add_parser(sub) -> None:
 
 
 def format_lap(summary: dict) -> str:
+    from thermo.output.text_table import format_table
     lines = [f"Lap {summary['trace']}: {summary['duration_s']:.2f} s, {summary['length_m']:.0f} m "
              f"(car and brakes from {summary['car_from']}, {summary['power_method']} method)"]
     built = summary.get("built")
@@ -39,29 +40,25 @@ def format_lap(summary: dict) -> str:
     for r in summary["repairs"]:
         lines.append(f"  repaired: {r}")
     if built:
-        lines.append("")
-        lines.append("Segments of the built lap")
-        lines.append(f"  {'#':>2} {'segment':<20} {'kind':<8} {'at [m]':>7} {'length [m]':>10} {'entry [km/h]':>12} "
-                     f"{'min [km/h]':>10} {'max [km/h]':>10}")
-        for i, s in enumerate(built["segments"], 1):
-            lines.append(f"  {i:>2} {s['name']:<20} {s['kind']:<8} {s['d_start_m']:7.0f} {s['length_m']:10.0f} "
-                         f"{s['v_entry_kmh']:12.1f} {s['v_min_kmh']:10.1f} {s['v_max_kmh']:10.1f}")
-    lines.append("")
-    lines.append("Braking zones")
-    lines.append(f"  {'#':>2} {'start [s]':>9} {'end [s]':>8} {'at [m]':>7} {'in [km/h]':>9} {'out [km/h]':>10} "
-                 f"{'time [s]':>8} {'peak [g]':>8} {'energy [kJ]':>11}")
-    for i, z in enumerate(summary["zones"], 1):
-        lines.append(f"  {i:>2} {z['t_start_s']:9.2f} {z['t_end_s']:8.2f} {z['d_start_m']:7.0f} {z['v_in_kmh']:9.1f} "
-                     f"{z['v_out_kmh']:10.1f} {z['duration_s']:8.2f} {z['peak_decel_g']:8.2f} {z['energy_j'] / 1e3:11.1f}")
+        lines += ["", "Segments of the built lap"]
+        lines += format_table(["#", "segment", "kind", "at [m]", "length [m]", "entry [km/h]", "min [km/h]", "max [km/h]"],
+                              [[str(i), s["name"], s["kind"], f"{s['d_start_m']:.0f}", f"{s['length_m']:.0f}",
+                                f"{s['v_entry_kmh']:.1f}", f"{s['v_min_kmh']:.1f}", f"{s['v_max_kmh']:.1f}"]
+                               for i, s in enumerate(built["segments"], 1)], align=[None, "left", "left"] + [None] * 5)
+    lines += ["", "Braking zones"]
+    lines += format_table(["#", "start [s]", "end [s]", "at [m]", "in [km/h]", "out [km/h]", "time [s]", "peak [g]",
+                           "energy [kJ]"],
+                          [[str(i), f"{z['t_start_s']:.2f}", f"{z['t_end_s']:.2f}", f"{z['d_start_m']:.0f}",
+                            f"{z['v_in_kmh']:.1f}", f"{z['v_out_kmh']:.1f}", f"{z['duration_s']:.2f}",
+                            f"{z['peak_decel_g']:.2f}", f"{z['energy_j'] / 1e3:.1f}"]
+                           for i, z in enumerate(summary["zones"], 1)], align=["right"] * 9)
     lines.append(f"  braking energy per lap, whole car: {summary['energy_per_lap_j'] / 1e6:.3f} MJ")
-    lines.append("")
-    lines.append("Per corner (one wheel)")
-    lines.append(f"  {'corner':<12} {'energy [kJ]':>11} {'disc [kJ]':>10} {'pad [kJ]':>9} {'mean [kW]':>9} "
-                 f"{'braking mean [kW]':>17} {'peak [kW]':>9}")
-    for c in summary["corners"]:
-        lines.append(f"  {c['name']:<12} {c['energy_j'] / 1e3:11.1f} {c['disc_energy_j'] / 1e3:10.1f} "
-                     f"{c['pad_energy_j'] / 1e3:9.1f} {c['mean_power_w'] / 1e3:9.2f} {c['mean_braking_power_w'] / 1e3:17.2f} "
-                     f"{c['peak_power_w'] / 1e3:9.1f}")
+    lines += ["", "Per corner (one wheel)"]
+    lines += format_table(["corner", "energy [kJ]", "disc [kJ]", "pad [kJ]", "mean [kW]", "braking mean [kW]", "peak [kW]"],
+                          [[c["name"], f"{c['energy_j'] / 1e3:.1f}", f"{c['disc_energy_j'] / 1e3:.1f}",
+                            f"{c['pad_energy_j'] / 1e3:.1f}", f"{c['mean_power_w'] / 1e3:.2f}",
+                            f"{c['mean_braking_power_w'] / 1e3:.2f}", f"{c['peak_power_w'] / 1e3:.1f}"]
+                           for c in summary["corners"]], align=["left"] + [None] * 6)
     import thermo
     lines += ["", thermo.CAUTION]
     return "\n".join(lines)
