@@ -123,3 +123,15 @@ def test_compare_out_writes_report_html(tmp_path):
     data = json.loads((tmp_path / "comparison.json").read_text(encoding="utf-8"))
     gain = data["changes"][0]["corners"][0]["margin_change_k"]["fluid_boiling_dry"]
     assert f"<td>fluid_boiling_dry</td><td>fluid_at_piston</td><td class=\"num\">{gain:+.1f}</td>" in page
+
+
+def test_demo_compare_runs_the_demos_variants(tmp_path):
+    # demo --compare once failed on options only `compare` defines (--keep-bias); a shortened demo
+    import tomllib
+
+    from thermo.cli.options import demo_scenario_path
+    short = ["--set", "plan.phases.2.count=2", "--set", "plan.phases.4.count=1", "--set", "plan.phases.8.count=2"]
+    code, out, err = cli(["demo", "--compare", "--json", "--quiet", *short])
+    assert code == 0, err
+    declared = tomllib.loads(demo_scenario_path().read_text(encoding="utf-8"))["variants"]
+    assert [v["name"] for v in json.loads(out)["variants"]] == ["baseline", *declared]

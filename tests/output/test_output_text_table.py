@@ -154,3 +154,9 @@ def test_fit_table_holds_long_parameter_names():
     row = assert_columns_hold(text.splitlines()[:3])[0]
     assert row[0].endswith("~1") and row[1:5] == ["1.235e+05", "0.5", "1", "[0.1, 4]"]
     assert f"~1 = {value.name}" in text
+
+
+def test_the_last_columns_rule_stops_at_the_text_width():
+    source = "a published source of this limit, " * 6
+    lines = format_table(["check", "source"], [["disc_max", source.strip()]])
+    assert lines[1] == "  --------  " + "-" * MAX_TEXT_WIDTH and lines[2].endswith(source.strip())

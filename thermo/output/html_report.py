@@ -22,7 +22,7 @@ h1 { font-size: 1.5em; } h2 { font-size: 1.25em; border-bottom: 1px solid #999; 
 h3 { font-size: 1.05em; }
 table { border-collapse: collapse; margin: 0.5em 0 1em 0; font-size: 0.85em; }
 th, td { border: 1px solid #bbb; padding: 0.2em 0.5em; text-align: left; vertical-align: top; }
-td.num { text-align: right; font-variant-numeric: tabular-nums; }
+td.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
 tr.exceeded td { background: #f6d5cc; } tr.caution td { background: #faf0c8; }
 .caution-box { border: 2px solid #D55E00; padding: 0.6em; background: #fff5ee; font-weight: bold; }
 pre { background: #f4f4f4; padding: 0.6em; font-size: 0.8em; white-space: pre-wrap; }

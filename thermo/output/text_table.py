@@ -6,7 +6,7 @@ left-aligned (a column counts as numbers when every cell reads as one; a caller 
 A text longer than ``max_text_width`` in any column but the last (a long check or variant name) is
 abbreviated to its start and a mark ``~1``, ``~2`` ... and spelt out in full in a key below the
 table; the same text gets the same mark. The last column is never abbreviated: nothing stands to
-its right.
+its right, and its rule of dashes stops at ``max_text_width`` (or its header's width).
 
 >>> print("\\n".join(format_table(["check", "margin [K]"], [["fluid_boiling_dry", "+60.0"], ["bearing", "-5.2"]])))
   check              margin [K]
@@ -109,7 +109,8 @@ def format_table(headers, rows, *, align=None, indent: str = "  ", max_text_widt
         parts = [c.rjust(w) if r else c.ljust(w) for c, w, r in zip(row, widths, right)]
         return (indent + GAP.join(parts)).rstrip()
     lines = [line(shown_headers)]
-    if rule:
-        lines.append(indent + GAP.join("-" * w for w in widths))
+    if rule:      # the last column's rule marks where it starts; a long source text need not stretch it
+        ruled = widths[:-1] + [min(widths[-1], max(len(shown_headers[-1]), max_text_width))]
+        lines.append(indent + GAP.join("-" * w for w in ruled))
     lines += [line(r) for r in shown_rows]
     return lines + short.key(indent)
