@@ -101,3 +101,37 @@ def test_a_caliper_swap_that_moves_the_bias_is_named_without_keep_bias():
 def test_keep_bias_needs_hydraulic_bias():
     code, _, err = cli(["compare", str(SMALL), *SHRINK, *SWAP, "--keep-bias", "balance_bar", "--json"])
     assert code == 1 and "bias = \"hydraulic\"" in err and len(err.strip().splitlines()) == 1
+
+
+def test_compare_out_writes_report_html(tmp_path):
+    from html.parser import HTMLParser
+
+    from thermo.output.manifest import verify_manifest
+    name = "cool <b>duct</b>"
+    code, out, err = cli(["compare", SMALL, "--quiet", *SHRINK, "--variant", name,
+                          "corners.front.ducts.main.inlet_area_mm2=18000", "--out", tmp_path])
+    assert code == 0, err
+    assert verify_manifest(tmp_path) == [] and "report.html" in out
+    page = (tmp_path / "report.html").read_text(encoding="utf-8")
+    tags = []
+    parser = HTMLParser()
+    parser.handle_starttag = lambda tag, attrs: tags.append(tag)
+    parser.feed(page)
+    assert page.startswith("<!DOCTYPE html>") and "b" not in tags and "script" not in tags
+    assert "cool &lt;b&gt;duct&lt;/b&gt;" in page
+    # the margin gained on the front fluid check is the one compare --json reports in comparison.json
+    data = json.loads((tmp_path / "comparison.json").read_text(encoding="utf-8"))
+    gain = data["changes"][0]["corners"][0]["margin_change_k"]["fluid_boiling_dry"]
+    assert f"<td>fluid_boiling_dry</td><td>fluid_at_piston</td><td class=\"num\">{gain:+.1f}</td>" in page
+
+
+def test_demo_compare_runs_the_demos_variants(tmp_path):
+    # demo --compare once failed on options only `compare` defines (--keep-bias); a shortened demo
+    import tomllib
+
+    from thermo.cli.options import demo_scenario_path
+    short = ["--set", "plan.phases.2.count=2", "--set", "plan.phases.4.count=1", "--set", "plan.phases.8.count=2"]
+    code, out, err = cli(["demo", "--compare", "--json", "--quiet", *short])
+    assert code == 0, err
+    declared = tomllib.loads(demo_scenario_path().read_text(encoding="utf-8"))["variants"]
+    assert [v["name"] for v in json.loads(out)["variants"]] == ["baseline", *declared]

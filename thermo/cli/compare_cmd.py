@@ -9,7 +9,6 @@ from thermo.studies.compare import (
     BIAS_WARNING_POINTS, KEEP_BIAS_CHOICES, bias_warnings, keep_bias_plans, plan_comparison, run_comparison,
 )
 
-COMPARE_NODES = ("disc", "disc_surface", "pad", "piston", "fluid_at_piston", "fluid", "caliper", "hub", "bearing", "upright")
 
 
 def add_parser(sub) -> None:
@@ -22,7 +21,7 @@ def add_parser(sub) -> None:
                    help="override a key for the baseline and every variant (repeatable)")
     p.add_argument("--solver", metavar="METHOD", help="override [solver] method for all runs")
     p.add_argument("--json", action="store_true", help="print one JSON object on stdout")
-    p.add_argument("--out", metavar="DIR", help="write comparison.json, overlay plots and the margin bar chart into DIR")
+    p.add_argument("--out", metavar="DIR", help="write comparison.json, overlay plots, the margin bar chart and report.html into DIR")
     p.add_argument("--quiet", action="store_true", help="no progress indication")
     p.add_argument("--keep-bias", choices=KEEP_BIAS_CHOICES, metavar="{balance_bar,rear_master_cylinder}",
                    help="re-balance variants that move the front share (a caliper swap) back to the baseline's, "
@@ -34,45 +33,30 @@ def add_parser(sub) -> None:
 
 
 def format_comparison(data: dict) -> str:
+    from thermo.output.analysis import COMPARED_PEAK_NODES as COMPARE_NODES
+    from thermo.output.text_table import format_table
     variants = data["variants"]
     names = [v["name"] for v in variants]
-    width = max(14, *(len(n) + 2 for n in names))
+
+    def row(label: str, values: list, fmt: str = ".1f") -> list[str]:
+        base = values[0]
+        return [label, format(base, fmt)] + [f"{x:{fmt}} ({x - base:+{fmt.lstrip('+')}})" for x in values[1:]]
     lines = [f"Comparison: {data['scenario']}", "Peaks in degC and margins in K; each variant shows its change "
              "against the baseline in brackets (a positive margin change is margin gained).", ""]
-    for ci, corner in enumerate(variants[0]["corners"]):
-        lines.append(f"Corner {corner['name']}")
-        lines.append("  " + f"{'':<34}" + "".join(f" {n:>{width}}" for n in names))
-        nodes = [n for n in COMPARE_NODES if n in corner["peak_c"]]
-        for node in nodes:
-            base = corner["peak_c"][node]
-            cells = [f"{base:>{width}.1f}"]
-            for v in variants[1:]:
-                value = v["corners"][ci]["peak_c"][node]
-                cells.append(f"{f'{value:.1f} ({value - base:+.1f})':>{width}}")
-            lines.append("  " + f"{'peak ' + node:<34}" + "".join(" " + cell for cell in cells))
-        for k, check in enumerate(corner["checks"]):
-            base = check["margin_k"]
-            cells = [f"{base:>{width}.1f}"]
-            for v in variants[1:]:
-                value = v["corners"][ci]["checks"][k]["margin_k"]
-                cells.append(f"{f'{value:.1f} ({value - base:+.1f})':>{width}}")
-            lines.append("  " + f"{'margin ' + check['name']:<34}" + "".join(" " + cell for cell in cells))
-        hyd = [v.get("hydraulics") for v in variants]
-        if all(hyd) and corner["name"] in hyd[0]["corners"]:
-            for label, key, fmt in (("clamp force [N/bar]", "clamp_force_n_per_bar", ".1f"),
-                                    ("fluid [cm3/mm piston travel]", "fluid_displacement_cm3_per_mm", ".3f")):
-                base = hyd[0]["corners"][corner["name"]][key]
-                cells = [f"{base:>{width}{fmt}}"]
-                for h in hyd[1:]:
-                    value = h["corners"][corner["name"]][key]
-                    cells.append(f"{f'{value:{fmt}} ({value - base:+{fmt}})':>{width}}")
-                lines.append("  " + f"{label:<34}" + "".join(" " + cell for cell in cells))
-        lines.append("")
     hyd = [v.get("hydraulics") for v in variants]
+    for ci, corner in enumerate(variants[0]["corners"]):
+        rows = [row(f"peak {node}", [v["corners"][ci]["peak_c"][node] for v in variants])
+                for node in COMPARE_NODES if node in corner["peak_c"]]
+        rows += [row(f"margin {check['name']}", [v["corners"][ci]["checks"][k]["margin_k"] for v in variants], "+.1f")
+                 for k, check in enumerate(corner["checks"])]
+        if all(hyd) and corner["name"] in hyd[0]["corners"]:
+            rows += [row(label, [h["corners"][corner["name"]][key] for h in hyd], fmt)
+                     for label, key, fmt in (("clamp force [N/bar]", "clamp_force_n_per_bar", ".1f"),
+                                             ("fluid [cm3/mm piston travel]", "fluid_displacement_cm3_per_mm", ".3f"))]
+        lines += [f"Corner {corner['name']}", *format_table([""] + names, rows), ""]
     if all(hyd):
-        shares = [h["front_share"] * 100 for h in hyd]
-        cells = [f"{shares[0]:>{width}.2f}"] + [f"{f'{x:.2f} ({x - shares[0]:+.2f})':>{width}}" for x in shares[1:]]
-        lines.append("  " + f"{'front share of brake torque [%]':<34}" + "".join(" " + cell for cell in cells))
+        lines += format_table([""] + names, [row("front share of brake torque [%]", [h["front_share"] * 100 for h in hyd],
+                                                 ".2f")])
     for change in data.get("changes", []):
         r = change.get("rebalanced")
         if r:
@@ -83,13 +67,16 @@ def format_comparison(data: dict) -> str:
     return "\n".join(lines)
 
 
-def write_comparison_files(data: dict, runs: list, out: Path) -> list[Path]:
-    """comparison.json and the comparison plots into ``out``, each atomically; their paths."""
+def write_comparison_files(data: dict, runs: list, out: Path, warnings=()) -> list[Path]:
+    """comparison.json, the comparison plots and report.html into ``out``, each atomically; their paths."""
     from thermo.output.atomic import atomic_write
+    from thermo.output.html_compare import write_comparison_html
     from thermo.output.plots import plot_comparison
     with atomic_write(out / "comparison.json") as handle:
         json.dump(data, handle, indent=2, allow_nan=False)
-    return [out / "comparison.json", *plot_comparison(runs, out)]
+    plots = plot_comparison(runs, out)
+    write_comparison_html(data, runs, out / "report.html", warnings=warnings)
+    return [out / "comparison.json", *plots, out / "report.html"]
 
 
 def compare_command(args) -> int:
@@ -103,11 +90,12 @@ def compare_command(args) -> int:
     if args.out is not None:
         check_output_folder(args.out, source="--out")
     plans = plan_comparison(Path(args.scenario), overrides_with_solver(args), args.variant, args.only)
-    rebalanced = {}
+    rebalanced, warnings = {}, []
     if args.keep_bias:
         plans, rebalanced = keep_bias_plans(plans, args.keep_bias, Path(args.scenario))
     else:
-        for line in bias_warnings(plans, args.bias_warning_points):
+        warnings = bias_warnings(plans, args.bias_warning_points)
+        for line in warnings:
             print(f"brakeheat: warning: {line}", file=sys.stderr)
     total = sum(len(expand_plan(sc)) * len(sc.corners) for _, sc in plans)
     progress = Progress(total, enabled=not (args.json or args.quiet))
@@ -119,12 +107,12 @@ def compare_command(args) -> int:
     data = comparison.as_dict()
     if args.out:
         command = "demo --compare" if getattr(args, "command", None) == "demo" else "compare"
-        write_output_set(Path(args.out), command, lambda out: write_comparison_files(data, runs, out))
+        write_output_set(Path(args.out), command, lambda out: write_comparison_files(data, runs, out, warnings))
     if args.json:
         json.dump(data, sys.stdout, indent=2, allow_nan=False)
         sys.stdout.write("\n")
     else:
         print(format_comparison(data))
         if args.out:
-            print(f"\nWrote comparison.json and plots to {args.out}")
+            print(f"\nWrote comparison.json, plots and report.html to {args.out}")
     return 0

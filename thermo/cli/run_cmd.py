@@ -7,6 +7,7 @@ from pathlib import Path
 
 from thermo.cli.exit_codes import EXIT_EXCEEDED, EXIT_OK
 from thermo.cli.options import demo_scenario_path, overrides_with_solver
+from thermo.studies.compare import BIAS_WARNING_POINTS
 
 
 def _lap_rows(text: str) -> int:
@@ -46,7 +47,8 @@ def add_run_parsers(sub) -> None:
     d.add_argument("--print-scenario", action="store_true", help="print where the demo scenario lives and stop")
     d.add_argument("--compare", action="store_true",
                    help="compare the demo's variants (pistons, shim, ducts) instead of one run, as `brakeheat compare`")
-    d.set_defaults(handler=demo_command, variant=[], only=None)
+    # what `compare` has and `demo --compare` does not offer: its defaults
+    d.set_defaults(handler=demo_command, variant=[], only=None, keep_bias=None, bias_warning_points=BIAS_WARNING_POINTS)
 
 
 def run_and_report(path: Path, args) -> int:

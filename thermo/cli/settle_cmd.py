@@ -21,22 +21,20 @@ def add_parser(sub) -> None:
 
 
 def format_settled(data: dict) -> str:
+    from thermo.output.text_table import format_table
     lines = [f"Settled lap: {data['scenario']}", "The lap repeated until every node's temperature cycle repeats itself "
              "(pad wear, fuel burn and the plan's other phases left out).", ""]
     for c in data["corners"]:
         lines.append(f"Corner {c['name']}: phase '{c['phase']}', lap {c['lap_time_s']:.2f} s; from ambient it takes "
                      f"{c['laps_to_within_1k']} laps to come within 1 K of these peaks")
-        lines.append(f"  {'node':<15} {'settled peak [degC]':>19} {'settled minimum [degC]':>22}")
-        for node, peak in c["peak_c"].items():
-            lines.append(f"  {node:<15} {peak:19.1f} {c['min_c'][node]:22.1f}")
+        lines += format_table(["node", "settled peak [degC]", "settled minimum [degC]"],
+                              [[node, f"{peak:.1f}", f"{c['min_c'][node]:.1f}"] for node, peak in c["peak_c"].items()])
         lines.append(f"  ({c['method']}, {c['lap_solves']} lap solves, residual {c['residual_k']:.2g} K)")
         if c.get("checks"):
-            width = max(len(k["name"]) for k in c["checks"])
-            lines.append(f"  {'check':<{width}}  {'node':<15}  {'limit [degC]':>12}  {'settled peak [degC]':>19}  "
-                         f"{'margin [K]':>10}  status")
-            for k in c["checks"]:
-                lines.append(f"  {k['name']:<{width}}  {k['node']:<15}  {k['limit_c']:12.1f}  {k['peak_c']:19.1f}  "
-                             f"{k['margin_k']:+10.1f}  {k['status'].upper() if k['status'] != 'ok' else 'ok'}")
+            lines += format_table(["check", "node", "limit [degC]", "settled peak [degC]", "margin [K]", "status"],
+                                  [[k["name"], k["node"], f"{k['limit_c']:.1f}", f"{k['peak_c']:.1f}",
+                                    f"{k['margin_k']:+.1f}", k["status"].upper() if k["status"] != "ok" else "ok"]
+                                   for k in c["checks"]])
         lines.append("")
     lines.append(data["caution"])
     return "\n".join(lines)

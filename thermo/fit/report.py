@@ -37,20 +37,21 @@ def fit_dict(result, *, scenario: str, measured: str, calibrated: str | None) ->
 
 def format_fit(result) -> str:
     """The table engineers read: fitted values with std errors, correlations, RMS per channel."""
-    lines = [f"{'parameter':34s} {'value':>10s} {'std error':>10s} {'prior':>8s} {'bounds':>16s}"]
-    for v in result.values:
-        bounds = f"[{v.lower:g}, {v.upper:g}]" if math.isfinite(v.lower) else "free"
-        flag = "  (at bound)" if v.at_bound else ""
-        lines.append(f"{v.name:34s} {v.value:10.4g} {v.std_error:10.3g} {v.prior:8.4g} {bounds:>16s}{flag}")
+    from thermo.output.text_table import format_table
+    lines = format_table(["parameter", "value", "std error", "prior", "bounds", "note"],
+                         [[v.name, f"{v.value:.4g}", f"{v.std_error:.3g}", f"{v.prior:.4g}",
+                           f"[{v.lower:g}, {v.upper:g}]" if math.isfinite(v.lower) else "free",
+                           "at bound" if v.at_bound else ""] for v in result.values],
+                         align=["left", "right", "right", "right", "right", "left"], indent="")
     if len(result.values) > 1:
         lines += ["", "correlations"]
         for i, a in enumerate(result.values):
             for j in range(i + 1, len(result.values)):
                 lines.append(f"  {a.name} / {result.values[j].name}: {result.correlation[i, j]:+.3f}")
-    lines += ["", f"{'channel':28s} {'RMS fit [K]':>12s}" + (f" {'RMS hold-out [K]':>17s}" if result.holdout_laps else "")]
-    for name, rms in result.rms_k.items():
-        extra = f" {result.holdout_rms_k[name]:17.3f}" if result.holdout_laps else ""
-        lines.append(f"{name:28s} {rms:12.3f}{extra}")
+    headers = ["channel", "RMS fit [K]"] + (["RMS hold-out [K]"] if result.holdout_laps else [])
+    lines += [""] + format_table(headers, [[name, f"{rms:.3f}"] + ([f"{result.holdout_rms_k[name]:.3f}"]
+                                                                   if result.holdout_laps else [])
+                                           for name, rms in result.rms_k.items()], indent="")
     if result.holdout_laps:
         lines.append(f"(held-out laps: {', '.join(map(str, result.holdout_laps))})")
     if result.peaks:

@@ -13,6 +13,9 @@ from lapdata.echo import shown
 from thermo.output.errors import OutputError
 from thermo.results import CheckResult, CornerResult, LapSpan, Results
 
+# Nodes whose peaks a comparison shows, in this order (terminal table and report.html)
+COMPARED_PEAK_NODES = ("disc", "disc_surface", "pad", "piston", "fluid_at_piston", "fluid", "caliper", "hub", "bearing",
+                       "upright")
 # Nodes that keep heating after the car stops, listed first in soak tables.
 SOAK_NODES = ("fluid_at_piston", "fluid", "piston", "caliper", "hub", "upright", "bearing")
 # extras key: one bool per link, True when the link ends at a boundary (heat leaves the corner)

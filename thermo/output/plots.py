@@ -329,6 +329,12 @@ def plot_run(results: Results, out_dir) -> list[Path]:
 
 
 def _overlay(variants: list[tuple[str, Results]], corner_name: str, path: Path) -> Path:
+    return save_png(comparison_overlay_figure(variants, corner_name), path)
+
+
+def comparison_overlay_figure(variants: list[tuple[str, Results]], corner_name: str) -> Figure:
+    """Fluid and bearing (and the other compared nodes) of one corner, every variant overlaid, with
+    the baseline's governing limit of each node."""
     base = variants[0][1].corner(corner_name)
     nodes = [n for n in COMPARE_NODES if n in base.node_names]
     if not nodes:
@@ -340,7 +346,8 @@ def _overlay(variants: list[tuple[str, Results]], corner_name: str, path: Path) 
             corner = results.corner(corner_name)
             if node not in corner.node_names:
                 raise OutputError(f"comparison: variant '{name}' corner '{corner_name}' has no node '{node}'")
-            axes.plot(np.asarray(corner.time_s) / MINUTE, kelvin_to_celsius(corner.temperature(node)), label=name)
+            axes.plot(*envelope(np.asarray(corner.time_s) / MINUTE, kelvin_to_celsius(corner.temperature(node))),
+                      label=name)
         check = governing_check(base, node)
         if check is not None:
             axes.axhline(kelvin_to_celsius(check.limit_k), color="black", linestyle="--", linewidth=1.0,
@@ -350,10 +357,15 @@ def _overlay(variants: list[tuple[str, Results]], corner_name: str, path: Path) 
         axes.grid(True, alpha=0.3)
         axes.legend(fontsize="small")
     axes.set_xlabel("time [min]")
-    return save_png(figure, path)
+    return figure
 
 
 def _gain_bars(variants: list[tuple[str, Results]], path: Path) -> Path:
+    return save_png(margin_gain_figure(variants), path)
+
+
+def margin_gain_figure(variants: list[tuple[str, Results]]) -> Figure:
+    """Bars of the margin each variant gains on the fluid and bearing checks against the first (baseline)."""
     gains = margin_gains(variants, COMPARE_NODES)
     labels = [f"{corner}\n{node_style(node)[2]}" for corner, per_node in next(iter(gains.values())).items()
               for node in per_node]
@@ -374,7 +386,7 @@ def _gain_bars(variants: list[tuple[str, Results]], path: Path) -> Path:
     axes.set_title(f"Margin gained against the baseline '{variants[0][0]}'")
     axes.grid(True, axis="y", alpha=0.3)
     axes.legend(fontsize="small")
-    return save_png(figure, path)
+    return figure
 
 
 def plot_comparison(variant_results: list[tuple[str, Results]], out_dir) -> list[Path]:

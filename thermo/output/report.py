@@ -15,6 +15,7 @@ from thermo.output.analysis import (
     PAD_MINIMUM_KEYS, PAD_THICKNESS_KEYS, check_still_rising, heat_path_shares, laps_to_show, node_peaks, soak_rows, thickness_items, worst_lap,
 )
 from thermo.output.errors import OutputError
+from thermo.output.text_table import format_table
 from thermo.results import CornerResult, Results
 
 RULE = "-" * 78
@@ -44,23 +45,8 @@ def _clock(seconds) -> str:
     return f"{sign}{hours}:{minutes:02d}:{secs:02d}" if hours else f"{sign}{minutes}:{secs:02d}"
 
 
-def _is_number(cell: str) -> bool:
-    try:
-        float(cell)
-    except ValueError:
-        return cell in ("", "-") or ":" in cell and cell.replace(":", "").lstrip("-").isdigit()
-    return True
-
-
 def _table(headers: list[str], rows: list[list[str]], indent: str = "  ") -> list[str]:
-    """Numbers right-aligned, text left-aligned, two spaces between columns."""
-    widths = [max([len(h)] + [len(r[i]) for r in rows]) for i, h in enumerate(headers)]
-    right = [i > 0 and all(_is_number(r[i]) for r in rows) for i in range(len(headers))]
-
-    def line(cells):
-        parts = [c.rjust(w) if r else c.ljust(w) for c, w, r in zip(cells, widths, right)]
-        return (indent + "  ".join(parts)).rstrip()
-    return [line(headers), indent + "  ".join("-" * w for w in widths)] + [line(r) for r in rows]
+    return format_table(headers, rows, indent=indent)
 
 
 def _ordinal(n: int) -> str:

@@ -46,3 +46,35 @@ def lap_summary(trace, scenario) -> dict:
                      "mean_power_w": round(e.mean_power_w, 1), "mean_braking_power_w": round(e.mean_braking_power_w, 1),
                      "peak_power_w": round(e.peak_power_w, 1)} for name, e in energies.items()],
     }
+
+
+def lap_from_track(path, scenario):
+    """(TrackDescription, LapTrace) of the flying lap built from a track TOML with a scenario's car
+    envelope, sampled at the scenario's ``[plan] sample_hz``; as a run builds its laps."""
+    from lapdata.track import build_speed_trace, read_track_toml
+    from thermo.errors import ScenarioError
+    if scenario.power_method == "pressure":
+        raise ScenarioError(f"{scenario.path}: [brakes] power_method = \"pressure\" needs logged line pressures, "
+                            f"and a lap built from the track {path} has none; give a logged trace CSV, or a "
+                            "scenario with power_method = \"energy\"")
+    track = read_track_toml(path)
+    return track, build_speed_trace(track, scenario.envelope, sample_hz=scenario.plan.sample_hz)
+
+
+def built_lap_dict(path, track, trace, sample_hz: float) -> dict:
+    """What the lap command adds for a lap built from a track (JSON-ready): the track, the lap time,
+    the top and minimum speed, and per segment its distance and its speeds."""
+    speed_kmh = np.asarray(trace.speed_mps) / KMH
+    d = np.asarray(trace.distance_m)
+    segments, start = [], 0.0
+    for seg in track.segments:
+        end = start + seg.length_m
+        inside = (d >= start) & (d <= end)
+        v = speed_kmh[inside] if np.any(inside) else np.interp([start, end], d, speed_kmh)
+        segments.append({"name": seg.name, "kind": seg.kind, "d_start_m": round(start, 1), "length_m": seg.length_m,
+                         "v_entry_kmh": round(float(np.interp(start, d, speed_kmh)), 1),
+                         "v_min_kmh": round(float(v.min()), 1), "v_max_kmh": round(float(v.max()), 1)})
+        start = end
+    return {"track_file": str(path), "track_name": track.name, "sample_hz": sample_hz,
+            "lap_time_s": round(trace.duration_s, 3), "top_speed_kmh": round(float(speed_kmh.max()), 1),
+            "min_speed_kmh": round(float(speed_kmh.min()), 1), "segments": segments}
