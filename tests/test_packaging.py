@@ -48,7 +48,7 @@ def test_readme_has_two_setup_commands():
     commands = readme_setup_commands()
     assert len(commands) == 2
     assert commands[0].endswith("pip install . && brakeheat demo")
-    assert commands[1].endswith('pip install ".[test]" && ruff check . && pytest')   # lint, then tests and doctests
+    assert commands[1].endswith('pip install ".[test,cluster]" && ruff check . && pytest')   # lint, then tests and doctests
 
 
 def test_ci_runs_readmes_test_command_word_for_word():

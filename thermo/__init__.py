@@ -10,6 +10,8 @@ The public Python API (README, "Python"); each name is imported on first use, so
 - ``lap_summary(trace, scenario)`` -> dict (braking zones, energy per corner)
 - ``write_outputs(results, out_dir)`` -> the folder with results.h5, summary.json and plots
 - ``read_results(path)`` -> Results from a results.h5
+- ``sweep(path, vary, ...)`` -> StudyRecord (every point's peaks and margins; ``sweep_dict``)
+- ``uncertainty(path, ...)`` -> (UncertaintyPlan, StudyRecord) (``uncertainty_dict``: the probabilities)
 """
 
 __version__ = "0.1.0"
@@ -28,6 +30,8 @@ _PUBLIC = {
     "lap_summary": ("thermo.studies.lap", "lap_summary"),
     "write_outputs": ("thermo.output.files", "write_outputs"),
     "read_results": ("thermo.output.hdf5", "read_results_hdf5"),
+    "sweep": ("thermo.studies.sweep", "sweep"),
+    "uncertainty": ("thermo.studies.uncertainty", "uncertainty"),
 }
 
 __all__ = ["CAUTION", "__version__", *_PUBLIC]

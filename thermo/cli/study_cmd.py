@@ -13,6 +13,7 @@ import sys
 from pathlib import Path
 
 from lapdata.echo import printable
+from thermo.output.text_table import format_table
 
 STUDY_FILES = {"sweep": "sweep.h5", "uncertainty": "uncertainty.h5"}
 DEFAULT_ROWS = 40
@@ -168,32 +169,10 @@ def sweep_command(args) -> int:
     return 0
 
 
-def _abbreviations(keys) -> tuple[list[str], list[str]]:
-    """Column titles for the varied keys (the last part of a long key, numbered) and the key lines."""
-    titles, notes = [], []
-    for n, key in enumerate(keys, start=1):
-        if len(key) <= 24:
-            titles.append(key)
-        else:
-            titles.append(f"({n}) {key.split('.')[-1]}")
-            notes.append(f"  ({n}) {key}")
-    return titles, notes
-
-
 def _value_text(value) -> str:
     if isinstance(value, float):
         return f"{value:.6g}"
     return printable(str(value))
-
-
-def _table(header: list[str], rows: list[list[str]], right: set[int]) -> list[str]:
-    """Columns as wide as their widest cell, two spaces apart; numbers (columns in ``right``) right-aligned."""
-    widths = [max(len(h), *(len(r[i]) for r in rows)) if rows else len(h) for i, h in enumerate(header)]
-    cell = lambda text, i: text.rjust(widths[i]) if i in right else text.ljust(widths[i])
-    lines = ["  " + "  ".join(cell(h, i) for i, h in enumerate(header)).rstrip()]
-    lines.append("  " + "  ".join("-" * w for w in widths))
-    lines += ["  " + "  ".join(cell(text, i) for i, text in enumerate(r)).rstrip() for r in rows]
-    return lines
 
 
 def format_sweep(data: dict, max_rows: int = DEFAULT_ROWS) -> str:
@@ -205,10 +184,9 @@ def format_sweep(data: dict, max_rows: int = DEFAULT_ROWS) -> str:
     lines = [f"Sweep: {printable(data['scenario'])}",
              f"{data['points_done']} of {data['points_total']} points, {scope}; sorted by the smallest margin of any "
              "check (worst first)", ""]
-    titles, notes = _abbreviations(keys)
     ranked = sorted(data["points"], key=lambda p: (math.isnan(worst_check(p)[0]), worst_check(p)[0]))
     corners = list(dict.fromkeys(c["name"] for p in ranked for c in p.get("corners", [])))
-    header = [*titles, *(f"{c} fluid [K]" for c in corners), "worst margin [K]", "status", "worst check", "exceeded"]
+    header = [*keys, *(f"{c} fluid [K]" for c in corners), "worst margin [K]", "status", "worst check", "exceeded"]
     rows = []
     for p in ranked[:max(1, max_rows)]:
         values = [_value_text(p["values"][k]) for k in keys]
@@ -222,15 +200,12 @@ def format_sweep(data: dict, max_rows: int = DEFAULT_ROWS) -> str:
         status = "exceeded" if margin < 0 else next(k["status"] for c in p["corners"] for k in c["checks"]
                                                     if f"{c['name']}: {k['name']}" == where)
         rows.append([*values, *fluid, f"{margin:+.1f}", status.upper() if status != "ok" else "ok", where, str(exceeded)])
-    numbers = set(range(len(keys) + len(corners) + 1)) | {len(keys) + len(corners) + 3}
-    lines += _table(header, rows, right=numbers)
+    lines += format_table(header, rows)
     if corners:
         lines.append(f"  fluid: the margin of {FLUID_CHECK} (the fluid at the pistons against its boiling point "
                      "at the fluid's water content)")
     if len(ranked) > len(rows):
         lines.append(f"  ... {len(ranked) - len(rows)} more points (all in --json and sweep.csv; --rows N shows more)")
-    if notes:
-        lines += ["", "Keys:", *notes]
     if data["failed"]:
         lines += ["", f"{data['failed']} point(s) failed: their scenario could not be run (the reason is in the table)."]
     lines += ["", data["caution"]]
@@ -297,7 +272,7 @@ def format_uncertainty(data: dict) -> str:
         rows.append([c["corner"], c["name"], _percent(c["p_exceed"]), f"{_percent(lo)} to {_percent(hi)}",
                      _percent(c["p_caution"]), f"{m['5']:+.1f}", f"{m['50']:+.1f}", f"{m['95']:+.1f}"])
     lines.append("Every check (margin = limit - peak; below 0: exceeded):")
-    lines += _table(header, rows, right={2, 3, 4, 5, 6, 7})
+    lines += format_table(header, rows)
     lines += ["", "Inputs:"]
     for inp in data["inputs"]:
         params = ", ".join(f"{k} {inp[k]:g}" for k in ("mean", "std", "low", "mode", "high", "median", "sigma") if k in inp)
