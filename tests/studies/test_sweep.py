@@ -12,7 +12,8 @@ from thermo.chain.plan import expand_plan
 from thermo.scenario import load_scenario
 from thermo.studies.engine import StudyError
 from thermo.studies.points import first_stints
-from thermo.studies.sweep import parse_vary, sweep, sweep_dict, sweep_values, worst_check
+from thermo.output.study_outputs import worst_check
+from thermo.studies.sweep import parse_vary, sweep, sweep_dict, sweep_values
 
 
 def test_list_range_log_and_single_value():

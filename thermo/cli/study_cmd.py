@@ -177,8 +177,7 @@ def _value_text(value) -> str:
 
 def format_sweep(data: dict, max_rows: int = DEFAULT_ROWS) -> str:
     """The sweep's points as a table sorted by the worst margin (the smallest first)."""
-    from thermo.output.study_outputs import FLUID_CHECK
-    from thermo.studies.sweep import worst_check
+    from thermo.output.study_outputs import FLUID_CHECK, worst_check
     keys = data["varied"]
     scope = f"up to pit stop {data['stints']}" if data["stints"] else "the whole plan"
     lines = [f"Sweep: {printable(data['scenario'])}",

@@ -27,6 +27,16 @@ def _layout(points: list) -> dict[tuple[str, str], str]:
     return pairs
 
 
+def worst_check(point: dict) -> tuple[float, str]:
+    """(smallest margin [K], "corner: check") of a point; (NaN, "") for a failed point."""
+    best = (math.inf, "")
+    for c in point.get("corners", []):
+        for k in c["checks"]:
+            if k["margin_k"] < best[0]:
+                best = (k["margin_k"], f"{c['name']}: {k['name']}")
+    return best if best[1] else (math.nan, "")
+
+
 def _check(point: dict, corner: str, name: str) -> dict | None:
     for c in point.get("corners", []):
         if c["name"] == corner:
@@ -126,7 +136,6 @@ def sweep_heatmap_figure(record):
     from matplotlib.colors import TwoSlopeNorm
 
     from thermo.output.plots import _new_figure
-    from thermo.studies.sweep import worst_check
     k1, k2 = record.keys
     rows = list(dict.fromkeys(repr(v[0]) for v in record.values))
     cols = list(dict.fromkeys(repr(v[1]) for v in record.values))

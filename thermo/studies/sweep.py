@@ -162,16 +162,6 @@ def sweep(path, vary, *, zip_keys=False, overrides=(), stints=0, settle=False, k
                      chunk_size=chunk_size, checkpoint=checkpoint, resume=resume, progress=progress)
 
 
-def worst_check(point: dict) -> tuple[float, str]:
-    """(smallest margin [K], "corner: check") of a point; (NaN, "") for a failed point."""
-    best = (math.inf, "")
-    for c in point.get("corners", []):
-        for k in c["checks"]:
-            if k["margin_k"] < best[0]:
-                best = (k["margin_k"], f"{c['name']}: {k['name']}")
-    return best if best[1] else (math.nan, "")
-
-
 def sweep_dict(record) -> dict:
     """JSON-ready, as ``sweep --json`` prints it: scenario, caution, varied (the keys), points
     (each {"values": {key: value}, "corners": [{"name", "peak_c", "checks": [...]}]}, in the sweep's
