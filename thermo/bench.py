@@ -24,7 +24,8 @@ Measured side by side in one run (medians over repeats):
   size of results.h5), and 2 hours on the demo's logged lap resampled to 1 kHz (--quick: 2 hours
   of the 24-hour plan and a quarter of an hour of the 1 kHz lap);
 - a study (``study``): ``brakeheat uncertainty scenarios/demo.toml --json`` with 1000 samples of
-  the first stint (--quick: 48, scaled), wall time and peak memory of the command and its workers.
+  the first stint (--quick: 48, scaled), wall time and peak memory of the command and its workers,
+  and the same with the linearised kernel (200 samples, scaled).
 """
 from __future__ import annotations
 
@@ -194,26 +195,36 @@ _STUDY_CHILD = ("import resource, sys, time\n"
                 "sys.exit(code)\n")
 
 
-def study(quick: bool = False) -> dict:
-    """`brakeheat uncertainty scenarios/demo.toml --json` (the demo's [uncertainty] table: convection
-    multipliers, front duct inlet area, front pad thickness, fluid water content; the first stint)
-    in a fresh interpreter with the default workers (one process per core): wall time, and peak
-    memory as the command's own plus workers x the largest worker's (an upper bound). --quick: 48
-    samples, scaled to 1000."""
+def _study_run(samples: int, extra=()) -> tuple[float, float]:
+    """(wall [s], peak memory [MB]) of `brakeheat uncertainty demo.toml --json --samples N` in a fresh
+    interpreter: the command's own peak plus workers x the largest worker's (an upper bound)."""
     import subprocess
 
     from thermo.studies.engine import default_workers
-    samples = 48 if quick else STUDY_TARGETS["samples"]
     done = subprocess.run([sys.executable, "-c", _STUDY_CHILD, "uncertainty", str(_demo_path()), "--json", "--quiet",
-                           "--samples", str(samples)], capture_output=True, text=True)
+                           "--samples", str(samples), *extra], capture_output=True, text=True)
     line = [x for x in done.stderr.splitlines() if x.startswith("BENCH ")]
     if done.returncode != 0 or not line:
         raise RuntimeError(f"bench: brakeheat uncertainty failed: {done.stderr.strip()[-500:]}")
     wall, own_kb, worker_kb = map(float, line[-1].split()[1:])
-    workers = default_workers()
-    return {"samples": samples, "workers": workers, "wall_s": wall,
-            "wall_s_per_1000": wall * STUDY_TARGETS["samples"] / samples,
-            "peak_mb": (own_kb + workers * worker_kb) / 1024.0, "targets": STUDY_TARGETS}
+    return wall, (own_kb + default_workers() * worker_kb) / 1024.0
+
+
+def study(quick: bool = False) -> dict:
+    """`brakeheat uncertainty scenarios/demo.toml --json` (the demo's [uncertainty] table: convection
+    multipliers, front duct inlet area, front pad thickness, fluid water content; the first stint)
+    with the default workers (one process per core): wall time scaled to 1000 samples and peak
+    memory; then the same with ``--set solver.linearised=true`` (the linearised kernel, no Newton
+    iteration). --quick: 48 samples each; else 1000, and 200 linearised."""
+    from thermo.studies.engine import default_workers
+    samples = 48 if quick else STUDY_TARGETS["samples"]
+    fast_samples = 48 if quick else 200
+    wall, peak = _study_run(samples)
+    wall_lin, peak_lin = _study_run(fast_samples, ("--set", "solver.linearised=true"))
+    per = STUDY_TARGETS["samples"]
+    return {"samples": samples, "workers": default_workers(), "wall_s": wall, "wall_s_per_1000": wall * per / samples,
+            "peak_mb": peak, "linearised_samples": fast_samples, "linearised_wall_s_per_1000": wall_lin * per / fast_samples,
+            "linearised_peak_mb": peak_lin, "targets": STUDY_TARGETS}
 
 
 def run(quick: bool = False) -> dict:
@@ -326,7 +337,9 @@ def _text(r: dict) -> str:
     t = u["targets"]
     lines.append(f"  study (brakeheat uncertainty demo.toml, {u['samples']} samples of the first stint, {u['workers']} "
                  f"workers): {u['wall_s']:.1f} s wall, {u['wall_s_per_1000']:.0f} s per 1000 samples (target < "
-                 f"{t['wall_s']:g}), peak {u['peak_mb']:.0f} MB (target < {t['peak_mb']:g})")
+                 f"{t['wall_s']:g}), peak {u['peak_mb']:.0f} MB (target < {t['peak_mb']:g}); with "
+                 f"--set solver.linearised=true {u['linearised_wall_s_per_1000']:.0f} s per 1000, "
+                 f"{u['linearised_peak_mb']:.0f} MB")
     s = r["settle"]
     lines.append(f"  settled lap {s['settled_lap_s']:.3f} s vs simulating {s['laps_to_1k']} laps to within 1 K "
                  f"{s['simulate_to_1k_s']:.3f} s (model build {s['model_build_s']:.2f} s not included)")
