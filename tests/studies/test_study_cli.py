@@ -141,3 +141,17 @@ def test_ctrl_c_leaves_a_valid_partial_file_and_resume_finishes(tmp_path):
     data = json.loads(finished.stdout)
     assert data["points_done"] == 12 and len(data["points"]) == 12
     assert verify_manifest(out) == []
+
+
+def test_a_reader_that_closes_the_pipe_early_loses_no_file(tmp_path):
+    scenario = small_copy(tmp_path)
+    out = tmp_path / "out"
+    process = subprocess.Popen([sys.executable, "-m", "thermo.cli.main", "sweep", str(scenario), "--vary",
+                                f"{DUCT}=[4000,18000]", *SHRINK, "--workers", "1", "--out", str(out)],
+                               stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True,
+                               env={**os.environ, "MPLBACKEND": "Agg"})
+    process.stdout.close()                                # like `| head` that has read enough
+    err = process.stderr.read()
+    assert process.wait(timeout=120) == 141, err          # 128 + SIGPIPE, quietly
+    assert "Traceback" not in err and "error" not in err
+    assert verify_manifest(out) == []

@@ -1,7 +1,8 @@
 """`brakeheat` entry point: parse the command line, run a command, turn errors into one line.
 
 Exit codes: 0 success (whatever the margins), 1 bad input or a failed solve (one line on stderr),
-2 usage, 3 an exceeded limit when --fail-on-exceeded is given, 130 interrupted (Ctrl-C or SIGTERM).
+2 usage, 3 an exceeded limit when --fail-on-exceeded is given, 130 interrupted (Ctrl-C or SIGTERM),
+141 the reader of stdout closed the pipe early (files under --out are written first).
 
 Every line this module prints on stderr is one line of printable text (``lapdata.echo.printable``),
 whatever an input file holds. Python warnings raised during a command (a font without a glyph, a
@@ -19,6 +20,7 @@ from thermo.cli.exit_codes import EXIT_EXCEEDED, EXIT_INPUT, EXIT_OK, EXIT_USAGE
 # second) must reach main()'s handler, not print a traceback.
 
 EXIT_INTERRUPTED = 130
+EXIT_BROKEN_PIPE = 141        # 128 + SIGPIPE, as a shell reports a pipeline whose reader closed early
 INTERRUPTED = "brakeheat: interrupted; nothing half-written was left"
 
 
@@ -92,6 +94,9 @@ def _main(argv) -> int:
         try:
             code = args.handler(args)
             interrupts.raise_swallowed()
+        except BrokenPipeError:              # the reader went away (`| head`): nothing more to say to it
+            _quiet_stdout()
+            return EXIT_BROKEN_PIPE
         except (BrakeheatError, LapDataError, OSError, MemoryError, RecursionError) as error:
             if interrupts.interrupted():     # a library turned the interrupt into an error
                 raise KeyboardInterrupt from None
@@ -104,6 +109,16 @@ def _main(argv) -> int:
             seen.add(text)
             _say("warning", text)
     return code
+
+
+def _quiet_stdout() -> None:
+    """Point stdout at /dev/null, so that flushing it at exit does not fail a second time."""
+    import os
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+    except (OSError, ValueError, AttributeError):
+        pass
 
 
 def _one_line(error: BaseException) -> str:

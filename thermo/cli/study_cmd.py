@@ -120,16 +120,16 @@ def _run(args, kind: str, start):
         bar.close()
 
 
-def _finish_out(args, kind: str, checkpoint, write_rest) -> None:
-    """After the study: its other files, then manifest.json listing every file of the set."""
+def _finish_out(checkpoint, kind: str, write_rest) -> str:
+    """After the study: its other files, then manifest.json listing every file of the set; the
+    line the report ends with ("" without --out)."""
     if checkpoint is None:
-        return
+        return ""
     from thermo.output.manifest import write_manifest
     out = checkpoint.parent
     paths = [checkpoint, *write_rest(out)]
     write_manifest(out, paths, kind)
-    if not args.json:
-        print(f"\nWrote {', '.join(p.name for p in paths)} and manifest.json to {out}")
+    return f"\n\nWrote {', '.join(p.name for p in paths)} and manifest.json to {printable(str(out))}"
 
 
 def _overrides(args) -> list:
@@ -156,16 +156,16 @@ def sweep_command(args) -> int:
                      chunk_size=args.chunk_size, checkpoint=checkpoint, resume=args.resume, progress=progress)
     checkpoint, record = _run(args, "sweep", start)
     data = sweep_dict(record)
-    if args.json:
-        json.dump(data, sys.stdout, indent=2, allow_nan=False)
-        sys.stdout.write("\n")
-    else:
-        print(format_sweep(data, args.rows))
 
     def rest(out):
         from thermo.output.study_outputs import plot_sweep, write_study_csv
         return [write_study_csv(record, out / "sweep.csv"), *plot_sweep(record, out)]
-    _finish_out(args, "sweep", checkpoint, rest)
+    written = _finish_out(checkpoint, "sweep", rest)          # the files first: a closed pipe cannot lose them
+    if args.json:
+        json.dump(data, sys.stdout, indent=2, allow_nan=False)
+        sys.stdout.write("\n")
+    else:
+        print(format_sweep(data, args.rows) + written)
     return 0
 
 
@@ -227,11 +227,6 @@ def uncertainty_command(args) -> int:
                            progress=progress)
     checkpoint, (plan, record) = _run(args, "uncertainty", start)
     data = uncertainty_dict(plan, record)
-    if args.json:
-        json.dump(data, sys.stdout, indent=2, allow_nan=False)
-        sys.stdout.write("\n")
-    else:
-        print(format_uncertainty(data))
 
     def rest(out):
         from thermo.output.study_file import write_study_hdf5
@@ -239,7 +234,12 @@ def uncertainty_command(args) -> int:
         record.statistics = data
         write_study_hdf5(record, checkpoint)          # complete: with the statistics
         return [write_study_csv(record, out / "uncertainty.csv"), *plot_uncertainty(data, out)]
-    _finish_out(args, "uncertainty", checkpoint, rest)
+    written = _finish_out(checkpoint, "uncertainty", rest)
+    if args.json:
+        json.dump(data, sys.stdout, indent=2, allow_nan=False)
+        sys.stdout.write("\n")
+    else:
+        print(format_uncertainty(data) + written)
     return 0
 
 
