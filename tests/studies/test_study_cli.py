@@ -12,7 +12,7 @@ import time
 import h5py
 import pytest
 
-from conftest import DUCT, small_copy
+from study_cases import DUCT, small_copy
 from thermo.cli.main import main
 from thermo.output.manifest import verify_manifest
 

@@ -8,7 +8,7 @@ import os
 import h5py
 import pytest
 
-from conftest import DUCT, SHRINK, SMALL
+from study_cases import DUCT, SHRINK, SMALL
 from thermo.output.errors import OutputError
 from thermo.output.study_file import read_study_hdf5
 from thermo.studies import points as points_module

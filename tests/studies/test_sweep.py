@@ -6,7 +6,7 @@ import math
 import numpy as np
 import pytest
 
-from conftest import DUCT, SHRINK, SMALL
+from study_cases import DUCT, SHRINK, SMALL
 from thermo.chain import run_scenario
 from thermo.chain.plan import expand_plan
 from thermo.scenario import load_scenario

@@ -8,7 +8,7 @@ import numpy as np
 import pytest
 from scipy import stats
 
-from conftest import SHRINK, small_copy
+from study_cases import SHRINK, small_copy
 from thermo.scenario import load_scenario
 from thermo.studies.engine import StudyError
 from thermo.studies.uncertainty import exceedance, read_uncertainty, uncertainty, uncertainty_dict

@@ -5,6 +5,7 @@ import json
 import sys
 from pathlib import Path
 
+from thermo.cli.options import add_common_options
 from thermo.studies.compare import (
     BIAS_WARNING_POINTS, KEEP_BIAS_CHOICES, bias_warnings, keep_bias_plans, plan_comparison, run_comparison,
 )
@@ -17,12 +18,8 @@ def add_parser(sub) -> None:
     p.add_argument("--variant", nargs="+", action="append", default=[], metavar=("NAME", "KEY=VALUE"),
                    help="add a variant from the command line: --variant NAME KEY=VALUE [KEY=VALUE ...] (repeatable)")
     p.add_argument("--only", nargs="+", metavar="NAME", help="run only these variants (scenario or command line)")
-    p.add_argument("--set", metavar="KEY=VALUE", action="append", default=[], dest="overrides",
-                   help="override a key for the baseline and every variant (repeatable)")
-    p.add_argument("--solver", metavar="METHOD", help="override [solver] method for all runs")
-    p.add_argument("--json", action="store_true", help="print one JSON object on stdout")
-    p.add_argument("--out", metavar="DIR", help="write comparison.json, overlay plots, the margin bar chart and report.html into DIR")
-    p.add_argument("--quiet", action="store_true", help="no progress indication")
+    add_common_options(p, json_what="the table",
+                       out_help="write comparison.json, overlay plots, the margin bar chart and report.html into DIR")
     p.add_argument("--keep-bias", choices=KEEP_BIAS_CHOICES, metavar="{balance_bar,rear_master_cylinder}",
                    help="re-balance variants that move the front share (a caliper swap) back to the baseline's, "
                         "by the balance bar or the rear master cylinder bore (needs bias = \"hydraulic\")")

@@ -8,16 +8,14 @@ from pathlib import Path
 
 
 def add_parser(sub) -> None:
+    from thermo.cli.options import add_common_options
     p = sub.add_parser("fit", help="fit the scenario's [calibration] parameters to a logged stint")
     p.add_argument("scenario", help="scenario TOML file with a [calibration] table")
     p.add_argument("--measured", metavar="LOG.csv", required=True, help="logged stint: speed, distance, temp_* channels")
-    p.add_argument("--out", metavar="DIR", help="write fit.json and fit_<channel>.png plots into DIR")
     p.add_argument("--calibrated", metavar="FILE",
                    help="where to write the calibrated scenario (default: SCENARIO_calibrated.toml in the --out "
                         "folder; without --out beside the scenario, and with --json alone not at all)")
-    p.add_argument("--set", metavar="KEY=VALUE", action="append", default=[], dest="overrides",
-                   help="override one scenario key before fitting (repeatable)")
-    p.add_argument("--json", action="store_true", help="print one JSON object on stdout instead of the table")
+    add_common_options(p, json_what="the table", quiet=False, out_help="write fit.json and fit_<channel>.png plots into DIR")
     p.set_defaults(handler=fit_command)
 
 
@@ -60,7 +58,7 @@ def check_output_options(args, target: Path | None) -> None:
 
 
 def fit_command(args) -> int:
-    from thermo.cli.options import collect_overrides
+    from thermo.cli.options import overrides_with_solver
     from thermo.fit import fit_scenario
     from thermo.fit.calibrated import calibrated_text, pinned_plan_files
     from thermo.fit.report import fit_dict, format_fit
@@ -71,7 +69,7 @@ def fit_command(args) -> int:
     path = Path(args.scenario)
     target = calibrated_target(args)
     check_output_options(args, target)
-    scenario = load_scenario(path, collect_overrides(args.overrides))
+    scenario = load_scenario(path, overrides_with_solver(args))
     result = fit_scenario(scenario, args.measured)
     today = datetime.date.today().isoformat()
     in_set = target is not None and args.out is not None and target.parent == Path(args.out)

@@ -1,4 +1,5 @@
-"""What several commands share: the bundled demo's path and the --set / --solver overrides."""
+"""What several commands share: the bundled demo's path, the options every command that runs a
+scenario takes (declared once here: ``add_common_options``), and the --set / --solver overrides."""
 from __future__ import annotations
 
 from pathlib import Path
@@ -33,3 +34,19 @@ def overrides_with_solver(args) -> list:
     if args.solver:
         overrides.append(("solver.method", args.solver))
     return overrides
+
+
+def add_common_options(p, *, solver: bool = True, json_what: str = "the report", quiet: bool = True,
+                       out_help: str | None = None) -> None:
+    """The options commands share, declared once: ``--set`` (repeatable), ``--solver``, ``--json``,
+    ``--out DIR`` (its help says what the command writes) and ``--quiet``; ``solver``, ``quiet``
+    and ``out_help`` (None: no --out) leave out those a command has no use for."""
+    p.add_argument("--set", metavar="KEY=VALUE", action="append", default=[], dest="overrides",
+                   help="override one scenario key, e.g. --set corners.front.piston.type=vented (repeatable)")
+    if solver:
+        p.add_argument("--solver", metavar="METHOD", help="override [solver] method (fast, LSODA, BDF, Radau)")
+    p.add_argument("--json", action="store_true", help=f"print one JSON object on stdout instead of {json_what}")
+    if out_help is not None:
+        p.add_argument("--out", metavar="DIR", help=out_help)
+    if quiet:
+        p.add_argument("--quiet", action="store_true", help="no progress indication (never shown with --json or off a terminal)")

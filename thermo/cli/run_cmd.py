@@ -6,7 +6,7 @@ import sys
 from pathlib import Path
 
 from thermo.cli.exit_codes import EXIT_EXCEEDED, EXIT_OK
-from thermo.cli.options import demo_scenario_path, overrides_with_solver
+from thermo.cli.options import add_common_options, demo_scenario_path, overrides_with_solver
 from thermo.studies.compare import BIAS_WARNING_POINTS
 
 
@@ -21,11 +21,8 @@ def _lap_rows(text: str) -> int:
 
 
 def add_run_options(p) -> None:
-    p.add_argument("--json", action="store_true", help="print one JSON object on stdout instead of the report")
-    p.add_argument("--out", metavar="DIR", help="write results.h5, summary.json and PNG plots into DIR")
-    p.add_argument("--set", metavar="KEY=VALUE", action="append", default=[], dest="overrides",
-                   help="override one scenario key, e.g. --set corners.front.piston.type=vented (repeatable)")
-    p.add_argument("--solver", metavar="METHOD", help="override [solver] method (LSODA, BDF, Radau, fast)")
+    add_common_options(p, out_help="write results.h5, summary.json, laps.csv, checks.csv, report.html and PNG plots "
+                                   "into DIR")
     p.add_argument("--store", choices=("standard", "full"), default="standard",
                    help="what results.h5 keeps: standard (series at [solver] output_s, link energies per lap "
                         "and phase) or full (every solver step, and every link's flow at each)")
@@ -34,7 +31,6 @@ def add_run_options(p) -> None:
                         "else about 20 with the last and the worst)")
     p.add_argument("--csv", metavar="FILE", help="also write the per-lap table (as laps.csv under --out) to FILE")
     p.add_argument("--fail-on-exceeded", action="store_true", help="exit 3 when any check is exceeded")
-    p.add_argument("--quiet", action="store_true", help="no progress indication")
 
 
 def add_run_parsers(sub) -> None:

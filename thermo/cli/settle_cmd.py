@@ -5,6 +5,7 @@ import json
 import sys
 from pathlib import Path
 
+from thermo.cli.options import add_common_options
 from thermo.studies.settle import settle, settled_dict
 
 
@@ -13,10 +14,7 @@ def add_parser(sub) -> None:
     p.add_argument("scenario", help="scenario TOML file")
     p.add_argument("--corner", action="append", metavar="NAME", help="only this corner (repeatable; default all)")
     p.add_argument("--phase", metavar="NAME", help="the 'laps' phase whose lap is repeated (default the first)")
-    p.add_argument("--set", metavar="KEY=VALUE", action="append", default=[], dest="overrides",
-                   help="override one scenario key (repeatable)")
-    p.add_argument("--solver", metavar="METHOD", help="override [solver] method")
-    p.add_argument("--json", action="store_true", help="print one JSON object on stdout")
+    add_common_options(p, quiet=False)
     p.set_defaults(handler=settle_command)
 
 

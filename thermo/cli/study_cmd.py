@@ -20,22 +20,18 @@ DEFAULT_ROWS = 40
 
 
 def _common(p) -> None:
+    from thermo.cli.options import add_common_options
     p.add_argument("scenario", help="scenario TOML file")
-    p.add_argument("--set", metavar="KEY=VALUE", action="append", default=[], dest="overrides",
-                   help="override one scenario key for every point (repeatable)")
-    p.add_argument("--solver", metavar="METHOD", help="override [solver] method")
     p.add_argument("--stints", type=int, metavar="N",
                    help="run the plan up to and including its N-th pit stop (default: the whole plan)")
     p.add_argument("--settle", action="store_true", help="also each corner's laps to settle (a settled-lap solve per point)")
-    p.add_argument("--json", action="store_true", help="print one JSON object on stdout instead of the report")
-    p.add_argument("--out", metavar="DIR", help="write the study file, the CSV table and the plots into DIR")
+    add_common_options(p, out_help="write the study file, the CSV table and the plots into DIR")
     p.add_argument("--resume", action="store_true", help="continue the study in --out DIR without redoing its finished points")
     p.add_argument("--workers", type=int, metavar="N", help="local worker processes (default: the CPU cores; 1: this process)")
     p.add_argument("--scheduler", metavar="ADDRESS",
                    help="run on Dask: 'local' (a LocalCluster on this machine) or a scheduler address, "
                         "e.g. tcp://10.0.0.5:8786 (needs pip install \".[cluster]\")")
     p.add_argument("--chunk-size", type=int, metavar="N", help="points per unit of work sent to a worker (default: automatic)")
-    p.add_argument("--quiet", action="store_true", help="no progress bar")
 
 
 def add_parsers(sub) -> None:

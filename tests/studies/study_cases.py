@@ -5,8 +5,6 @@ from __future__ import annotations
 import shutil
 from pathlib import Path
 
-import pytest
-
 ROOT = Path(__file__).resolve().parents[2]
 SMALL = ROOT / "tests" / "data" / "small.toml"
 SHRINK = (("plan.phases.1.count", 1),)
@@ -19,8 +17,3 @@ def small_copy(folder: Path, uncertainty: str = "") -> Path:
     path = folder / "small.toml"
     path.write_text(SMALL.read_text() + "\n" + uncertainty)
     return path
-
-
-@pytest.fixture
-def small_scenario(tmp_path) -> Path:
-    return small_copy(tmp_path)
