@@ -75,9 +75,9 @@ def test_race_in_threads_equals_the_serial_race(demo):
     one = race(demo, 0.1, threads=1)
     two = race(demo, 0.1, threads=2)
     for d in demo.corners:
-        assert one[d.name].lap_peaks_k.shape[0] == 4          # ceil(360 s / 103.25 s)
-        np.testing.assert_array_equal(one[d.name].lap_peaks_k, two[d.name].lap_peaks_k)
-    assert 0 < one["build_s"] < one["wall_s"]
+        assert one.corners[d.name].lap_peaks_k.shape[0] == 4          # ceil(360 s / 103.25 s)
+        np.testing.assert_array_equal(one.corners[d.name].lap_peaks_k, two.corners[d.name].lap_peaks_k)
+    assert 0 < one.build_s < one.wall_s and set(one.corners) == {d.name for d in demo.corners}
     with pytest.raises(ModelError, match="hours must be > 0"):
         race(demo, 0.0)
 

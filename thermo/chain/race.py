@@ -115,14 +115,30 @@ def _check(res, grid, phase: str, lap: int = 0) -> None:
                          "(1 Newton, 2 left the conductance tables, 3 non-finite)")
 
 
+@dataclass(frozen=True)
+class Race:
+    """Every corner over a race of repeated laps.
+
+    Attributes
+    ----------
+    corners : dict of str to RepeatedLaps  Per corner name, its laps [-]
+    wall_s : float  Wall time of the whole race, model building included [s]
+    build_s : float  The model building alone [s]
+    """
+
+    corners: dict
+    wall_s: float
+    build_s: float
+
+
 def race(scenario, hours: float, settings: SolverSettings | None = None, *, threads: int | None = None,
-         **options) -> dict:
+         **options) -> Race:
     """Every corner of the scenario over ``hours`` of its first "laps" lap, from ambient.
 
-    Returns a dict corner name -> ``RepeatedLaps``, plus ``"wall_s"`` the wall time [s], model
-    building (about 0.2-0.5 s on the demo) included, and ``"build_s"`` that part alone [s]. The corners run in ``threads`` threads (default
-    one per CPU core; the compiled kernel releases the GIL).
-    ``options`` go to ``repeated_laps`` (max_stride, linearised).
+    Returns a ``Race``: per corner its ``RepeatedLaps``, the wall time (model building, about
+    0.2-0.5 s on the demo, included) and the building alone. The corners run in ``threads``
+    threads (default one per CPU core; the compiled kernel releases the GIL). ``options`` go to
+    ``repeated_laps`` (max_stride, linearised).
     """
     from thermo.chain.settle import lap_setups
     if not hours > 0:
@@ -142,6 +158,4 @@ def race(scenario, hours: float, settings: SolverSettings | None = None, *, thre
     else:       # the kernel releases the GIL: one corner per thread
         with ThreadPoolExecutor(max_workers=workers) as pool:
             out = dict(zip(setups, pool.map(one, setups)))
-    out["wall_s"] = _time.perf_counter() - wall
-    out["build_s"] = build
-    return out
+    return Race(out, _time.perf_counter() - wall, build)
