@@ -50,7 +50,7 @@ def test_sweep_table_and_files(tmp_path, capsys):
     assert "worst margin [K]" in text and "front fluid [K]" in text and "CAUTION" in text
     assert "corners.front.ducts.main.inlet_area_mm2" in text and "corners.front.piston.type" in text
     names = sorted(p.name for p in out.iterdir())
-    assert names == ["manifest.json", "sweep.csv", "sweep.h5", "sweep_heatmap.png", "sweep_margin_main_inlet_area_mm2.png",
+    assert names == ["manifest.json", "report.html", "sweep.csv", "sweep.h5", "sweep_heatmap.png", "sweep_margin_main_inlet_area_mm2.png",
                      "sweep_margin_piston_type.png"]
     assert verify_manifest(out) == []
     header = (out / "sweep.csv").read_text().splitlines()[0]
@@ -81,7 +81,7 @@ def test_uncertainty_report_json_and_files(tmp_path, capsys):
     data = json.loads(text)
     assert data["samples"] == 4 and data["seed"] == 3 and len(data["inputs"]) == 1
     assert sorted(p.name for p in out.iterdir()) == [
-        "manifest.json", "uncertainty.csv", "uncertainty.h5", "uncertainty_peaks_front.png", "uncertainty_peaks_rear.png",
+        "manifest.json", "report.html", "uncertainty.csv", "uncertainty.h5", "uncertainty_peaks_front.png", "uncertainty_peaks_rear.png",
         "uncertainty_tornado_front.png", "uncertainty_tornado_rear.png"]
     with h5py.File(out / "uncertainty.h5") as f:
         assert json.loads(f.attrs["statistics_json"]) == data

@@ -154,8 +154,10 @@ def sweep_command(args) -> int:
     data = sweep_dict(record)
 
     def rest(out):
+        from thermo.output.html_study import write_study_html
         from thermo.output.study_outputs import plot_sweep, write_study_csv
-        return [write_study_csv(record, out / "sweep.csv"), *plot_sweep(record, out)]
+        write_study_html("sweep", data, record, out / "report.html")
+        return [write_study_csv(record, out / "sweep.csv"), out / "report.html", *plot_sweep(record, out)]
     written = _finish_out(checkpoint, "sweep", rest)          # the files first: a closed pipe cannot lose them
     if args.json:
         json.dump(data, sys.stdout, indent=2, allow_nan=False)
@@ -229,7 +231,9 @@ def uncertainty_command(args) -> int:
         from thermo.output.study_outputs import plot_uncertainty, write_study_csv
         record.statistics = data
         write_study_hdf5(record, checkpoint)          # complete: with the statistics
-        return [write_study_csv(record, out / "uncertainty.csv"), *plot_uncertainty(data, out)]
+        from thermo.output.html_study import write_study_html
+        write_study_html("uncertainty", data, record, out / "report.html")
+        return [write_study_csv(record, out / "uncertainty.csv"), out / "report.html", *plot_uncertainty(data, out)]
     written = _finish_out(checkpoint, "uncertainty", rest)
     if args.json:
         json.dump(data, sys.stdout, indent=2, allow_nan=False)
@@ -267,7 +271,7 @@ def format_uncertainty(data: dict) -> str:
         rows.append([c["corner"], c["name"], _percent(c["p_exceed"]), f"{_percent(lo)} to {_percent(hi)}",
                      _percent(c["p_caution"]), f"{m['5']:+.1f}", f"{m['50']:+.1f}", f"{m['95']:+.1f}"])
     lines.append("Every check (margin = limit - peak; below 0: exceeded):")
-    lines += format_table(header, rows)
+    lines += format_table(header, rows, align=["left", "left"] + ["right"] * 6)
     lines += ["", "Inputs:"]
     for inp in data["inputs"]:
         params = ", ".join(f"{k} {inp[k]:g}" for k in ("mean", "std", "low", "mode", "high", "median", "sigma") if k in inp)

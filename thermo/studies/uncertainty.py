@@ -147,8 +147,9 @@ def _key_range(key: str, where: str, path, overrides) -> tuple[float, float]:
         raise StudyError(f"{where}: {shown(key)} names no number key of the scenario")
     if declared.kind is not float:
         raise StudyError(f"{where}: {key} takes {declared.kind.__name__} values; an uncertain input must be a number key")
+    # a key that must be above a value (not at it): the draws reach that end with probability 0
     low = declared.minimum if declared.minimum is not None else (
-        float(np.nextafter(declared.above, np.inf)) if declared.above is not None else -math.inf)
+        declared.above if declared.above is not None else -math.inf)
     high = declared.maximum if declared.maximum is not None else math.inf
     return float(low), float(high)
 
