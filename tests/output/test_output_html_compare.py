@@ -10,7 +10,6 @@ from __future__ import annotations
 
 import dataclasses
 import html
-import subprocess
 from html.parser import HTMLParser
 
 import pytest
@@ -18,7 +17,7 @@ import pytest
 from thermo import CAUTION
 from thermo.output.html_compare import comparison_html, variant_overrides, write_comparison_html
 from thermo.studies.compare import comparison_dict
-from test_output_html_report import _chromium, _Collect
+from test_output_html_report import _chromium, _Collect, load_in_chromium
 
 NAME = 'cool <b>duct</b> & "more" <script>alert(1)</script>'
 DUCT = ("corners.front.ducts.main.inlet_area_mm2", "18000")
@@ -114,15 +113,5 @@ def test_the_page_loads_in_a_headless_browser(compared, tmp_path):
     data, runs, _ = compared
     path = tmp_path / "report.html"
     write_comparison_html(data, runs, path)
-    base = [_chromium(), "--headless", "--no-sandbox", "--disable-gpu", "--disable-dev-shm-usage",
-            "--enable-logging=stderr", "--v=0", f"--user-data-dir={tmp_path / 'profile'}"]
-    dom = subprocess.run(base + ["--dump-dom", path.as_uri()], capture_output=True, text=True, timeout=120)
-    assert dom.returncode == 0, dom.stderr[-2000:]
-    assert not [line for line in dom.stderr.splitlines() if "CONSOLE" in line and "error" in line.lower()]
-    assert "<b>duct</b>" not in dom.stdout and "&lt;b&gt;duct&lt;/b&gt;" in dom.stdout
-    shot = tmp_path / "shot.png"
-    done = subprocess.run(base + ["--window-size=1200,1600", f"--screenshot={shot}", path.as_uri()],
-                          capture_output=True, text=True, timeout=120)
-    assert done.returncode == 0 and shot.is_file(), done.stderr[-2000:]
-    from matplotlib.image import imread
-    assert imread(shot).std() > 0.05               # not blank: text, tables and plots drawn
+    dom = load_in_chromium(path, tmp_path)
+    assert "<b>duct</b>" not in dom and "&lt;b&gt;duct&lt;/b&gt;" in dom

@@ -86,18 +86,24 @@ def test_the_page_loads_in_a_headless_browser(page, tmp_path):
     results, _ = page
     path = tmp_path / "report.html"
     write_report_html(results, path)
+    dom = load_in_chromium(path, tmp_path)
+    # the browser built no <b> or <script> element from the name: it shows as text
+    assert "<b>bold</b>" not in dom and "&lt;b&gt;bold&lt;/b&gt;" in dom
+
+
+def load_in_chromium(path, tmp_path) -> str:
+    """Open ``path`` in headless Chromium: assert it loads with no console error and that its
+    screenshot is not blank; the DOM the browser built, as text."""
     base = [_chromium(), "--headless", "--no-sandbox", "--disable-gpu", "--disable-dev-shm-usage",
             "--enable-logging=stderr", "--v=0", f"--user-data-dir={tmp_path / 'profile'}"]
     dom = subprocess.run(base + ["--dump-dom", path.as_uri()], capture_output=True, text=True, timeout=120)
     assert dom.returncode == 0, dom.stderr[-2000:]
     # no console errors (Chromium logs the page's console messages as CONSOLE lines)
     assert not [line for line in dom.stderr.splitlines() if "CONSOLE" in line and "error" in line.lower()]
-    # the browser built no <b> or <script> element from the name: it shows as text
-    assert "<b>bold</b>" not in dom.stdout and "&lt;b&gt;bold&lt;/b&gt;" in dom.stdout
     shot = tmp_path / "shot.png"
     done = subprocess.run(base + ["--window-size=1200,1600", f"--screenshot={shot}", path.as_uri()],
                           capture_output=True, text=True, timeout=120)
     assert done.returncode == 0 and shot.is_file(), done.stderr[-2000:]
     from matplotlib.image import imread
-    image = imread(shot)
-    assert image.std() > 0.05                      # not blank: text, tables and plots drawn
+    assert imread(shot).std() > 0.05               # not blank: text, tables and plots drawn
+    return dom.stdout

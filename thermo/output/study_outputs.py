@@ -168,15 +168,20 @@ def sweep_heatmap_figure(record):
     return figure
 
 
+def _two_column_panels(count: int, width: float, row_height: float):
+    """A figure with ``count`` panels in two columns, and the panels in reading order."""
+    from thermo.output.plots import _new_figure
+    rows = max(1, -(-count // 2))
+    figure = _new_figure(width, row_height * rows + 0.8)
+    return figure, [figure.add_subplot(rows, 2, n + 1) for n in range(count)]
+
+
 def uncertainty_peaks_figure(stats: dict, corner: str):
     """Histogram of each check's peak over the samples of one corner, with the limit's range."""
-    from thermo.output.plots import _new_figure, node_style
+    from thermo.output.plots import node_style
     checks = [c for c in stats["checks"] if c["corner"] == corner]
-    cols = 2
-    rows = -(-len(checks) // cols)
-    figure = _new_figure(10.0, 2.6 * rows + 0.8)
-    for n, c in enumerate(checks):
-        axes = figure.add_subplot(rows, cols, n + 1)
+    figure, panels = _two_column_panels(len(checks), 10.0, 2.6)
+    for n, (c, axes) in enumerate(zip(checks, panels)):
         edges, counts = np.array(c["peak_c_histogram"]["edges"]), np.array(c["peak_c_histogram"]["counts"])
         colour = node_style(c["node"], n)[0]
         axes.stairs(counts, edges, fill=True, alpha=0.6, color=colour, label="samples")
@@ -195,13 +200,9 @@ def uncertainty_peaks_figure(stats: dict, corner: str):
 
 def uncertainty_tornado_figure(stats: dict, corner: str):
     """What drives each margin of one corner: each input's rank correlation with the margin."""
-    from thermo.output.plots import _new_figure
     entries = [s for s in stats["sensitivity"] if s["corner"] == corner]
-    cols = 2
-    rows = -(-len(entries) // cols)
-    figure = _new_figure(11.0, 2.4 * rows + 0.8)
-    for n, s in enumerate(entries):
-        axes = figure.add_subplot(rows, cols, n + 1)
+    figure, panels = _two_column_panels(len(entries), 11.0, 2.4)
+    for s, axes in zip(entries, panels):
         inputs = list(reversed(s["inputs"]))
         rho = [d["rank_correlation"] or 0.0 for d in inputs]
         bars = axes.barh(range(len(inputs)), rho, color=["#0072B2" if r >= 0 else "#D55E00" for r in rho])
