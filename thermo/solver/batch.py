@@ -30,6 +30,7 @@ import numpy as np
 from thermo.errors import ModelError, SolveError
 from thermo.network.assemble import CompiledNetwork, compile_network
 from thermo.network.elements import REFERENCE_TEMPERATURE_K
+from thermo.network.laws import capacity_segment
 from thermo.network.schedule import Schedule
 from thermo.network.tabulate import TabulatedConductance
 from thermo.solver import kernel, kernel_lanes, kernel_linearised
@@ -567,14 +568,11 @@ def solve_batch(networks, schedule: Schedule, initial_k, settings: SolverSetting
 
 
 def _enthalpy(kn: KernelNetwork, b: int, T: np.ndarray) -> np.ndarray:
-    """Enthalpy of configuration b's nodes relative to 20 degC [J] (CapacityTable's formula)."""
+    """Enthalpy of configuration b's nodes relative to 20 degC [J] (``thermo.network.laws``)."""
     h = kn.base[b] * (T - REFERENCE_TEMPERATURE_K)
     seg_node = kn.compiled.capacities.seg_node
     if seg_node.size:
         lo, hi, s = kn.seg_lo[b], kn.seg_hi[b], kn.seg_slope[b]
-
-        def ramp(x):
-            xc = np.clip(x, lo, hi)
-            return 0.5 * (xc - lo) ** 2 + (hi - lo) * np.maximum(x - hi, 0.0)
-        h = h + np.bincount(seg_node, s * (ramp(T[seg_node]) - ramp(REFERENCE_TEMPERATURE_K)), minlength=T.size)
+        ramp = capacity_segment(T[seg_node], lo, hi)[1] - capacity_segment(REFERENCE_TEMPERATURE_K, lo, hi)[1]
+        h = h + np.bincount(seg_node, s * ramp, minlength=T.size)
     return kn.mass[b] * h

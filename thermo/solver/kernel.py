@@ -47,9 +47,12 @@ M. E. Hosea, L. F. Shampine, "Analysis and implementation of TR-BDF2", Appl. Num
 from __future__ import annotations
 
 import math
+import types
 
 import numpy as np
 from numba import njit, prange
+
+from thermo.network import laws
 
 GAMMA = 2.0 - math.sqrt(2.0)
 D_WEIGHT = GAMMA / 2.0
@@ -60,6 +63,26 @@ NEWTON_TOLERANCE = 0.1   # accept when every correction is below this share of a
 
 KIND_CONDUCTION, KIND_RADIATION, KIND_CONVECTION = 0, 1, 2
 STATUS_OK, STATUS_NEWTON, STATUS_OUTSIDE_GRID, STATUS_NONFINITE = 0, 1, 2, 3
+
+
+def _compile_laws(names):
+    """The network's laws (``thermo.network.laws``) compiled: the very functions the numpy assembler
+    calls, each given a namespace in which the laws it calls are compiled too.
+
+    On scalars numpy's ``maximum``/``minimum`` are taken as Python's ``max``/``min``: equal for every
+    number (they differ only in how a NaN propagates, and a NaN state fails the step either way);
+    numpy's NaN handling measured about 7 % of a kernel step (demo corner, one core). The laws'
+    machine code is cached with ``laws.py``: after changing this namespace, delete the cache files
+    (see the notes of ``thermo.network.laws``)."""
+    namespace = dict(vars(laws), maximum=max, minimum=min)
+    for name in names:
+        fn = getattr(laws, name)
+        namespace[name] = njit(cache=True, error_model="numpy")(types.FunctionType(fn.__code__, namespace, name))
+    return [namespace[name] for name in names]
+
+
+(conduction_flow, radiation_flow, convection_flow, bilinear, trilinear, capacity_segment) = _compile_laws(
+    ("conduction_flow", "radiation_flow", "convection_flow", "bilinear", "trilinear", "capacity_segment"))
 
 
 @njit(cache=True, error_model="numpy")
@@ -83,23 +106,9 @@ def _axis(value, lo, inv_step, n):
 @njit(cache=True, error_model="numpy")
 def _trilinear(tables, t, inv_j, inv_k, i, fi, j, fj, k, fk):
     """G [W/K] of table t in cell (i, j, k) at fractions (fi, fj, fk), and dG/dT_a, dG/dT_b [W/K^2]."""
-    a000 = tables[t, i, j, k]
-    a001 = tables[t, i, j, k + 1]
-    a010 = tables[t, i, j + 1, k]
-    a011 = tables[t, i, j + 1, k + 1]
-    a100 = tables[t, i + 1, j, k]
-    a101 = tables[t, i + 1, j, k + 1]
-    a110 = tables[t, i + 1, j + 1, k]
-    a111 = tables[t, i + 1, j + 1, k + 1]
-    c00 = a000 + fk * (a001 - a000)
-    c01 = a010 + fk * (a011 - a010)
-    c10 = a100 + fk * (a101 - a100)
-    c11 = a110 + fk * (a111 - a110)
-    gi = 1.0 - fi
-    gj = 1.0 - fj
-    g = gi * (gj * c00 + fj * c01) + fi * (gj * c10 + fj * c11)
-    dj = gi * (c01 - c00) + fi * (c11 - c10)
-    dk = gi * (gj * (a001 - a000) + fj * (a011 - a010)) + fi * (gj * (a101 - a100) + fj * (a111 - a110))
+    g, dj, dk = trilinear(tables[t, i, j, k], tables[t, i, j, k + 1], tables[t, i, j + 1, k],
+                          tables[t, i, j + 1, k + 1], tables[t, i + 1, j, k], tables[t, i + 1, j, k + 1],
+                          tables[t, i + 1, j + 1, k], tables[t, i + 1, j + 1, k + 1], fi, fj, fk)
     return g, dj * inv_j, dk * inv_k
 
 
@@ -128,17 +137,9 @@ def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables
         tb = T[b] if b < n else bk[b - n]
         kd = kind[l]
         if kd == 0:
-            g = par[l]
-            f[l] = g * (ta - tb)
-            dfa[l] = g
-            dfb[l] = -g
+            f[l], dfa[l], dfb[l] = conduction_flow(par[l], ta, tb)
         elif kd == 1:
-            c = par[l]
-            ta2 = ta * ta
-            tb2 = tb * tb
-            f[l] = c * (ta2 * ta2 - tb2 * tb2)
-            dfa[l] = 4.0 * c * ta2 * ta
-            dfb[l] = -4.0 * c * tb2 * tb
+            f[l], dfa[l], dfb[l] = radiation_flow(par[l], ta, tb)
         else:
             s = conv_slot[l]
             dd = conv_drv[s]
@@ -152,17 +153,8 @@ def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables
                     ok = False
                 n_j = int(gp[5])
                 o = (six[s] * int(gp[2]) + i) * n_j + j
-                c00 = sliced[o]
-                c01 = sliced[o + 1]
-                c10 = sliced[o + n_j]
-                c11 = sliced[o + n_j + 1]
-                gj = 1.0 - fj
-                g = (1.0 - fi) * (gj * c00 + fj * c01) + fi * (gj * c10 + fj * c11)
-                ga = ((1.0 - fi) * (c01 - c00) + fi * (c11 - c10)) * inv_j
-                m = par[l]
-                f[l] = m * g * (ta - tb)
-                dfa[l] = m * (g + ga * (ta - tb))
-                dfb[l] = -m * g
+                g, ga = bilinear(sliced[o], sliced[o + 1], sliced[o + n_j], sliced[o + n_j + 1], fi, fj)
+                f[l], dfa[l], dfb[l] = convection_flow(par[l], g, ga * inv_j, 0.0, ta, tb)
                 continue
             if b >= n:
                 k, fk, okk = ax_i[nd + b - n], ax_f[nd + b - n], ax_ok[nd + b - n]
@@ -171,28 +163,21 @@ def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables
             if not (oki and okj and okk):
                 ok = False
             g, ga, gb = _trilinear(tables, tix[s], inv_j, inv_k, i, fi, j, fj, k, fk)
-            m = par[l]
-            f[l] = m * g * (ta - tb)
-            dfa[l] = m * (g + ga * (ta - tb))
-            dfb[l] = m * (-g + gb * (ta - tb))
+            f[l], dfa[l], dfb[l] = convection_flow(par[l], g, ga, gb, ta, tb)
     return ok
 
 
 @njit(cache=True, error_model="numpy")
 def _capacity_enthalpy(T, mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, C, H):
-    """Heat capacity C [J/K] and enthalpy H relative to t_ref [J] of every node (CapacityTable's forms)."""
+    """Heat capacity C [J/K] and enthalpy H relative to t_ref [J] of every node
+    (``thermo.network.laws.capacity_segment``, as CapacityTable)."""
     for i in range(T.size):
         c = base[i]
         h = base[i] * (T[i] - t_ref)
         for s in range(seg_start[i], seg_start[i + 1]):
-            lo = seg_lo[s]
-            hi = seg_hi[s]
-            x = min(max(T[i], lo), hi)
-            c += seg_slope[s] * (x - lo)
-            xr = min(max(t_ref, lo), hi)
-            ramp = 0.5 * (x - lo) * (x - lo) + (hi - lo) * max(T[i] - hi, 0.0)      # no pow() call
-            ramp_ref = 0.5 * (xr - lo) * (xr - lo) + (hi - lo) * max(t_ref - hi, 0.0)
-            h += seg_slope[s] * (ramp - ramp_ref)
+            x, ramp = capacity_segment(T[i], seg_lo[s], seg_hi[s])
+            c += seg_slope[s] * x
+            h += seg_slope[s] * (ramp - capacity_segment(t_ref, seg_lo[s], seg_hi[s])[1])
         C[i] = mass[i] * c
         H[i] = mass[i] * h
 

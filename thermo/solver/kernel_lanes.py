@@ -25,7 +25,8 @@ import math
 import numpy as np
 from numba import njit, prange
 
-from thermo.solver.kernel import D_WEIGHT, W_WEIGHT, _axis
+from thermo.solver.kernel import (D_WEIGHT, W_WEIGHT, _axis, bilinear, capacity_segment, conduction_flow,
+                                  convection_flow, radiation_flow, trilinear)
 
 LANES = 64       # widest block: measured fastest per configuration (16: 0.66, 32: 0.55, 64: 0.48 us a step)
 
@@ -59,26 +60,16 @@ def _flows_lanes(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, 
         if kd == 0:
             for c in range(W):
                 tb = T[b, c] if on_node else tbk
-                g = par[l, c]
-                f[l, c] = g * (T[a, c] - tb)
-                dfa[l, c] = g
-                dfb[l, c] = -g
+                f[l, c], dfa[l, c], dfb[l, c] = conduction_flow(par[l, c], T[a, c], tb)
         elif kd == 1:
             for c in range(W):
-                ta = T[a, c]
                 tb = T[b, c] if on_node else tbk
-                cr = par[l, c]
-                ta2 = ta * ta
-                tb2 = tb * tb
-                f[l, c] = cr * (ta2 * ta2 - tb2 * tb2)
-                dfa[l, c] = 4.0 * cr * ta2 * ta
-                dfb[l, c] = -4.0 * cr * tb2 * tb
+                f[l, c], dfa[l, c], dfb[l, c] = radiation_flow(par[l, c], T[a, c], tb)
         else:
             s = conv_slot[l]
             dd = conv_drv[s]
             i, fi, oki = _axis(drv[dd] if dd >= 0 else 0.0, gp[0], 1.0 / gp[1], n_i)
             kb, fkb, okb = _axis(tbk, gp[6], inv_k, n_k)
-            gi = 1.0 - fi
             if slot_sliced[s]:
                 for c in range(W):
                     ta = T[a, c]
@@ -90,18 +81,9 @@ def _flows_lanes(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, 
                     j = min(int(x), n_j - 2)
                     fj = x - j
                     o = (six[s, c] * n_i + i) * n_j + j
-                    c00 = sliced[o]
-                    c01 = sliced[o + 1]
-                    c10 = sliced[o + n_j]
-                    c11 = sliced[o + n_j + 1]
-                    gj = 1.0 - fj
-                    g = gi * (gj * c00 + fj * c01) + fi * (gj * c10 + fj * c11)
-                    ga = (gi * (c01 - c00) + fi * (c11 - c10)) * inv_j
-                    m = par[l, c]
-                    dT = ta - (T[b, c] if on_node else tbk)
-                    f[l, c] = m * g * dT
-                    dfa[l, c] = m * (g + ga * dT)
-                    dfb[l, c] = -m * g
+                    g, ga = bilinear(sliced[o], sliced[o + 1], sliced[o + n_j], sliced[o + n_j + 1], fi, fj)
+                    f[l, c], dfa[l, c], dfb[l, c] = convection_flow(par[l, c], g, ga * inv_j, 0.0, ta,
+                                                                    T[b, c] if on_node else tbk)
                 continue
             for c in range(W):
                 ta = T[a, c]
@@ -123,28 +105,9 @@ def _flows_lanes(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, 
                 if not (oki and (on_node or okb)):
                     flag[c] = True
                 o = ((tix[s, c] * n_i + i) * n_j + j) * n_k + k
-                a000 = tables[o]
-                a001 = tables[o + 1]
-                a010 = tables[o + n_k]
-                a011 = tables[o + n_k + 1]
-                a100 = tables[o + s_i]
-                a101 = tables[o + s_i + 1]
-                a110 = tables[o + s_i + n_k]
-                a111 = tables[o + s_i + n_k + 1]
-                c00 = a000 + fk * (a001 - a000)
-                c01 = a010 + fk * (a011 - a010)
-                c10 = a100 + fk * (a101 - a100)
-                c11 = a110 + fk * (a111 - a110)
-                gj = 1.0 - fj
-                g = gi * (gj * c00 + fj * c01) + fi * (gj * c10 + fj * c11)
-                ga = (gi * (c01 - c00) + fi * (c11 - c10)) * inv_j
-                gb = (gi * (gj * (a001 - a000) + fj * (a011 - a010))
-                      + fi * (gj * (a101 - a100) + fj * (a111 - a110))) * inv_k
-                m = par[l, c]
-                dT = ta - tb
-                f[l, c] = m * g * dT
-                dfa[l, c] = m * (g + ga * dT)
-                dfb[l, c] = m * (-g + gb * dT)
+                g, ga, gb = trilinear(tables[o], tables[o + 1], tables[o + n_k], tables[o + n_k + 1], tables[o + s_i],
+                                      tables[o + s_i + 1], tables[o + s_i + n_k], tables[o + s_i + n_k + 1], fi, fj, fk)
+                f[l, c], dfa[l, c], dfb[l, c] = convection_flow(par[l, c], g, ga * inv_j, gb * inv_k, ta, tb)
 
 
 @njit(cache=True, error_model="numpy")
@@ -155,8 +118,7 @@ def _reference_ramps(seg_lo, seg_hi, t_ref, href):
         for c in range(W):
             lo = seg_lo[s, c]
             hi = seg_hi[s, c]
-            xr = min(max(t_ref, lo), hi)
-            href[s, c] = 0.5 * (xr - lo) * (xr - lo) + (hi - lo) * max(t_ref - hi, 0.0)
+            href[s, c] = capacity_segment(t_ref, lo, hi)[1]
 
 
 @njit(cache=True, error_model="numpy")
@@ -172,16 +134,10 @@ def _capacity_lanes(T, mass, base, seg_start, seg_lo, seg_hi, seg_slope, href, t
                 C[i, c] = base[i, c]
         for s in range(seg_start[i], seg_start[i + 1]):
             for c in range(W):
-                lo = seg_lo[s, c]
-                hi = seg_hi[s, c]
-                t = T[i, c]
-                x = min(max(t, lo), hi)
-                ramp = 0.5 * (x - lo) * (x - lo) + (hi - lo) * max(t - hi, 0.0)
-                H[i, c] += seg_slope[s, c] * (ramp - href[s, c])
+                H[i, c] += seg_slope[s, c] * (capacity_segment(T[i, c], seg_lo[s, c], seg_hi[s, c])[1] - href[s, c])
             if with_c:
                 for c in range(W):
-                    x = min(max(T[i, c], seg_lo[s, c]), seg_hi[s, c])
-                    C[i, c] += seg_slope[s, c] * (x - seg_lo[s, c])
+                    C[i, c] += seg_slope[s, c] * capacity_segment(T[i, c], seg_lo[s, c], seg_hi[s, c])[0]
         for c in range(W):
             H[i, c] *= mass[i, c]
         if with_c:
