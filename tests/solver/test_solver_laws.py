@@ -77,31 +77,32 @@ def constant_inputs(bk, drv):
 
 def kernel_flows(kn, T, bk, drv, sliced_run=False):
     """``kernel._flows`` of configuration 0 (tables sliced along constant boundaries when asked)."""
-    if sliced_run:
-        sliced, slot_sliced, six = kn.boundary_slices(constant_inputs(bk, drv))
-    else:
-        sliced, slot_sliced, six = np.zeros(1), np.zeros(kn.conv_drv.size, dtype=np.bool_), kn.tix * 0
+    arrays = kn.arrays(constant_inputs(bk, drv))
+    if not sliced_run:
+        arrays = arrays._replace(slot_sliced=np.zeros(kn.conv_drv.size, dtype=np.bool_))
+    links, _ = kernel._configuration(arrays, 0)
     L = kn.link_a.size
     f, dfa, dfb = np.empty(L), np.empty(L), np.empty(L)
     nax = drv.size + bk.size
-    ok = kernel._flows(T, bk, drv, kn.n_nodes, kn.link_a, kn.link_b, kn.kind, kn.par[0], kn.conv_slot, kn.conv_drv,
-                       kn.tables, kn.tix[0], kn.gp, sliced, slot_sliced, six[0], f, dfa, dfb,
-                       np.zeros(nax, dtype=np.int64), np.zeros(nax), np.zeros(nax, dtype=np.bool_))
+    ok = kernel._flows(T, bk, drv, links, f, dfa, dfb, np.zeros(nax, dtype=np.int64), np.zeros(nax),
+                       np.zeros(nax, dtype=np.bool_))
     assert ok
-    return f, dfa, dfb, slot_sliced
+    return f, dfa, dfb, arrays.slot_sliced
+
+
+def lane_arrays(kn, inputs, W):
+    """``kn.arrays`` laid out as one block of W lanes, every lane configuration 0."""
+    return kn.arrays(inputs, lambda x: np.ascontiguousarray(np.repeat(x[:1, ..., None], W, axis=-1)))
 
 
 def lane_flows(kn, Ts, bk, drv):
     """``kernel_lanes._flows_lanes`` with one lane per row of Ts (the same configuration in each)."""
     W = Ts.shape[0]
-    sliced, slot_sliced, six = kn.boundary_slices(constant_inputs(bk, drv))
-    lanes = lambda x: np.ascontiguousarray(np.repeat(x[..., None], W, axis=-1))
+    links, _ = kernel._configuration(lane_arrays(kn, constant_inputs(bk, drv), W), 0)
     L = kn.link_a.size
     f, dfa, dfb = np.empty((L, W)), np.empty((L, W)), np.empty((L, W))
     flag = np.zeros(W, dtype=np.bool_)
-    kernel_lanes._flows_lanes(np.ascontiguousarray(Ts.T), bk, drv, kn.n_nodes, kn.link_a, kn.link_b, kn.kind,
-                              lanes(kn.par[0]), kn.conv_slot, kn.conv_drv, kn.tables.reshape(-1), lanes(kn.tix[0]),
-                              kn.gp, sliced, slot_sliced, lanes(six[0]), f, dfa, dfb, flag)
+    kernel_lanes._flows_lanes(np.ascontiguousarray(Ts.T), bk, drv, links, f, dfa, dfb, flag)
     assert not flag.any()
     return f.T, dfa.T, dfb.T
 
@@ -186,23 +187,23 @@ def test_table_lookup_agrees_with_the_kernels_interpolation(case):
 def test_heat_capacity_and_enthalpy_agree_everywhere(case):
     rng, net, kn = case
     caps = net.capacities
+    inputs = constant_inputs(np.full(net.n_boundaries, 300.0), np.zeros(len(net.driver_names)))
+    _, capacities = kernel._configuration(kn.arrays(inputs), 0)
+    assert capacities.t_ref == REFERENCE_TEMPERATURE_K
     for _ in range(50):
         T = rng.uniform(150.0, 1600.0, net.n_nodes)      # below, inside and beyond every c(T) table
         C, H = np.empty(net.n_nodes), np.empty(net.n_nodes)
-        kernel._capacity_enthalpy(T, kn.mass[0], kn.base[0], kn.seg_start, kn.seg_lo[0], kn.seg_hi[0],
-                                  kn.seg_slope[0], REFERENCE_TEMPERATURE_K, C, H)
+        kernel._capacity_enthalpy(T, capacities, C, H)
         np.testing.assert_allclose(C, caps.capacity(T), rtol=1e-13)
         np.testing.assert_allclose(H, caps.enthalpy(T), rtol=1e-12, atol=1e-9)
         np.testing.assert_allclose(batch._enthalpy(kn, 0, T), H, rtol=1e-12, atol=1e-9)
     # the lane kernel, eight lanes of different states
     Ts = rng.uniform(150.0, 1600.0, (net.n_nodes, 8))
-    lanes = lambda x: np.ascontiguousarray(np.repeat(x[..., None], 8, axis=-1))
-    href = np.empty(lanes(kn.seg_lo[0]).shape)
-    kernel_lanes._reference_ramps(lanes(kn.seg_lo[0]), lanes(kn.seg_hi[0]), REFERENCE_TEMPERATURE_K, href)
+    _, lane_capacities = kernel._configuration(lane_arrays(kn, inputs, 8), 0)
+    href = np.empty(lane_capacities.seg_lo.shape)
+    kernel_lanes._reference_ramps(lane_capacities, href)
     CL, HL = np.empty((net.n_nodes, 8)), np.empty((net.n_nodes, 8))
-    kernel_lanes._capacity_lanes(Ts, lanes(kn.mass[0]), lanes(kn.base[0]), kn.seg_start, lanes(kn.seg_lo[0]),
-                                 lanes(kn.seg_hi[0]), lanes(kn.seg_slope[0]), href, REFERENCE_TEMPERATURE_K,
-                                 CL, HL, True)
+    kernel_lanes._capacity_lanes(Ts, lane_capacities, href, CL, HL, True)
     np.testing.assert_allclose(CL.T, caps.capacity(Ts.T), rtol=1e-13)
     np.testing.assert_allclose(HL.T, caps.enthalpy(Ts.T), rtol=1e-12, atol=1e-9)
 

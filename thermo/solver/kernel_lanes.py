@@ -12,29 +12,34 @@ only flagged here (``lane_flag``): its numbers are not used, and the caller reru
 configuration alone with the one-configuration kernel, which has the dense-LU fallback and the
 exact failure report. The other lanes of its block are unaffected (lanes never mix).
 
-Array shapes (K blocks of LANES configurations): T0 (K, n, W); par (K, L, W); tix (K, n_conv, W);
-mass, base (K, n, W); seg_lo, seg_hi, seg_slope (K, S, W); src (K, n, n_signals, W); outputs final,
-peak (K, n, W), peak_step (K, n, W), lap_peaks (K, n_laps, n_out, W), link_energy (K, L, W),
-heat_in, lane_flag, counts (K, W), temps_out (K, n_rec, n, W), flows_out (K, n_rec, L, W).
-Shared arrays are those of ``thermo.solver.kernel`` (``ARGS_DOC``).
+Array shapes (K blocks of LANES configurations) in ``kernel.NetworkArrays``: T0 (K, n, W); par (K, L, W);
+tix, six (K, n_conv, W); mass, base (K, n, W); seg_lo, seg_hi, seg_slope (K, S, W); src (K, n, n_signals, W);
+tables flattened (C order); in ``LaneOutputs``: final, peak (K, n, W), peak_step (K, n, W), lap_peaks
+(K, n_laps, n_out, W), link_energy (K, L, W), heat_in, lane_flag, counts (K, W), temps (K, n_rec, n, W),
+flows (K, n_rec, L, W). Shared arrays are those of ``thermo.solver.kernel`` (``ARGS_DOC``).
 """
 from __future__ import annotations
 
 import math
+from collections import namedtuple
 
 import numpy as np
 from numba import njit, prange
 
-from thermo.solver.kernel import (D_WEIGHT, W_WEIGHT, _axis, bilinear, capacity_segment, conduction_flow,
-                                  convection_flow, radiation_flow, trilinear)
+from thermo.solver.kernel import (D_WEIGHT, W_WEIGHT, _axis, _configuration, bilinear, capacity_segment,
+                                  conduction_flow, convection_flow, radiation_flow, trilinear)
 
 LANES = 64       # widest block: measured fastest per configuration (16: 0.66, 32: 0.55, 64: 0.48 us a step)
 
+# what a block run writes (shapes in the module notes)
+LaneOutputs = namedtuple("LaneOutputs", ("temps", "flows", "final", "peak", "peak_step", "lap_peaks", "link_energy",
+                                         "heat_in", "lane_flag", "counts"))
+
 
 @njit(cache=True, error_model="numpy")
-def _flows_lanes(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
-                 sliced, slot_sliced, six, f, dfa, dfb, flag):
-    """Link flows and slopes (L, W) of every lane at T (n, W); flag[c] set where a lookup left its table.
+def _flows_lanes(T, bk, drv, links, f, dfa, dfb, flag):
+    """Link flows and slopes (L, W) of every lane at T (n, W) (``kernel.Links`` of one block); flag[c]
+    set where a lookup left its table.
 
     ``tables`` is the kernel's (U, n_driver, n_node, n_boundary) table array flattened (C order).
     A convection slot whose boundary temperature is constant over the run (``slot_sliced``) reads
@@ -42,6 +47,7 @@ def _flows_lanes(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, 
     boundary axis, the same arithmetic as the trilinear lookup's first step, so the result is
     identical and the lookup costs four loads, not eight (``six`` (n_conv, W) the slice of each
     lane; dG/dT_b is not formed: a boundary's slope never enters the stage matrix)."""
+    n, link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six = links
     W = T.shape[1]
     n_i = int(gp[2])
     n_j = int(gp[5])
@@ -111,8 +117,9 @@ def _flows_lanes(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, 
 
 
 @njit(cache=True, error_model="numpy")
-def _reference_ramps(seg_lo, seg_hi, t_ref, href):
+def _reference_ramps(capacities, href):
     """Each capacity segment's ramp at the reference temperature (S, W), constant over a run."""
+    seg_lo, seg_hi, t_ref = capacities.seg_lo, capacities.seg_hi, capacities.t_ref
     W = seg_lo.shape[1]
     for s in range(seg_lo.shape[0]):
         for c in range(W):
@@ -122,9 +129,10 @@ def _reference_ramps(seg_lo, seg_hi, t_ref, href):
 
 
 @njit(cache=True, error_model="numpy")
-def _capacity_lanes(T, mass, base, seg_start, seg_lo, seg_hi, seg_slope, href, t_ref, C, H, with_c):
-    """Enthalpy H [J] and, if ``with_c``, heat capacity C [J/K] (n, W) of every lane
-    (``kernel._capacity_enthalpy``; ``href`` from ``_reference_ramps``)."""
+def _capacity_lanes(T, capacities, href, C, H, with_c):
+    """Enthalpy H [J] and, if ``with_c``, heat capacity C [J/K] (n, W) of every lane (``kernel.Capacities``
+    of one block; as ``kernel._capacity_enthalpy``; ``href`` from ``_reference_ramps``)."""
+    mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref = capacities
     W = T.shape[1]
     for i in range(T.shape[0]):
         for c in range(W):
@@ -293,12 +301,13 @@ def _outputs_lanes(T, w_ptr, w_node, w_val, lp):
 
 
 @njit(cache=True, error_model="numpy")
-def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                   link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-                   mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                   n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                   peak_step, lap_peaks, link_energy, heat_in, lane_flag, counts):
+def _advance_block(blk, T0, inputs, net, n_laps, weights, record, out):
     """Block ``blk`` of LANES configurations over the grid ``n_laps`` times (linearised mode)."""
+    _, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full = inputs
+    temps_out, flows_out, final, peak, peak_step, lap_peaks, link_energy, heat_in, lane_flag, counts = out
+    w_ptr, w_node, w_val = weights
+    link_a, link_b, order, ptr, nbr = net.link_a, net.link_b, net.order, net.ptr, net.nbr
+    links, cap = _configuration(net, blk)
     n = T0.shape[1]
     W = T0.shape[2]
     L = link_a.size
@@ -327,19 +336,17 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
     q3 = np.zeros((n, W))
     lp = np.empty((max(n_out, 1), W))
     flag = lane_flag[blk]
-    pb, tb_ix, sb, sb_ix = par[blk], tix[blk], src[blk], six[blk]
-    mb, bb, lob, hib, slb = mass[blk], base[blk], seg_lo[blk], seg_hi[blk], seg_slope[blk]
+    sb = net.src[blk]
     pk, pks, le = peak[blk], peak_step[blk], link_energy[blk]
     e_in = np.zeros(W)
-    href = np.empty(lob.shape)
-    _reference_ramps(lob, hib, t_ref, href)
+    href = np.empty(cap.seg_lo.shape)
+    _reference_ramps(cap, href)
     pk[:, :] = T
     pks[:, :] = 0
     done = 0
     for lap in range(n_laps):
         last = lap == n_laps - 1
-        _flows_lanes(T, bk_grid[0], drv_grid[0], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                     tables, tb_ix, gp, sliced, slot_sliced, sb_ix, f1, dfa, dfb, flag)
+        _flows_lanes(T, bk_grid[0], drv_grid[0], links, f1, dfa, dfb, flag)
         rec = 0
         if last and record[0]:
             temps_out[blk, rec] = T
@@ -351,7 +358,7 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
             hn = h[step]
             coef = hn * D_WEIGHT
             hw = hn * W_WEIGHT
-            _capacity_lanes(T, mb, bb, seg_start, lob, hib, slb, href, t_ref, C, H0, True)
+            _capacity_lanes(T, cap, href, C, H0, True)
             _net_inflow_lanes(f1, n, link_a, link_b, r1)
             for i in range(n):
                 for c in range(W):
@@ -371,19 +378,17 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
                 for c in range(W):
                     tgt[i, c] = H0[i, c] + coef * r1[i, c] + q2[i, c]
                     Y[i, c] = T[i, c]
-            _flows_lanes(Y, bk_mid[step], drv_mid[step], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                         tables, tb_ix, gp, sliced, slot_sliced, sb_ix, f2, dfa, dfb, flag)
+            _flows_lanes(Y, bk_mid[step], drv_mid[step], links, f2, dfa, dfb, flag)
             _chord_lanes(Y, H0, tgt, coef, f2, dfa, dfb, R, A, pos, pinv, order, ptr, nbr, n, link_a, link_b)
             # stage 2 (BDF2) from Y = Y2
             _net_inflow_lanes(f2, n, link_a, link_b, r2)
             for i in range(n):
                 for c in range(W):
                     tgt[i, c] = H0[i, c] + hw * (r1[i, c] + r2[i, c]) + q3[i, c]
-            _flows_lanes(Y, bk_grid[step + 1], drv_grid[step + 1], n, link_a, link_b, kind, pb, conv_slot,
-                         conv_drv, tables, tb_ix, gp, sliced, slot_sliced, sb_ix, f3, dfa, dfb, flag)
-            _capacity_lanes(Y, mb, bb, seg_start, lob, hib, slb, href, t_ref, C, H, False)
+            _flows_lanes(Y, bk_grid[step + 1], drv_grid[step + 1], links, f3, dfa, dfb, flag)
+            _capacity_lanes(Y, cap, href, C, H, False)
             _chord_lanes(Y, H, tgt, coef, f3, dfa, dfb, R, A, pos, pinv, order, ptr, nbr, n, link_a, link_b)
-            _capacity_lanes(Y, mb, bb, seg_start, lob, hib, slb, href, t_ref, C, H, False)
+            _capacity_lanes(Y, cap, href, C, H, False)
             _chord_lanes(Y, H, tgt, coef, f3, dfa, dfb, R, A, pos, pinv, order, ptr, nbr, n, link_a, link_b)
             for l in range(L):
                 for c in range(W):
@@ -408,8 +413,7 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
                 lap_peaks[blk, lap, o, c] = lp[o, c]
         done += N
     # the accepted end state itself must lie on the tables (its flows are otherwise never looked up)
-    _flows_lanes(T, bk_grid[N], drv_grid[N], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                 tables, tb_ix, gp, sliced, slot_sliced, sb_ix, f3, dfa, dfb, flag)
+    _flows_lanes(T, bk_grid[N], drv_grid[N], links, f3, dfa, dfb, flag)
     final[blk] = T
     for c in range(W):
         heat_in[blk, c] = e_in[c]
@@ -417,15 +421,7 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
 
 
 @njit(cache=True, parallel=True, error_model="numpy")
-def advance_lanes(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                  link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-                  mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                  n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                  peak_step, lap_peaks, link_energy, heat_in, lane_flag, counts):
+def advance_lanes(T0, inputs, net, n_laps, weights, record, out):
     """All blocks, spread over the CPU cores (see the module notes for the shapes)."""
     for blk in prange(T0.shape[0]):
-        _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                       link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-                       mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                       n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                       peak_step, lap_peaks, link_energy, heat_in, lane_flag, counts)
+        _advance_block(blk, T0, inputs, net, n_laps, weights, record, out)
