@@ -364,14 +364,12 @@ def test_a_weak_pivot_lane_is_rerun_and_equals_its_own_run(lap, reruns):
     one = kb.subset([weak])
     f, dfa, dfb = (np.empty(kb.link_a.size) for _ in range(3))
     nax = inputs.drv_grid.shape[1] + inputs.bk_grid.shape[1]
-    sliced, slot_sliced, six = one.boundary_slices(inputs)
-    kernel._flows(T0[weak], inputs.bk_grid[0], inputs.drv_grid[0], kb.n_nodes, kb.link_a, kb.link_b, kb.kind,
-                  one.par[0], kb.conv_slot, kb.conv_drv, kb.tables, one.tix[0], kb.gp, sliced, slot_sliced, six[0],
-                  f, dfa, dfb, np.zeros(nax, dtype=np.int64), np.zeros(nax), np.zeros(nax, dtype=np.bool_))
+    links, capacities = kernel._configuration(one.arrays(inputs), 0)
+    kernel._flows(T0[weak], inputs.bk_grid[0], inputs.drv_grid[0], links, f, dfa, dfb,
+                  np.zeros(nax, dtype=np.int64), np.zeros(nax), np.zeros(nax, dtype=np.bool_))
     assert dfa[link] < 0.0
     C, H = np.empty(kb.n_nodes), np.empty(kb.n_nodes)
-    kernel._capacity_enthalpy(T0[weak], one.mass[0], one.base[0], kb.seg_start, one.seg_lo[0], one.seg_hi[0],
-                              one.seg_slope[0], batch.REFERENCE_TEMPERATURE_K, C, H)
+    kernel._capacity_enthalpy(T0[weak], capacities, C, H)
     A = np.empty((kb.n_nodes, kb.n_nodes))
     kernel._newton_matrix(A, C, inputs.h[0] * kernel.D_WEIGHT, kb.n_nodes, kb.link_a, kb.link_b, dfa, dfb)
     A_dense = A.copy()

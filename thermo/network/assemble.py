@@ -5,7 +5,8 @@ The node energy balance is
     C_i(T_i) dT_i/dt = q_i(t) + sum_l D_il f_l,    D_il = -1 at a link's first end, +1 at its second,
 
 with f_l the flow of link l, positive from its first end to its second [W]:
-conduction f = G (T_a - T_b), radiation f = c (T_a^4 - T_b^4), convection f = G(v, T_a, T_b) (T_a - T_b).
+conduction f = G (T_a - T_b), radiation f = c (T_a^4 - T_b^4), convection f = G(v, T_a, T_b) (T_a - T_b),
+each written once in ``thermo.network.laws`` (the compiled kernels use the same functions).
 Temperatures of the links' second ends are looked up in the extended vector [node T..., boundary T...].
 """
 from __future__ import annotations
@@ -18,6 +19,7 @@ import numpy as np
 from thermo.errors import ModelError
 from thermo.network.capacity import CapacityTable
 from thermo.network.elements import Conduction, Convection, Network, Radiation
+from thermo.network.laws import conduction_flow, convection_flow, radiation_flow
 from thermo.network.schedule import Schedule
 from thermo.network.tabulate import TabulatedConductance, lookup
 
@@ -167,6 +169,10 @@ class CompiledNetwork:
 
     def convection_conductances(self, T_nodes, boundary_k, driver_values) -> np.ndarray:
         """G [W/K] of each convection link (in ``conv_idx`` order), shape (..., n_convection)."""
+        return self._unscaled_conductances(T_nodes, boundary_k, driver_values) * self.conv_scale
+
+    def _unscaled_conductances(self, T_nodes, boundary_k, driver_values) -> np.ndarray:
+        """G [W/K] of each convection link before its multiplier ``conv_scale`` (checked as scaled)."""
         Ta, Tb = self._ends(T_nodes, boundary_k)
         drv = np.asarray(driver_values, dtype=float)
         if self.conv_tables is not None:
@@ -178,13 +184,26 @@ class CompiledNetwork:
             out = np.empty(Ta.shape[:-1] + (len(self._conv),))
             for k, (li, fn, di) in enumerate(self._conv):
                 out[..., k] = fn(None if di < 0 else drv[..., di], Ta[..., li], Tb[..., li])
-        out = out * self.conv_scale
-        ok = np.isfinite(out) & (out >= 0)
+        scaled = out * self.conv_scale
+        ok = np.isfinite(scaled) & (scaled >= 0)
         if not np.all(ok):
             bad = int(np.argmax(~ok.reshape(-1, len(self._conv)).all(axis=0)))
             raise ModelError(f"network: convection link '{self.link_names[self.conv_idx[bad]]}' returned a conductance "
                              "that is negative or not finite")
         return out
+
+    def _link_laws(self, Ta, Tb, g):
+        """Flows f and slopes df/dT_a, df/dT_b of every link (``thermo.network.laws``), convection
+        with its unscaled conductances ``g`` held constant in T (the scipy Jacobian's choice)."""
+        f = np.empty(Ta.shape)
+        dfa = np.empty(Ta.shape)
+        dfb = np.empty(Ta.shape)
+        c, r, v = self.cond_idx, self.rad_idx, self.conv_idx
+        f[..., c], dfa[..., c], dfb[..., c] = conduction_flow(self.cond_g, Ta[..., c], Tb[..., c])
+        f[..., r], dfa[..., r], dfb[..., r] = radiation_flow(self.rad_c, Ta[..., r], Tb[..., r])
+        if g is not None:
+            f[..., v], dfa[..., v], dfb[..., v] = convection_flow(self.conv_scale, g, 0.0, 0.0, Ta[..., v], Tb[..., v])
+        return f, dfa, dfb
 
     def flows(self, T_nodes, boundary_k, driver_values) -> np.ndarray:
         """Flow of every link, positive from its first end to its second [W].
@@ -196,28 +215,15 @@ class CompiledNetwork:
         driver_values : array_like (..., n_drivers)  Driver signals, in ``driver_names`` order [driver unit]
         """
         Ta, Tb = self._ends(T_nodes, boundary_k)
-        f = np.empty(Ta.shape)
-        c = self.cond_idx
-        f[..., c] = self.cond_g * (Ta[..., c] - Tb[..., c])
-        r = self.rad_idx
-        f[..., r] = self.rad_c * (Ta[..., r] ** 4 - Tb[..., r] ** 4)
-        if self._conv:
-            g = self.convection_conductances(T_nodes, boundary_k, driver_values)
-            v = self.conv_idx
-            f[..., v] = g * (Ta[..., v] - Tb[..., v])
-        return f
+        g = self._unscaled_conductances(T_nodes, boundary_k, driver_values) if self._conv else None
+        return self._link_laws(Ta, Tb, g)[0]
 
     def flows_and_jacobian(self, T_nodes, boundary_k, driver_values) -> tuple[np.ndarray, np.ndarray]:
         """``flows`` and ``flow_jacobian`` of one state (n_nodes,) together, convection evaluated once."""
         Ta, Tb = self._ends(T_nodes, boundary_k)
-        f = np.empty(self.n_links)
-        c, r, v = self.cond_idx, self.rad_idx, self.conv_idx
-        f[c] = self.cond_g * (Ta[c] - Tb[c])
-        f[r] = self.rad_c * (Ta[r] ** 4 - Tb[r] ** 4)
-        g = self.convection_conductances(T_nodes, boundary_k, driver_values) if self._conv else None
-        if g is not None:
-            f[v] = g * (Ta[v] - Tb[v])
-        return f, self._jacobian_from(Ta, Tb, g)
+        g = self._unscaled_conductances(T_nodes, boundary_k, driver_values) if self._conv else None
+        f, dfa, dfb = self._link_laws(Ta, Tb, g)
+        return f, self._jacobian_from(dfa, dfb)
 
     def flow_jacobian(self, T_nodes, boundary_k, driver_values) -> np.ndarray:
         """d(flow)/d(node temperature), shape (n_links, n_nodes) [W/K].
@@ -226,18 +232,11 @@ class CompiledNetwork:
         is left out of the Jacobian only (the flows themselves use it in full).
         """
         Ta, Tb = self._ends(T_nodes, boundary_k)
-        g = self.convection_conductances(T_nodes, boundary_k, driver_values) if self._conv else None
-        return self._jacobian_from(Ta, Tb, g)
+        g = self._unscaled_conductances(T_nodes, boundary_k, driver_values) if self._conv else None
+        _, dfa, dfb = self._link_laws(Ta, Tb, g)
+        return self._jacobian_from(dfa, dfb)
 
-    def _jacobian_from(self, Ta, Tb, g) -> np.ndarray:
-        dfa = np.empty(self.n_links)
-        dfa[self.cond_idx] = self.cond_g
-        dfa[self.rad_idx] = 4.0 * self.rad_c * Ta[self.rad_idx] ** 3
-        dfb = -dfa
-        dfb[self.rad_idx] = -4.0 * self.rad_c * Tb[self.rad_idx] ** 3
-        if g is not None:
-            dfa[self.conv_idx] = g
-            dfb[self.conv_idx] = -g
+    def _jacobian_from(self, dfa, dfb) -> np.ndarray:
         F = np.zeros((self.n_links, self.n_nodes))
         F[np.arange(self.n_links), self.link_a] = dfa
         F[self._to_node, self.link_b[self._to_node]] += dfb[self._to_node]

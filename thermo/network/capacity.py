@@ -5,13 +5,15 @@ Each node's specific heat is piecewise linear in T and constant beyond its table
 
     C_i(T) = m_i [c_i0 + sum_j s_j (clip(T, lo_j, hi_j) - lo_j)],
 
-every node is evaluated by one numpy expression, with no loop over nodes.
+every node is evaluated by one numpy expression, with no loop over nodes. The segment's ramp and
+its integral are ``thermo.network.laws.capacity_segment``, the function the compiled kernels use.
 """
 from __future__ import annotations
 
 import numpy as np
 
 from thermo.network.elements import REFERENCE_TEMPERATURE_K
+from thermo.network.laws import capacity_segment
 
 
 class CapacityTable:
@@ -53,8 +55,7 @@ class CapacityTable:
             return np.broadcast_to(self.mass_kg * self.base_j_kgk, T.shape).copy()
         c = np.broadcast_to(self.base_j_kgk, T.shape).copy()
         if self.seg_node.size:
-            ramps = self.seg_slope * (np.clip(T[..., self.seg_node], self.seg_lo, self.seg_hi) - self.seg_lo)
-            self._accumulate(c, ramps)
+            self._accumulate(c, self.seg_slope * capacity_segment(T[..., self.seg_node], self.seg_lo, self.seg_hi)[0])
         return self.mass_kg * c
 
     def capacity_slope(self, temperature_k: np.ndarray) -> np.ndarray:
@@ -78,8 +79,7 @@ class CapacityTable:
 
     def _ramp_integral(self, x):
         """Integral of (clip(s, lo, hi) - lo) ds from below lo up to x, per segment [K^2]."""
-        xc = np.clip(x, self.seg_lo, self.seg_hi)
-        return 0.5 * (xc - self.seg_lo) ** 2 + (self.seg_hi - self.seg_lo) * np.maximum(x - self.seg_hi, 0.0)
+        return capacity_segment(x, self.seg_lo, self.seg_hi)[1]
 
     def _accumulate(self, out: np.ndarray, per_segment: np.ndarray) -> None:
         out += per_segment @ self._segment_to_node

@@ -16,6 +16,7 @@ from typing import Callable
 import numpy as np
 
 from thermo.errors import ModelError
+from thermo.network.laws import trilinear
 
 
 @dataclass(frozen=True)
@@ -96,11 +97,8 @@ def lookup(grid: ConductanceGrid, tables: np.ndarray, driver, node_k, boundary_k
     j, fj, ok_j = _fractional_index(tn, grid.node_min_k, grid.node_step_k, nn)
     k, fk, ok_k = _fractional_index(tb, grid.boundary_min_k, grid.boundary_step_k, nb)
     link = np.broadcast_to(np.arange(tables.shape[0]), shape)
-    out = np.zeros(shape)
-    for di, wi in ((0, 1 - fi), (1, fi)):
-        for dj, wj in ((0, 1 - fj), (1, fj)):
-            for dk, wk in ((0, 1 - fk), (1, fk)):
-                out += wi * wj * wk * tables[link, i + di, j + dj, k + dk]
+    corners = [tables[link, i + di, j + dj, k + dk] for di in (0, 1) for dj in (0, 1) for dk in (0, 1)]
+    out = trilinear(*corners, fi, fj, fk)[0]           # the kernels' interpolation (thermo.network.laws)
     outside = ~(ok_i & ok_j & ok_k)
     if np.any(outside):
         if not functions:

@@ -30,6 +30,7 @@ import numpy as np
 from thermo.errors import ModelError, SolveError
 from thermo.network.assemble import CompiledNetwork, compile_network
 from thermo.network.elements import REFERENCE_TEMPERATURE_K
+from thermo.network.laws import capacity_segment
 from thermo.network.schedule import Schedule
 from thermo.network.tabulate import TabulatedConductance
 from thermo.solver import kernel, kernel_lanes, kernel_linearised
@@ -38,34 +39,8 @@ from thermo.solver.segments import output_grid, span, time_grid
 from thermo.solver.settings import SolverSettings
 
 
-@dataclass(frozen=True, eq=False)
-class KernelInputs:
-    """A schedule's signals on one time grid: samples at grid and stage times, source integrals [J]."""
-
-    grid: np.ndarray        # (N+1,) [s]
-    h: np.ndarray           # (N,) [s]
-    bk_grid: np.ndarray     # (N+1, n_boundaries) [K]
-    drv_grid: np.ndarray    # (N+1, n_drivers)
-    bk_mid: np.ndarray      # (N, n_boundaries) at t_n + gamma h [K]
-    drv_mid: np.ndarray
-    qs_mid: np.ndarray      # (N, n_signals) integral of each source signal over [t_n, t_n + gamma h] [J]
-    qs_full: np.ndarray     # (N, n_signals) over [t_n, t_n+1] [J]
-
-
-@dataclass(frozen=True, eq=False)
-class KernelResult:
-    """Raw kernel output for B configurations (see ``kernel.advance``)."""
-
-    temps: np.ndarray
-    flows: np.ndarray
-    final: np.ndarray
-    peak: np.ndarray
-    peak_step: np.ndarray
-    link_energy: np.ndarray
-    heat_in: np.ndarray
-    status: np.ndarray
-    fail_step: np.ndarray
-    counts: np.ndarray
+KernelInputs = kernel.KernelInputs      # a schedule's signals on one time grid (defined beside the kernels)
+KernelResult = kernel.KernelResult      # raw kernel output for B configurations
 
 
 @dataclass(frozen=True, eq=False)
@@ -110,17 +85,25 @@ class KernelNetwork:
     def n_nodes(self) -> int:
         return self.mass.shape[1]
 
-    def _arrays(self, inputs: KernelInputs):
-        """The network arguments of the one-configuration kernels, for a run on ``inputs``."""
-        return (self.src, self.link_a, self.link_b, self.kind, self.par, self.conv_slot, self.conv_drv,
-                self.tables, self.tix, self.gp, *self.boundary_slices(inputs), self.mass, self.base,
-                self.seg_start, self.seg_lo, self.seg_hi, self.seg_slope, REFERENCE_TEMPERATURE_K,
-                self.plan.order, self.plan.ptr, self.plan.nbr)
+    def arrays(self, inputs: KernelInputs, lanes=None) -> kernel.NetworkArrays:
+        """The arrays the kernels read, for a run on ``inputs``; ``lanes`` (a function (B, ...) ->
+        (K, ..., W)) lays the per-configuration rows out in blocks for the lane kernel."""
+        sliced, slot_sliced, six = self.boundary_slices(inputs)
+        rows = (lambda x: x) if lanes is None else lanes
+        return kernel.NetworkArrays(
+            link_a=self.link_a, link_b=self.link_b, kind=self.kind, par=rows(self.par), conv_slot=self.conv_slot,
+            conv_drv=self.conv_drv, tables=self.tables if lanes is None else self.tables.reshape(-1),
+            tix=rows(self.tix), gp=self.gp, sliced=sliced, slot_sliced=slot_sliced, six=rows(six),
+            mass=rows(self.mass), base=rows(self.base), seg_start=self.seg_start, seg_lo=rows(self.seg_lo),
+            seg_hi=rows(self.seg_hi), seg_slope=rows(self.seg_slope), t_ref=REFERENCE_TEMPERATURE_K,
+            src=rows(self.src), order=self.plan.order, ptr=self.plan.ptr, nbr=self.plan.nbr)
 
-    def _outputs(self, B, n_rec):
+    def _result(self, B, n_rec) -> KernelResult:
         n, L = self.n_nodes, self.link_a.size
-        return (np.empty((B, n_rec, n)), np.empty((B, n_rec, L)), np.empty((B, n)), np.empty((B, n)),
-                np.zeros((B, n), dtype=np.int64))
+        return KernelResult(np.empty((B, n_rec, n)), np.empty((B, n_rec, L)), np.empty((B, n)), np.empty((B, n)),
+                            np.zeros((B, n), dtype=np.int64), link_energy=np.zeros((B, L)), heat_in=np.zeros(B),
+                            status=np.zeros(B, dtype=np.int64), fail_step=np.zeros(B, dtype=np.int64),
+                            counts=np.zeros((B, 2), dtype=np.int64))
 
     def run(self, inputs: KernelInputs, initial_k: np.ndarray, rtol: float, atol_k: float,
             record: np.ndarray, linearised: bool = False) -> KernelResult:
@@ -129,17 +112,11 @@ class KernelNetwork:
         (``thermo.solver.kernel_linearised``: no iteration, so the tolerances do not apply)."""
         if linearised:
             return self.run_laps(inputs, initial_k, 1, None, record)[0]
-        B, L = self.size, self.link_a.size
-        n_rec = int(np.count_nonzero(record))
-        temps, flows, final, peak, peak_step = self._outputs(B, n_rec)
-        out = KernelResult(temps, flows, final, peak, peak_step, link_energy=np.zeros((B, L)),
-                           heat_in=np.zeros(B), status=np.zeros(B, dtype=np.int64),
-                           fail_step=np.zeros(B, dtype=np.int64), counts=np.zeros((B, 2), dtype=np.int64))
+        B = self.size
+        out = self._result(B, int(np.count_nonzero(record)))
         fn = kernel.advance_parallel if B > 1 else kernel.advance
-        fn(np.ascontiguousarray(initial_k, dtype=float), *_signal_arrays(inputs), *self._arrays(inputs),
-           float(rtol), float(atol_k), kernel.MAX_NEWTON, np.ascontiguousarray(record, dtype=np.bool_),
-           out.temps, out.flows, out.final, out.peak, out.peak_step, out.link_energy, out.heat_in,
-           out.status, out.fail_step, out.counts)
+        fn(np.ascontiguousarray(initial_k, dtype=float), inputs, self.arrays(inputs), float(rtol), float(atol_k),
+           kernel.MAX_NEWTON, np.ascontiguousarray(record, dtype=np.bool_), out)
         return out
 
     def run_laps(self, inputs: KernelInputs, initial_k: np.ndarray, n_laps: int, output_weights,
@@ -160,16 +137,11 @@ class KernelNetwork:
 
     def _run_each(self, inputs, T0, n_laps, weights, record) -> tuple:
         """``run_laps`` one configuration at a time (in parallel over the cores for B > 1)."""
-        B, L = self.size, self.link_a.size
+        B = self.size
         lap_peaks = np.full((B, n_laps, weights[0].size - 1), np.nan)       # laps never driven stay NaN
-        temps, flows, final, peak, peak_step = self._outputs(B, int(np.count_nonzero(record)))
-        out = KernelResult(temps, flows, final, peak, peak_step, link_energy=np.zeros((B, L)),
-                           heat_in=np.zeros(B), status=np.zeros(B, dtype=np.int64),
-                           fail_step=np.zeros(B, dtype=np.int64), counts=np.zeros((B, 2), dtype=np.int64))
+        out = self._result(B, int(np.count_nonzero(record)))
         fn = kernel_linearised.advance_linearised_parallel if B > 1 else kernel_linearised.advance_linearised
-        fn(T0, *_signal_arrays(inputs), *self._arrays(inputs), n_laps, *weights,
-           record, out.temps, out.flows, out.final, out.peak, out.peak_step, lap_peaks,
-           out.link_energy, out.heat_in, out.status, out.fail_step, out.counts)
+        fn(T0, inputs, self.arrays(inputs), n_laps, weights, record, out, lap_peaks)
         return out, lap_peaks
 
     def _run_lanes(self, inputs, T0, n_laps, weights, record, width=None) -> tuple:
@@ -180,19 +152,13 @@ class KernelNetwork:
         K = -(-B // Wd)
         lanes = lambda x: _to_lanes(x, K, Wd)
         n_rec, n_out, N = int(np.count_nonzero(record)), weights[0].size - 1, inputs.h.size
-        temps, flows = np.empty((K, n_rec, n, Wd)), np.empty((K, n_rec, L, Wd))
-        final, peak, peak_step = np.empty((K, n, Wd)), np.empty((K, n, Wd)), np.zeros((K, n, Wd), dtype=np.int64)
-        lap_peaks, link_energy = np.empty((K, n_laps, n_out, Wd)), np.zeros((K, L, Wd))
-        heat_in, flag, steps = np.zeros((K, Wd)), np.zeros((K, Wd), dtype=np.bool_), np.zeros((K, Wd), dtype=np.int64)
-        sliced, slot_sliced, six = self.boundary_slices(inputs)
-        kernel_lanes.advance_lanes(
-            lanes(T0), *_signal_arrays(inputs), lanes(self.src), self.link_a, self.link_b,
-            self.kind, lanes(self.par), self.conv_slot, self.conv_drv, self.tables.reshape(-1), lanes(self.tix), self.gp,
-            sliced, slot_sliced, lanes(six),
-            lanes(self.mass), lanes(self.base), self.seg_start, lanes(self.seg_lo), lanes(self.seg_hi),
-            lanes(self.seg_slope), REFERENCE_TEMPERATURE_K, self.plan.order, self.plan.ptr, self.plan.nbr,
-            n_laps, *weights, record, temps, flows, final, peak, peak_step, lap_peaks, link_energy, heat_in,
-            flag, steps)
+        lane_out = kernel_lanes.LaneOutputs(
+            temps=np.empty((K, n_rec, n, Wd)), flows=np.empty((K, n_rec, L, Wd)), final=np.empty((K, n, Wd)),
+            peak=np.empty((K, n, Wd)), peak_step=np.zeros((K, n, Wd), dtype=np.int64),
+            lap_peaks=np.empty((K, n_laps, n_out, Wd)), link_energy=np.zeros((K, L, Wd)), heat_in=np.zeros((K, Wd)),
+            lane_flag=np.zeros((K, Wd), dtype=np.bool_), counts=np.zeros((K, Wd), dtype=np.int64))
+        kernel_lanes.advance_lanes(lanes(T0), inputs, self.arrays(inputs, lanes), n_laps, weights, record, lane_out)
+        temps, flows, final, peak, peak_step, lap_peaks, link_energy, heat_in, flag, _ = lane_out
         back = lambda y: _from_lanes(y, B)
         out = KernelResult(back(temps), back(flows), back(final), back(peak), back(peak_step), back(link_energy),
                            back(heat_in), np.zeros(B, dtype=np.int64), np.full(B, n_laps * N, dtype=np.int64),
@@ -288,11 +254,6 @@ def _from_lanes(y: np.ndarray, count: int) -> np.ndarray:
     """(blocks, ..., width) -> (count, ...), the inverse of ``_to_lanes``."""
     y = np.moveaxis(y, -1, 1)
     return np.ascontiguousarray(y.reshape(y.shape[0] * y.shape[1], *y.shape[2:])[:count])
-
-
-def _signal_arrays(inputs: KernelInputs) -> tuple:
-    return (inputs.h, inputs.bk_grid, inputs.drv_grid, inputs.bk_mid, inputs.drv_mid, inputs.qs_mid,
-            inputs.qs_full)
 
 
 def _sparse_weights(weights):
@@ -567,14 +528,11 @@ def solve_batch(networks, schedule: Schedule, initial_k, settings: SolverSetting
 
 
 def _enthalpy(kn: KernelNetwork, b: int, T: np.ndarray) -> np.ndarray:
-    """Enthalpy of configuration b's nodes relative to 20 degC [J] (CapacityTable's formula)."""
+    """Enthalpy of configuration b's nodes relative to 20 degC [J] (``thermo.network.laws``)."""
     h = kn.base[b] * (T - REFERENCE_TEMPERATURE_K)
     seg_node = kn.compiled.capacities.seg_node
     if seg_node.size:
         lo, hi, s = kn.seg_lo[b], kn.seg_hi[b], kn.seg_slope[b]
-
-        def ramp(x):
-            xc = np.clip(x, lo, hi)
-            return 0.5 * (xc - lo) ** 2 + (hi - lo) * np.maximum(x - hi, 0.0)
-        h = h + np.bincount(seg_node, s * (ramp(T[seg_node]) - ramp(REFERENCE_TEMPERATURE_K)), minlength=T.size)
+        ramp = capacity_segment(T[seg_node], lo, hi)[1] - capacity_segment(REFERENCE_TEMPERATURE_K, lo, hi)[1]
+        h = h + np.bincount(seg_node, s * ramp, minlength=T.size)
     return kn.mass[b] * h

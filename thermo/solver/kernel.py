@@ -47,9 +47,14 @@ M. E. Hosea, L. F. Shampine, "Analysis and implementation of TR-BDF2", Appl. Num
 from __future__ import annotations
 
 import math
+import types
+from collections import namedtuple
+from typing import NamedTuple
 
 import numpy as np
 from numba import njit, prange
+
+from thermo.network import laws
 
 GAMMA = 2.0 - math.sqrt(2.0)
 D_WEIGHT = GAMMA / 2.0
@@ -60,6 +65,67 @@ NEWTON_TOLERANCE = 0.1   # accept when every correction is below this share of a
 
 KIND_CONDUCTION, KIND_RADIATION, KIND_CONVECTION = 0, 1, 2
 STATUS_OK, STATUS_NEWTON, STATUS_OUTSIDE_GRID, STATUS_NONFINITE = 0, 1, 2, 3
+
+
+# The kernels' arguments, grouped (numba reads a namedtuple of arrays as a struct; measured no slower
+# than the arrays passed one by one, see DEVELOPERS.md "Speed work"). Shapes in ``ARGS_DOC``.
+class KernelInputs(NamedTuple):
+    """A schedule's signals on one time grid: samples at grid and stage times, source integrals [J]."""
+
+    grid: np.ndarray        # (N+1,) [s]
+    h: np.ndarray           # (N,) [s]
+    bk_grid: np.ndarray     # (N+1, n_boundaries) [K]
+    drv_grid: np.ndarray    # (N+1, n_drivers)
+    bk_mid: np.ndarray      # (N, n_boundaries) at t_n + gamma h [K]
+    drv_mid: np.ndarray
+    qs_mid: np.ndarray      # (N, n_signals) integral of each source signal over [t_n, t_n + gamma h] [J]
+    qs_full: np.ndarray     # (N, n_signals) over [t_n, t_n+1] [J]
+
+
+class KernelResult(NamedTuple):
+    """What the one-configuration kernels write for B configurations (allocated by the caller)."""
+
+    temps: np.ndarray       # (B, n_rec, n) [K] at the recorded grid points
+    flows: np.ndarray       # (B, n_rec, L) [W]
+    final: np.ndarray       # (B, n) [K]
+    peak: np.ndarray        # (B, n) [K]
+    peak_step: np.ndarray   # (B, n) grid index of each peak
+    link_energy: np.ndarray  # (B, L) [J]
+    heat_in: np.ndarray     # (B,) [J]
+    status: np.ndarray      # (B,) STATUS_*
+    fail_step: np.ndarray   # (B,)
+    counts: np.ndarray      # (B, 2) flow and matrix evaluations
+
+
+# a batch of configurations as the kernels read it (``thermo.solver.batch.KernelNetwork.arrays``): shared
+# arrays, and per-configuration rows (B, ...) (the lane kernel: blocks (K, ..., W), tables flattened)
+NetworkArrays = namedtuple("NetworkArrays", (
+    "link_a", "link_b", "kind", "par", "conv_slot", "conv_drv", "tables", "tix", "gp", "sliced", "slot_sliced",
+    "six", "mass", "base", "seg_start", "seg_lo", "seg_hi", "seg_slope", "t_ref", "src", "order", "ptr", "nbr"))
+# one configuration's (or one lane block's) rows: what ``_flows`` and ``_capacity_enthalpy`` read
+Links = namedtuple("Links", ("n", "link_a", "link_b", "kind", "par", "conv_slot", "conv_drv", "tables", "tix", "gp",
+                             "sliced", "slot_sliced", "six"))
+Capacities = namedtuple("Capacities", ("mass", "base", "seg_start", "seg_lo", "seg_hi", "seg_slope", "t_ref"))
+
+
+def _compile_laws(names):
+    """The network's laws (``thermo.network.laws``) compiled: the very functions the numpy assembler
+    calls, each given a namespace in which the laws it calls are compiled too.
+
+    On scalars numpy's ``maximum``/``minimum`` are taken as Python's ``max``/``min``: equal for every
+    number (they differ only in how a NaN propagates, and a NaN state fails the step either way);
+    numpy's NaN handling measured 5-10 % of a kernel step (demo corner, one core). The laws'
+    machine code is cached with ``laws.py``: after changing this namespace, delete the cache files
+    (see the notes of ``thermo.network.laws``)."""
+    namespace = dict(vars(laws), maximum=max, minimum=min)
+    for name in names:
+        fn = getattr(laws, name)
+        namespace[name] = njit(cache=True, error_model="numpy")(types.FunctionType(fn.__code__, namespace, name))
+    return [namespace[name] for name in names]
+
+
+(conduction_flow, radiation_flow, convection_flow, bilinear, trilinear, capacity_segment) = _compile_laws(
+    ("conduction_flow", "radiation_flow", "convection_flow", "bilinear", "trilinear", "capacity_segment"))
 
 
 @njit(cache=True, error_model="numpy")
@@ -83,30 +149,16 @@ def _axis(value, lo, inv_step, n):
 @njit(cache=True, error_model="numpy")
 def _trilinear(tables, t, inv_j, inv_k, i, fi, j, fj, k, fk):
     """G [W/K] of table t in cell (i, j, k) at fractions (fi, fj, fk), and dG/dT_a, dG/dT_b [W/K^2]."""
-    a000 = tables[t, i, j, k]
-    a001 = tables[t, i, j, k + 1]
-    a010 = tables[t, i, j + 1, k]
-    a011 = tables[t, i, j + 1, k + 1]
-    a100 = tables[t, i + 1, j, k]
-    a101 = tables[t, i + 1, j, k + 1]
-    a110 = tables[t, i + 1, j + 1, k]
-    a111 = tables[t, i + 1, j + 1, k + 1]
-    c00 = a000 + fk * (a001 - a000)
-    c01 = a010 + fk * (a011 - a010)
-    c10 = a100 + fk * (a101 - a100)
-    c11 = a110 + fk * (a111 - a110)
-    gi = 1.0 - fi
-    gj = 1.0 - fj
-    g = gi * (gj * c00 + fj * c01) + fi * (gj * c10 + fj * c11)
-    dj = gi * (c01 - c00) + fi * (c11 - c10)
-    dk = gi * (gj * (a001 - a000) + fj * (a011 - a010)) + fi * (gj * (a101 - a100) + fj * (a111 - a110))
+    g, dj, dk = trilinear(tables[t, i, j, k], tables[t, i, j, k + 1], tables[t, i, j + 1, k],
+                          tables[t, i, j + 1, k + 1], tables[t, i + 1, j, k], tables[t, i + 1, j, k + 1],
+                          tables[t, i + 1, j + 1, k], tables[t, i + 1, j + 1, k + 1], fi, fj, fk)
     return g, dj * inv_j, dk * inv_k
 
 
 @njit(cache=True, error_model="numpy")
-def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-           f, dfa, dfb, ax_i, ax_f, ax_ok):
-    """Link flows f [W] and their slopes at both ends [W/K]; False if a lookup left the grid.
+def _flows(T, bk, drv, links, f, dfa, dfb, ax_i, ax_f, ax_ok):
+    """Link flows f [W] and their slopes at both ends [W/K] of one configuration (``Links``); False if
+    a lookup left the grid.
 
     The table axis of each driver and of each boundary temperature is located once per call
     (scratch ``ax_i``, ``ax_f``, ``ax_ok`` of length n_drivers + n_boundaries), not once per link.
@@ -114,6 +166,7 @@ def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables
     already interpolated along the boundary axis (``sliced`` (P, n_driver, n_node) flattened,
     ``six`` the slice of each slot; see ``KernelNetwork.boundary_slices``): the same arithmetic,
     four loads instead of eight, and no dG/dT_b (a boundary's slope never enters the matrix)."""
+    n, link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six = links
     ok = True
     nd = drv.size
     inv_i, inv_j, inv_k = 1.0 / gp[1], 1.0 / gp[4], 1.0 / gp[7]
@@ -128,17 +181,9 @@ def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables
         tb = T[b] if b < n else bk[b - n]
         kd = kind[l]
         if kd == 0:
-            g = par[l]
-            f[l] = g * (ta - tb)
-            dfa[l] = g
-            dfb[l] = -g
+            f[l], dfa[l], dfb[l] = conduction_flow(par[l], ta, tb)
         elif kd == 1:
-            c = par[l]
-            ta2 = ta * ta
-            tb2 = tb * tb
-            f[l] = c * (ta2 * ta2 - tb2 * tb2)
-            dfa[l] = 4.0 * c * ta2 * ta
-            dfb[l] = -4.0 * c * tb2 * tb
+            f[l], dfa[l], dfb[l] = radiation_flow(par[l], ta, tb)
         else:
             s = conv_slot[l]
             dd = conv_drv[s]
@@ -152,17 +197,8 @@ def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables
                     ok = False
                 n_j = int(gp[5])
                 o = (six[s] * int(gp[2]) + i) * n_j + j
-                c00 = sliced[o]
-                c01 = sliced[o + 1]
-                c10 = sliced[o + n_j]
-                c11 = sliced[o + n_j + 1]
-                gj = 1.0 - fj
-                g = (1.0 - fi) * (gj * c00 + fj * c01) + fi * (gj * c10 + fj * c11)
-                ga = ((1.0 - fi) * (c01 - c00) + fi * (c11 - c10)) * inv_j
-                m = par[l]
-                f[l] = m * g * (ta - tb)
-                dfa[l] = m * (g + ga * (ta - tb))
-                dfb[l] = -m * g
+                g, ga = bilinear(sliced[o], sliced[o + 1], sliced[o + n_j], sliced[o + n_j + 1], fi, fj)
+                f[l], dfa[l], dfb[l] = convection_flow(par[l], g, ga * inv_j, 0.0, ta, tb)
                 continue
             if b >= n:
                 k, fk, okk = ax_i[nd + b - n], ax_f[nd + b - n], ax_ok[nd + b - n]
@@ -171,28 +207,22 @@ def _flows(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables
             if not (oki and okj and okk):
                 ok = False
             g, ga, gb = _trilinear(tables, tix[s], inv_j, inv_k, i, fi, j, fj, k, fk)
-            m = par[l]
-            f[l] = m * g * (ta - tb)
-            dfa[l] = m * (g + ga * (ta - tb))
-            dfb[l] = m * (-g + gb * (ta - tb))
+            f[l], dfa[l], dfb[l] = convection_flow(par[l], g, ga, gb, ta, tb)
     return ok
 
 
 @njit(cache=True, error_model="numpy")
-def _capacity_enthalpy(T, mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, C, H):
-    """Heat capacity C [J/K] and enthalpy H relative to t_ref [J] of every node (CapacityTable's forms)."""
+def _capacity_enthalpy(T, capacities, C, H):
+    """Heat capacity C [J/K] and enthalpy H relative to t_ref [J] of every node (``Capacities`` of one
+    configuration; ``thermo.network.laws.capacity_segment``, as CapacityTable)."""
+    mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref = capacities
     for i in range(T.size):
         c = base[i]
         h = base[i] * (T[i] - t_ref)
         for s in range(seg_start[i], seg_start[i + 1]):
-            lo = seg_lo[s]
-            hi = seg_hi[s]
-            x = min(max(T[i], lo), hi)
-            c += seg_slope[s] * (x - lo)
-            xr = min(max(t_ref, lo), hi)
-            ramp = 0.5 * (x - lo) * (x - lo) + (hi - lo) * max(T[i] - hi, 0.0)      # no pow() call
-            ramp_ref = 0.5 * (xr - lo) * (xr - lo) + (hi - lo) * max(t_ref - hi, 0.0)
-            h += seg_slope[s] * (ramp - ramp_ref)
+            x, ramp = capacity_segment(T[i], seg_lo[s], seg_hi[s])
+            c += seg_slope[s] * x
+            h += seg_slope[s] * (ramp - capacity_segment(t_ref, seg_lo[s], seg_hi[s])[1])
         C[i] = mass[i] * c
         H[i] = mass[i] * h
 
@@ -353,24 +383,35 @@ def _net_inflow(f, n, link_a, link_b, r):
             r[b] += f[l]
 
 
-ARGS_DOC = """Shapes: T0 (B, n); h (N,); bk_grid (N+1, nb); drv_grid (N+1, nd); bk_mid (N, nb); drv_mid (N, nd);
-    qs_mid, qs_full (N, n_signals) source-signal integrals [J]; src (B, n, n_signals); par (B, L);
-    tix (B, n_conv) index into tables (U, n_driver, n_node, n_boundary); sliced, slot_sliced (n_conv,),
-    six (B, n_conv) the tables pre-interpolated along constant boundary temperatures (``_flows``);
-    mass, base (B, n);
-    seg_lo, seg_hi, seg_slope (B, S); order, ptr, nbr the elimination plan
-    (``thermo.solver.elimination``); max_newton: iterations per stage; record (N+1,) bool: grid
-    points written to temps_out (B, n_rec, n) and flows_out (B, n_rec, L); final, peak (B, n);
-    peak_step (B, n) grid index of each peak; link_energy (B, L); heat_in, status, fail_step (B,);
-    counts (B, 2) flow and matrix evaluations. The linearised entry points add n_laps (the grid is
-    driven that many times, carrying the state; record applies to the last lap, peak_step counts
-    steps over all laps, as does fail_step), w_ptr (n_out+1,), w_node, w_val (sparse output weights: output o is
-    sum of w_val[j] T[w_node[j]] for j in w_ptr[o]:w_ptr[o+1]) and lap_peaks (B, n_laps, n_out)."""
+ARGS_DOC = """Shapes: T0 (B, n); ``KernelInputs``: h (N,); bk_grid (N+1, nb);
+    drv_grid (N+1, nd); bk_mid (N, nb); drv_mid (N, nd); qs_mid, qs_full (N, n_signals) source-signal integrals [J].
+    ``NetworkArrays``: src (B, n, n_signals); par (B, L); tix (B, n_conv) index into tables (U, n_driver,
+    n_node, n_boundary); sliced, slot_sliced (n_conv,), six (B, n_conv) the tables pre-interpolated along
+    constant boundary temperatures (``_flows``); mass, base (B, n); seg_lo, seg_hi, seg_slope (B, S);
+    order, ptr, nbr the elimination plan (``thermo.solver.elimination``). max_newton: iterations per stage;
+    record (N+1,) bool: grid points written to ``KernelResult``: temps (B, n_rec, n) and flows (B, n_rec, L);
+    final, peak (B, n); peak_step (B, n) grid index of each peak; link_energy (B, L); heat_in, status,
+    fail_step (B,); counts (B, 2) flow and matrix evaluations. The linearised entry points add n_laps (the
+    grid is driven that many times, carrying the state; record applies to the last lap, peak_step counts
+    steps over all laps, as does fail_step), weights = (w_ptr (n_out+1,), w_node, w_val) (sparse output
+    weights: output o is sum of w_val[j] T[w_node[j]] for j in w_ptr[o]:w_ptr[o+1]) and lap_peaks
+    (B, n_laps, n_out)."""
 
 
 @njit(cache=True, error_model="numpy")
-def _sources(b, step, src, qs_mid, qs_full, q2, q3):
-    """Heat into each node over the first stage and the whole step [J]; returns the step's total."""
+def _configuration(net, b):
+    """``Links`` and ``Capacities`` of configuration (or lane block) b of ``NetworkArrays``."""
+    links = Links(net.mass.shape[1], net.link_a, net.link_b, net.kind, net.par[b], net.conv_slot, net.conv_drv,
+                  net.tables, net.tix[b], net.gp, net.sliced, net.slot_sliced, net.six[b])
+    capacities = Capacities(net.mass[b], net.base[b], net.seg_start, net.seg_lo[b], net.seg_hi[b], net.seg_slope[b],
+                            net.t_ref)
+    return links, capacities
+
+
+@njit(cache=True, error_model="numpy")
+def _sources(src, step, qs_mid, qs_full, q2, q3):
+    """Heat into each node over the first stage and the whole step [J] (``src`` (n, n_signals) of one
+    configuration); returns the step's total."""
     n = q2.size
     n_sig = qs_full.shape[1]
     total = 0.0
@@ -378,8 +419,8 @@ def _sources(b, step, src, qs_mid, qs_full, q2, q3):
         s2 = 0.0
         s3 = 0.0
         for k in range(n_sig):
-            s2 += src[b, i, k] * qs_mid[step, k]
-            s3 += src[b, i, k] * qs_full[step, k]
+            s2 += src[i, k] * qs_mid[step, k]
+            s3 += src[i, k] * qs_full[step, k]
         q2[i] = s2
         q3[i] = s3
         total += s3
@@ -407,27 +448,23 @@ def _scratch(n, L, n_axes):
 
 
 @njit(cache=True, error_model="numpy")
-def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                 link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-                 mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                 rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
-                 link_energy, heat_in, status, fail_step, counts):
+def _advance_one(b, T0, inputs, net, rtol, atol, max_newton, record, out):
     """Configuration b over the whole grid, full Newton on each stage."""
+    _, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full = inputs
+    temps_out, flows_out, final, peak, peak_step, link_energy, heat_in, status, fail_step, counts = out
+    link_a, link_b, order, ptr, nbr = net.link_a, net.link_b, net.order, net.ptr, net.nbr
+    links, cap = _configuration(net, b)
+    src = net.src[b]
     n = T0.shape[1]
     L = link_a.size
     N = h.size
     T = T0[b].copy()
     (Y, C, H, H0, R, r1, r2, tgt, A, piv, f1, f2, f3, dfa, dfb, q2, q3,
      ax_i, ax_f, ax_ok) = _scratch(n, L, drv_grid.shape[1] + bk_grid.shape[1])
-    pb = par[b]
-    tb_ix = tix[b]
-    sx = six[b]
-    mb, bb, lob, hib, slb = mass[b], base[b], seg_lo[b], seg_hi[b], seg_slope[b]
     nf = 1
     nj = 0
     st = STATUS_OK
-    if not _flows(T, bk_grid[0], drv_grid[0], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                  tables, tb_ix, gp, sliced, slot_sliced, sx, f1, dfa, dfb, ax_i, ax_f, ax_ok):
+    if not _flows(T, bk_grid[0], drv_grid[0], links, f1, dfa, dfb, ax_i, ax_f, ax_ok):
         st = STATUS_OUTSIDE_GRID
     rec = 0
     if record[0]:
@@ -442,9 +479,9 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
     while step < N and st == STATUS_OK:
         hn = h[step]
         coef = hn * D_WEIGHT
-        _capacity_enthalpy(T, mb, bb, seg_start, lob, hib, slb, t_ref, C, H0)
+        _capacity_enthalpy(T, cap, C, H0)
         _net_inflow(f1, n, link_a, link_b, r1)
-        e_in += _sources(b, step, src, qs_mid, qs_full, q2, q3)
+        e_in += _sources(src, step, qs_mid, qs_full, q2, q3)
         # the stage matrix at T_n (its slopes are those of the last flow evaluation) serves both stages
         mode = _factor(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, piv)
         nj += 1
@@ -470,10 +507,9 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
                 fx = f3
             converged = False
             for it in range(max_newton):
-                inside = _flows(Y, bkx, dvx, n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                                tables, tb_ix, gp, sliced, slot_sliced, sx, fx, dfa, dfb, ax_i, ax_f, ax_ok)
+                inside = _flows(Y, bkx, dvx, links, fx, dfa, dfb, ax_i, ax_f, ax_ok)
                 nf += 1
-                _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
+                _capacity_enthalpy(Y, cap, C, H)
                 _residual(H, tgt, coef, fx, n, link_a, link_b, R)
                 if not have_lu:
                     mode = _factor(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, piv)
@@ -528,8 +564,7 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
             temps_out[b, rec, :] = T
             flows_out[b, rec, :] = f1
             rec += 1
-    if st == STATUS_OK and not _flows(T, bk_grid[N], drv_grid[N], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                                      tables, tb_ix, gp, sliced, slot_sliced, sx, f3, dfa, dfb, ax_i, ax_f, ax_ok):
+    if st == STATUS_OK and not _flows(T, bk_grid[N], drv_grid[N], links, f3, dfa, dfb, ax_i, ax_f, ax_ok):
         st = STATUS_OUTSIDE_GRID        # the accepted end state itself lies off a table
         step = N - 1
     final[b, :] = T
@@ -541,32 +576,16 @@ def _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, 
 
 
 @njit(cache=True, error_model="numpy", nogil=True)
-def advance(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-            link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-            mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-            rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
-            link_energy, heat_in, status, fail_step, counts):
+def advance(T0, inputs, net, rtol, atol, max_newton, record, out):
     """Integrate B configurations over the grid, one after another (see ``ARGS_DOC``).
 
     Releases the GIL, so independent runs (the corners of a race) can go in parallel threads."""
     for b in range(T0.shape[0]):
-        _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                     link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-                     mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                     rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
-                     link_energy, heat_in, status, fail_step, counts)
+        _advance_one(b, T0, inputs, net, rtol, atol, max_newton, record, out)
 
 
 @njit(cache=True, parallel=True, error_model="numpy")
-def advance_parallel(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                     link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-                     mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                     rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
-                     link_energy, heat_in, status, fail_step, counts):
+def advance_parallel(T0, inputs, net, rtol, atol, max_newton, record, out):
     """``advance`` with the configurations spread over the CPU cores (for batches)."""
     for b in prange(T0.shape[0]):
-        _advance_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                     link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-                     mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                     rtol, atol, max_newton, record, temps_out, flows_out, final, peak, peak_step,
-                     link_energy, heat_in, status, fail_step, counts)
+        _advance_one(b, T0, inputs, net, rtol, atol, max_newton, record, out)

@@ -12,28 +12,34 @@ only flagged here (``lane_flag``): its numbers are not used, and the caller reru
 configuration alone with the one-configuration kernel, which has the dense-LU fallback and the
 exact failure report. The other lanes of its block are unaffected (lanes never mix).
 
-Array shapes (K blocks of LANES configurations): T0 (K, n, W); par (K, L, W); tix (K, n_conv, W);
-mass, base (K, n, W); seg_lo, seg_hi, seg_slope (K, S, W); src (K, n, n_signals, W); outputs final,
-peak (K, n, W), peak_step (K, n, W), lap_peaks (K, n_laps, n_out, W), link_energy (K, L, W),
-heat_in, lane_flag, counts (K, W), temps_out (K, n_rec, n, W), flows_out (K, n_rec, L, W).
-Shared arrays are those of ``thermo.solver.kernel`` (``ARGS_DOC``).
+Array shapes (K blocks of LANES configurations) in ``kernel.NetworkArrays``: T0 (K, n, W); par (K, L, W);
+tix, six (K, n_conv, W); mass, base (K, n, W); seg_lo, seg_hi, seg_slope (K, S, W); src (K, n, n_signals, W);
+tables flattened (C order); in ``LaneOutputs``: final, peak (K, n, W), peak_step (K, n, W), lap_peaks
+(K, n_laps, n_out, W), link_energy (K, L, W), heat_in, lane_flag, counts (K, W), temps (K, n_rec, n, W),
+flows (K, n_rec, L, W). Shared arrays are those of ``thermo.solver.kernel`` (``ARGS_DOC``).
 """
 from __future__ import annotations
 
 import math
+from collections import namedtuple
 
 import numpy as np
 from numba import njit, prange
 
-from thermo.solver.kernel import D_WEIGHT, W_WEIGHT, _axis
+from thermo.solver.kernel import (D_WEIGHT, W_WEIGHT, _axis, _configuration, bilinear, capacity_segment,
+                                  conduction_flow, convection_flow, radiation_flow, trilinear)
 
 LANES = 64       # widest block: measured fastest per configuration (16: 0.66, 32: 0.55, 64: 0.48 us a step)
 
+# what a block run writes (shapes in the module notes)
+LaneOutputs = namedtuple("LaneOutputs", ("temps", "flows", "final", "peak", "peak_step", "lap_peaks", "link_energy",
+                                         "heat_in", "lane_flag", "counts"))
+
 
 @njit(cache=True, error_model="numpy")
-def _flows_lanes(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp,
-                 sliced, slot_sliced, six, f, dfa, dfb, flag):
-    """Link flows and slopes (L, W) of every lane at T (n, W); flag[c] set where a lookup left its table.
+def _flows_lanes(T, bk, drv, links, f, dfa, dfb, flag):
+    """Link flows and slopes (L, W) of every lane at T (n, W) (``kernel.Links`` of one block); flag[c]
+    set where a lookup left its table.
 
     ``tables`` is the kernel's (U, n_driver, n_node, n_boundary) table array flattened (C order).
     A convection slot whose boundary temperature is constant over the run (``slot_sliced``) reads
@@ -41,6 +47,7 @@ def _flows_lanes(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, 
     boundary axis, the same arithmetic as the trilinear lookup's first step, so the result is
     identical and the lookup costs four loads, not eight (``six`` (n_conv, W) the slice of each
     lane; dG/dT_b is not formed: a boundary's slope never enters the stage matrix)."""
+    n, link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six = links
     W = T.shape[1]
     n_i = int(gp[2])
     n_j = int(gp[5])
@@ -59,26 +66,16 @@ def _flows_lanes(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, 
         if kd == 0:
             for c in range(W):
                 tb = T[b, c] if on_node else tbk
-                g = par[l, c]
-                f[l, c] = g * (T[a, c] - tb)
-                dfa[l, c] = g
-                dfb[l, c] = -g
+                f[l, c], dfa[l, c], dfb[l, c] = conduction_flow(par[l, c], T[a, c], tb)
         elif kd == 1:
             for c in range(W):
-                ta = T[a, c]
                 tb = T[b, c] if on_node else tbk
-                cr = par[l, c]
-                ta2 = ta * ta
-                tb2 = tb * tb
-                f[l, c] = cr * (ta2 * ta2 - tb2 * tb2)
-                dfa[l, c] = 4.0 * cr * ta2 * ta
-                dfb[l, c] = -4.0 * cr * tb2 * tb
+                f[l, c], dfa[l, c], dfb[l, c] = radiation_flow(par[l, c], T[a, c], tb)
         else:
             s = conv_slot[l]
             dd = conv_drv[s]
             i, fi, oki = _axis(drv[dd] if dd >= 0 else 0.0, gp[0], 1.0 / gp[1], n_i)
             kb, fkb, okb = _axis(tbk, gp[6], inv_k, n_k)
-            gi = 1.0 - fi
             if slot_sliced[s]:
                 for c in range(W):
                     ta = T[a, c]
@@ -90,18 +87,9 @@ def _flows_lanes(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, 
                     j = min(int(x), n_j - 2)
                     fj = x - j
                     o = (six[s, c] * n_i + i) * n_j + j
-                    c00 = sliced[o]
-                    c01 = sliced[o + 1]
-                    c10 = sliced[o + n_j]
-                    c11 = sliced[o + n_j + 1]
-                    gj = 1.0 - fj
-                    g = gi * (gj * c00 + fj * c01) + fi * (gj * c10 + fj * c11)
-                    ga = (gi * (c01 - c00) + fi * (c11 - c10)) * inv_j
-                    m = par[l, c]
-                    dT = ta - (T[b, c] if on_node else tbk)
-                    f[l, c] = m * g * dT
-                    dfa[l, c] = m * (g + ga * dT)
-                    dfb[l, c] = -m * g
+                    g, ga = bilinear(sliced[o], sliced[o + 1], sliced[o + n_j], sliced[o + n_j + 1], fi, fj)
+                    f[l, c], dfa[l, c], dfb[l, c] = convection_flow(par[l, c], g, ga * inv_j, 0.0, ta,
+                                                                    T[b, c] if on_node else tbk)
                 continue
             for c in range(W):
                 ta = T[a, c]
@@ -123,46 +111,28 @@ def _flows_lanes(T, bk, drv, n, link_a, link_b, kind, par, conv_slot, conv_drv, 
                 if not (oki and (on_node or okb)):
                     flag[c] = True
                 o = ((tix[s, c] * n_i + i) * n_j + j) * n_k + k
-                a000 = tables[o]
-                a001 = tables[o + 1]
-                a010 = tables[o + n_k]
-                a011 = tables[o + n_k + 1]
-                a100 = tables[o + s_i]
-                a101 = tables[o + s_i + 1]
-                a110 = tables[o + s_i + n_k]
-                a111 = tables[o + s_i + n_k + 1]
-                c00 = a000 + fk * (a001 - a000)
-                c01 = a010 + fk * (a011 - a010)
-                c10 = a100 + fk * (a101 - a100)
-                c11 = a110 + fk * (a111 - a110)
-                gj = 1.0 - fj
-                g = gi * (gj * c00 + fj * c01) + fi * (gj * c10 + fj * c11)
-                ga = (gi * (c01 - c00) + fi * (c11 - c10)) * inv_j
-                gb = (gi * (gj * (a001 - a000) + fj * (a011 - a010))
-                      + fi * (gj * (a101 - a100) + fj * (a111 - a110))) * inv_k
-                m = par[l, c]
-                dT = ta - tb
-                f[l, c] = m * g * dT
-                dfa[l, c] = m * (g + ga * dT)
-                dfb[l, c] = m * (-g + gb * dT)
+                g, ga, gb = trilinear(tables[o], tables[o + 1], tables[o + n_k], tables[o + n_k + 1], tables[o + s_i],
+                                      tables[o + s_i + 1], tables[o + s_i + n_k], tables[o + s_i + n_k + 1], fi, fj, fk)
+                f[l, c], dfa[l, c], dfb[l, c] = convection_flow(par[l, c], g, ga * inv_j, gb * inv_k, ta, tb)
 
 
 @njit(cache=True, error_model="numpy")
-def _reference_ramps(seg_lo, seg_hi, t_ref, href):
+def _reference_ramps(capacities, href):
     """Each capacity segment's ramp at the reference temperature (S, W), constant over a run."""
+    seg_lo, seg_hi, t_ref = capacities.seg_lo, capacities.seg_hi, capacities.t_ref
     W = seg_lo.shape[1]
     for s in range(seg_lo.shape[0]):
         for c in range(W):
             lo = seg_lo[s, c]
             hi = seg_hi[s, c]
-            xr = min(max(t_ref, lo), hi)
-            href[s, c] = 0.5 * (xr - lo) * (xr - lo) + (hi - lo) * max(t_ref - hi, 0.0)
+            href[s, c] = capacity_segment(t_ref, lo, hi)[1]
 
 
 @njit(cache=True, error_model="numpy")
-def _capacity_lanes(T, mass, base, seg_start, seg_lo, seg_hi, seg_slope, href, t_ref, C, H, with_c):
-    """Enthalpy H [J] and, if ``with_c``, heat capacity C [J/K] (n, W) of every lane
-    (``kernel._capacity_enthalpy``; ``href`` from ``_reference_ramps``)."""
+def _capacity_lanes(T, capacities, href, C, H, with_c):
+    """Enthalpy H [J] and, if ``with_c``, heat capacity C [J/K] (n, W) of every lane (``kernel.Capacities``
+    of one block; as ``kernel._capacity_enthalpy``; ``href`` from ``_reference_ramps``)."""
+    mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref = capacities
     W = T.shape[1]
     for i in range(T.shape[0]):
         for c in range(W):
@@ -172,16 +142,10 @@ def _capacity_lanes(T, mass, base, seg_start, seg_lo, seg_hi, seg_slope, href, t
                 C[i, c] = base[i, c]
         for s in range(seg_start[i], seg_start[i + 1]):
             for c in range(W):
-                lo = seg_lo[s, c]
-                hi = seg_hi[s, c]
-                t = T[i, c]
-                x = min(max(t, lo), hi)
-                ramp = 0.5 * (x - lo) * (x - lo) + (hi - lo) * max(t - hi, 0.0)
-                H[i, c] += seg_slope[s, c] * (ramp - href[s, c])
+                H[i, c] += seg_slope[s, c] * (capacity_segment(T[i, c], seg_lo[s, c], seg_hi[s, c])[1] - href[s, c])
             if with_c:
                 for c in range(W):
-                    x = min(max(T[i, c], seg_lo[s, c]), seg_hi[s, c])
-                    C[i, c] += seg_slope[s, c] * (x - seg_lo[s, c])
+                    C[i, c] += seg_slope[s, c] * capacity_segment(T[i, c], seg_lo[s, c], seg_hi[s, c])[0]
         for c in range(W):
             H[i, c] *= mass[i, c]
         if with_c:
@@ -337,12 +301,13 @@ def _outputs_lanes(T, w_ptr, w_node, w_val, lp):
 
 
 @njit(cache=True, error_model="numpy")
-def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                   link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-                   mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                   n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                   peak_step, lap_peaks, link_energy, heat_in, lane_flag, counts):
+def _advance_block(blk, T0, inputs, net, n_laps, weights, record, out):
     """Block ``blk`` of LANES configurations over the grid ``n_laps`` times (linearised mode)."""
+    _, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full = inputs
+    temps_out, flows_out, final, peak, peak_step, lap_peaks, link_energy, heat_in, lane_flag, counts = out
+    w_ptr, w_node, w_val = weights
+    link_a, link_b, order, ptr, nbr = net.link_a, net.link_b, net.order, net.ptr, net.nbr
+    links, cap = _configuration(net, blk)
     n = T0.shape[1]
     W = T0.shape[2]
     L = link_a.size
@@ -371,19 +336,17 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
     q3 = np.zeros((n, W))
     lp = np.empty((max(n_out, 1), W))
     flag = lane_flag[blk]
-    pb, tb_ix, sb, sb_ix = par[blk], tix[blk], src[blk], six[blk]
-    mb, bb, lob, hib, slb = mass[blk], base[blk], seg_lo[blk], seg_hi[blk], seg_slope[blk]
+    sb = net.src[blk]
     pk, pks, le = peak[blk], peak_step[blk], link_energy[blk]
     e_in = np.zeros(W)
-    href = np.empty(lob.shape)
-    _reference_ramps(lob, hib, t_ref, href)
+    href = np.empty(cap.seg_lo.shape)
+    _reference_ramps(cap, href)
     pk[:, :] = T
     pks[:, :] = 0
     done = 0
     for lap in range(n_laps):
         last = lap == n_laps - 1
-        _flows_lanes(T, bk_grid[0], drv_grid[0], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                     tables, tb_ix, gp, sliced, slot_sliced, sb_ix, f1, dfa, dfb, flag)
+        _flows_lanes(T, bk_grid[0], drv_grid[0], links, f1, dfa, dfb, flag)
         rec = 0
         if last and record[0]:
             temps_out[blk, rec] = T
@@ -395,7 +358,7 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
             hn = h[step]
             coef = hn * D_WEIGHT
             hw = hn * W_WEIGHT
-            _capacity_lanes(T, mb, bb, seg_start, lob, hib, slb, href, t_ref, C, H0, True)
+            _capacity_lanes(T, cap, href, C, H0, True)
             _net_inflow_lanes(f1, n, link_a, link_b, r1)
             for i in range(n):
                 for c in range(W):
@@ -415,19 +378,17 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
                 for c in range(W):
                     tgt[i, c] = H0[i, c] + coef * r1[i, c] + q2[i, c]
                     Y[i, c] = T[i, c]
-            _flows_lanes(Y, bk_mid[step], drv_mid[step], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                         tables, tb_ix, gp, sliced, slot_sliced, sb_ix, f2, dfa, dfb, flag)
+            _flows_lanes(Y, bk_mid[step], drv_mid[step], links, f2, dfa, dfb, flag)
             _chord_lanes(Y, H0, tgt, coef, f2, dfa, dfb, R, A, pos, pinv, order, ptr, nbr, n, link_a, link_b)
             # stage 2 (BDF2) from Y = Y2
             _net_inflow_lanes(f2, n, link_a, link_b, r2)
             for i in range(n):
                 for c in range(W):
                     tgt[i, c] = H0[i, c] + hw * (r1[i, c] + r2[i, c]) + q3[i, c]
-            _flows_lanes(Y, bk_grid[step + 1], drv_grid[step + 1], n, link_a, link_b, kind, pb, conv_slot,
-                         conv_drv, tables, tb_ix, gp, sliced, slot_sliced, sb_ix, f3, dfa, dfb, flag)
-            _capacity_lanes(Y, mb, bb, seg_start, lob, hib, slb, href, t_ref, C, H, False)
+            _flows_lanes(Y, bk_grid[step + 1], drv_grid[step + 1], links, f3, dfa, dfb, flag)
+            _capacity_lanes(Y, cap, href, C, H, False)
             _chord_lanes(Y, H, tgt, coef, f3, dfa, dfb, R, A, pos, pinv, order, ptr, nbr, n, link_a, link_b)
-            _capacity_lanes(Y, mb, bb, seg_start, lob, hib, slb, href, t_ref, C, H, False)
+            _capacity_lanes(Y, cap, href, C, H, False)
             _chord_lanes(Y, H, tgt, coef, f3, dfa, dfb, R, A, pos, pinv, order, ptr, nbr, n, link_a, link_b)
             for l in range(L):
                 for c in range(W):
@@ -452,8 +413,7 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
                 lap_peaks[blk, lap, o, c] = lp[o, c]
         done += N
     # the accepted end state itself must lie on the tables (its flows are otherwise never looked up)
-    _flows_lanes(T, bk_grid[N], drv_grid[N], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                 tables, tb_ix, gp, sliced, slot_sliced, sb_ix, f3, dfa, dfb, flag)
+    _flows_lanes(T, bk_grid[N], drv_grid[N], links, f3, dfa, dfb, flag)
     final[blk] = T
     for c in range(W):
         heat_in[blk, c] = e_in[c]
@@ -461,15 +421,7 @@ def _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_fu
 
 
 @njit(cache=True, parallel=True, error_model="numpy")
-def advance_lanes(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                  link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-                  mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                  n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                  peak_step, lap_peaks, link_energy, heat_in, lane_flag, counts):
+def advance_lanes(T0, inputs, net, n_laps, weights, record, out):
     """All blocks, spread over the CPU cores (see the module notes for the shapes)."""
     for blk in prange(T0.shape[0]):
-        _advance_block(blk, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                       link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-                       mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                       n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                       peak_step, lap_peaks, link_energy, heat_in, lane_flag, counts)
+        _advance_block(blk, T0, inputs, net, n_laps, weights, record, out)

@@ -32,8 +32,8 @@ import numpy as np
 from numba import njit, prange
 
 from thermo.solver.kernel import (D_WEIGHT, FACTOR_FAILED, STATUS_NEWTON, STATUS_NONFINITE, STATUS_OK,
-                                  STATUS_OUTSIDE_GRID, W_WEIGHT, _capacity_enthalpy, _factor, _flow_update,
-                                  _flows, _net_inflow, _residual, _scratch, _solve, _sources)
+                                  STATUS_OUTSIDE_GRID, W_WEIGHT, _capacity_enthalpy, _configuration, _factor,
+                                  _flow_update, _flows, _net_inflow, _residual, _scratch, _solve, _sources)
 
 
 @njit(cache=True, error_model="numpy")
@@ -60,17 +60,19 @@ def _outputs_peak(T, w_ptr, w_node, w_val, lap_peak):
 
 
 @njit(cache=True, error_model="numpy")
-def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                            link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-                            mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                            n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                            peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
+def _advance_linearised_one(b, T0, inputs, net, n_laps, weights, record, out, lap_peaks):
     """Configuration b driven over the grid ``n_laps`` times in the linearised mode.
 
     Each stage: the flows at its first guess (T_n for Y2, Y2 for Y3) with the matrix at T_n and
     one linear solve; the second stage then one more chord correction with the exact enthalpy and
     the linearised flows (see the module notes). The first stage's guess is T_n, whose enthalpy
     H0 is already known."""
+    _, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full = inputs
+    temps_out, flows_out, final, peak, peak_step, link_energy, heat_in, status, fail_step, counts = out
+    w_ptr, w_node, w_val = weights
+    link_a, link_b, order, ptr, nbr = net.link_a, net.link_b, net.order, net.ptr, net.nbr
+    links, cap = _configuration(net, b)
+    src = net.src[b]
     n = T0.shape[1]
     L = link_a.size
     N = h.size
@@ -79,10 +81,6 @@ def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid
     (Y, C, H, H0, R, r1, r2, tgt, A, piv, f1, f2, f3, dfa, dfb, q2, q3,
      ax_i, ax_f, ax_ok) = _scratch(n, L, drv_grid.shape[1] + bk_grid.shape[1])
     lp = np.empty(max(n_out, 1))
-    pb = par[b]
-    tb_ix = tix[b]
-    sx = six[b]
-    mb, bb, lob, hib, slb = mass[b], base[b], seg_lo[b], seg_hi[b], seg_slope[b]
     nf = 0
     nj = 0
     st = STATUS_OK
@@ -94,8 +92,7 @@ def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid
     step = 0
     for lap in range(n_laps):
         last = lap == n_laps - 1
-        if not _flows(T, bk_grid[0], drv_grid[0], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                      tables, tb_ix, gp, sliced, slot_sliced, sx, f1, dfa, dfb, ax_i, ax_f, ax_ok):
+        if not _flows(T, bk_grid[0], drv_grid[0], links, f1, dfa, dfb, ax_i, ax_f, ax_ok):
             st = STATUS_OUTSIDE_GRID
         nf += 1
         rec = 0
@@ -110,9 +107,9 @@ def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid
         while step < N and st == STATUS_OK:
             hn = h[step]
             coef = hn * D_WEIGHT
-            _capacity_enthalpy(T, mb, bb, seg_start, lob, hib, slb, t_ref, C, H0)
+            _capacity_enthalpy(T, cap, C, H0)
             _net_inflow(f1, n, link_a, link_b, r1)
-            e_in += _sources(b, step, src, qs_mid, qs_full, q2, q3)
+            e_in += _sources(src, step, qs_mid, qs_full, q2, q3)
             mode = _factor(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, piv)
             nj += 1
             if mode == FACTOR_FAILED:
@@ -122,19 +119,17 @@ def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid
             for i in range(n):
                 tgt[i] = H0[i] + coef * r1[i] + q2[i]
                 Y[i] = T[i]
-            inside = _flows(Y, bk_mid[step], drv_mid[step], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                            tables, tb_ix, gp, sliced, slot_sliced, sx, f2, dfa, dfb, ax_i, ax_f, ax_ok)
+            inside = _flows(Y, bk_mid[step], drv_mid[step], links, f2, dfa, dfb, ax_i, ax_f, ax_ok)
             _linear_stage(Y, H0, tgt, coef, f2, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
             # stage 2 (BDF2), from Y = Y2
             _net_inflow(f2, n, link_a, link_b, r2)
             for i in range(n):
                 tgt[i] = H0[i] + hn * W_WEIGHT * (r1[i] + r2[i]) + q3[i]
-            inside2 = _flows(Y, bk_grid[step + 1], drv_grid[step + 1], n, link_a, link_b, kind, pb, conv_slot,
-                             conv_drv, tables, tb_ix, gp, sliced, slot_sliced, sx, f3, dfa, dfb, ax_i, ax_f, ax_ok)
+            inside2 = _flows(Y, bk_grid[step + 1], drv_grid[step + 1], links, f3, dfa, dfb, ax_i, ax_f, ax_ok)
             nf += 2
-            _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
+            _capacity_enthalpy(Y, cap, C, H)
             _linear_stage(Y, H, tgt, coef, f3, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
-            _capacity_enthalpy(Y, mb, bb, seg_start, lob, hib, slb, t_ref, C, H)
+            _capacity_enthalpy(Y, cap, C, H)
             _linear_stage(Y, H, tgt, coef, f3, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
             if not (inside and inside2):
                 st = STATUS_OUTSIDE_GRID
@@ -163,8 +158,7 @@ def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid
         for o in range(n_out):
             lap_peaks[b, lap, o] = lp[o]
         done += N
-    if st == STATUS_OK and not _flows(T, bk_grid[N], drv_grid[N], n, link_a, link_b, kind, pb, conv_slot, conv_drv,
-                                      tables, tb_ix, gp, sliced, slot_sliced, sx, f3, dfa, dfb, ax_i, ax_f, ax_ok):
+    if st == STATUS_OK and not _flows(T, bk_grid[N], drv_grid[N], links, f3, dfa, dfb, ax_i, ax_f, ax_ok):
         st = STATUS_OUTSIDE_GRID        # the accepted end state itself lies off a table
         done -= N
         step = N - 1
@@ -177,30 +171,14 @@ def _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid
 
 
 @njit(cache=True, error_model="numpy", nogil=True)
-def advance_linearised(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                       link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-                       mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                       n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                       peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
+def advance_linearised(T0, inputs, net, n_laps, weights, record, out, lap_peaks):
     """The linearised mode for B configurations, one after another (see ``ARGS_DOC``); releases the GIL."""
     for b in range(T0.shape[0]):
-        _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-                                mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                                n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                                peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts)
+        _advance_linearised_one(b, T0, inputs, net, n_laps, weights, record, out, lap_peaks)
 
 
 @njit(cache=True, parallel=True, error_model="numpy")
-def advance_linearised_parallel(T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-                                mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                                n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                                peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts):
+def advance_linearised_parallel(T0, inputs, net, n_laps, weights, record, out, lap_peaks):
     """``advance_linearised`` with the configurations spread over the CPU cores."""
     for b in prange(T0.shape[0]):
-        _advance_linearised_one(b, T0, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full, src,
-                                link_a, link_b, kind, par, conv_slot, conv_drv, tables, tix, gp, sliced, slot_sliced, six,
-                                mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref, order, ptr, nbr,
-                                n_laps, w_ptr, w_node, w_val, record, temps_out, flows_out, final, peak,
-                                peak_step, lap_peaks, link_energy, heat_in, status, fail_step, counts)
+        _advance_linearised_one(b, T0, inputs, net, n_laps, weights, record, out, lap_peaks)
