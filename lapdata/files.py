@@ -25,10 +25,14 @@ def read_regular_file(path, what: str, max_bytes: int, error=LapDataError) -> by
 
     Parameters
     ----------
-    path : str or Path  The file [-]
-    what : str  What the file is, for the message ("scenario file", "lap trace") [-]
-    max_bytes : int  Largest accepted size [B]
-    error : type  Exception class raised, with a one-line message naming the file [-]
+    path : str or Path
+        The file [-]
+    what : str
+        What the file is, for the message ("scenario file", "lap trace") [-]
+    max_bytes : int
+        Largest accepted size [B]
+    error : type
+        Exception class raised, with a one-line message naming the file [-]
     """
     source = str(path)
     try:

@@ -64,17 +64,21 @@ def read_trace_csv(path: str | Path, *, repair: bool = False) -> LapTrace:
 
     Parameters
     ----------
-    path : str or Path  The CSV file [-]
-    repair : bool  Fill short gaps and replace one-sample speed drop-outs (each reported in
+    path : str or Path
+        The CSV file [-]
+    repair : bool
+        Fill short gaps and replace one-sample speed drop-outs (each reported in
         ``LapTrace.repairs``); without it both are errors [-]
 
     Returns
     -------
-    LapTrace  The trace in SI units, time and distance from zero [-]
+    LapTrace
+        The trace in SI units, time and distance from zero [-]
 
     Raises
     ------
-    LapDataError  For any problem with the file, naming file, row and column.
+    LapDataError
+        For any problem with the file, naming file, row and column.
     """
     source = str(path)
     header_line, header, rows = _split_lines(_read_text(Path(path)), source)

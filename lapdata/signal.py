@@ -27,12 +27,15 @@ def resample_uniform(trace: LapTrace, rate_hz: float) -> LapTrace:
 
     Parameters
     ----------
-    trace : LapTrace  The trace to resample [-]
-    rate_hz : float  Samples per second of the new grid [Hz]
+    trace : LapTrace
+        The trace to resample [-]
+    rate_hz : float
+        Samples per second of the new grid [Hz]
 
     Returns
     -------
-    LapTrace  Samples at ``t0 + k / rate_hz`` for every k with the time inside the trace [-]
+    LapTrace
+        Samples at ``t0 + k / rate_hz`` for every k with the time inside the trace [-]
 
     Notes
     -----
@@ -64,13 +67,17 @@ def smoothed_acceleration(time_s: np.ndarray, speed_mps: np.ndarray, window_s: f
 
     Parameters
     ----------
-    time_s : ndarray  Sample times, strictly increasing [s]
-    speed_mps : ndarray  Speed at those times [m/s]
-    window_s : float  Length of the Savitzky-Golay window [s]
+    time_s : ndarray
+        Sample times, strictly increasing [s]
+    speed_mps : ndarray
+        Speed at those times [m/s]
+    window_s : float
+        Length of the Savitzky-Golay window [s]
 
     Returns
     -------
-    ndarray  Acceleration at each sample, positive forwards [m/s^2]
+    ndarray
+        Acceleration at each sample, positive forwards [m/s^2]
 
     Notes
     -----
@@ -117,13 +124,17 @@ def smoothed_channel(time_s, values, window_s: float) -> np.ndarray:
 
     Parameters
     ----------
-    time_s : ndarray  Sample times, strictly increasing [s]
-    values : ndarray  Channel values at those times [any unit]
-    window_s : float  Filter window; 0 (or a window under three samples) means no smoothing [s]
+    time_s : ndarray
+        Sample times, strictly increasing [s]
+    values : ndarray
+        Channel values at those times [any unit]
+    window_s : float
+        Filter window; 0 (or a window under three samples) means no smoothing [s]
 
     Returns
     -------
-    ndarray  Smoothed values at ``time_s`` [unit of values]
+    ndarray
+        Smoothed values at ``time_s`` [unit of values]
 
     Notes
     -----
@@ -164,15 +175,21 @@ def savgol(values: np.ndarray, window: int, polyorder: int, deriv: int = 0, delt
 
     Parameters
     ----------
-    values : ndarray  Samples on a uniform grid [any unit]
-    window : int  Odd window length in samples, more than ``polyorder`` and at most ``values.size`` [-]
-    polyorder : int  Order of the local least-squares polynomial [-]
-    deriv : int  Order of the derivative to return (0: the smoothed values) [-]
-    delta : float  Sample spacing, for derivatives [unit of the grid]
+    values : ndarray
+        Samples on a uniform grid [any unit]
+    window : int
+        Odd window length in samples, more than ``polyorder`` and at most ``values.size`` [-]
+    polyorder : int
+        Order of the local least-squares polynomial [-]
+    deriv : int
+        Order of the derivative to return (0: the smoothed values) [-]
+    delta : float
+        Sample spacing, for derivatives [unit of the grid]
 
     Returns
     -------
-    ndarray  Filtered values (or derivative), one per sample [unit / unit of the grid^deriv]
+    ndarray
+        Filtered values (or derivative), one per sample [unit / unit of the grid^deriv]
 
     Notes
     -----

@@ -13,15 +13,23 @@ class LapTrace:
 
     Attributes
     ----------
-    time_s : ndarray  Time from the start of the trace, strictly increasing [s]
-    distance_m : ndarray  Distance travelled from the start of the trace [m]
-    speed_mps : ndarray  Vehicle speed, never negative [m/s]
-    pressure_front_pa, pressure_rear_pa : ndarray or None  Brake line pressure [Pa]
-    accel_long_mps2 : ndarray or None  Longitudinal acceleration, positive forwards [m/s^2]
-    temperatures_k : mapping of channel name to ndarray  Measured temperatures, keyed by the
+    time_s : ndarray
+        Time from the start of the trace, strictly increasing [s]
+    distance_m : ndarray
+        Distance travelled from the start of the trace [m]
+    speed_mps : ndarray
+        Vehicle speed, never negative [m/s]
+    pressure_front_pa, pressure_rear_pa : ndarray or None
+        Brake line pressure [Pa]
+    accel_long_mps2 : ndarray or None
+        Longitudinal acceleration, positive forwards [m/s^2]
+    temperatures_k : mapping of channel name to ndarray
+        Measured temperatures, keyed by the
         CSV column name without its unit (e.g. ``temp_disc_front_left``) [K]
-    source : str  File the trace came from (or a description), for error messages
-    repairs : tuple of str  What was repaired on reading, one line each (empty if nothing)
+    source : str
+        File the trace came from (or a description), for error messages
+    repairs : tuple of str
+        What was repaired on reading, one line each (empty if nothing)
     """
 
     time_s: np.ndarray

@@ -120,15 +120,24 @@ class CarEnvelope:
 
     Attributes
     ----------
-    mass_kg : float  Mass with driver [kg]
-    braking_decel_g : float  Mechanical braking grip at low speed, a friction coefficient [g]
-    lateral_grip_g : float  Lateral grip at low speed, a friction coefficient [g]
-    power_w : float  Power at the wheels [W]
-    traction_accel_g : float  Traction-limited acceleration [g]
-    downforce_cl_a_m2 : float  Lift coefficient times area, ClA (downforce positive) [m^2]
-    drag_cd_a_m2 : float  Drag coefficient times area, CdA [m^2]
-    air_density_kg_m3 : float  Air density [kg/m^3]
-    top_speed_kmh : float or None  Speed cap (gearing, limiter); None for drag-limited only [km/h]
+    mass_kg : float
+        Mass with driver [kg]
+    braking_decel_g : float
+        Mechanical braking grip at low speed, a friction coefficient [g]
+    lateral_grip_g : float
+        Lateral grip at low speed, a friction coefficient [g]
+    power_w : float
+        Power at the wheels [W]
+    traction_accel_g : float
+        Traction-limited acceleration [g]
+    downforce_cl_a_m2 : float
+        Lift coefficient times area, ClA (downforce positive) [m^2]
+    drag_cd_a_m2 : float
+        Drag coefficient times area, CdA [m^2]
+    air_density_kg_m3 : float
+        Air density [kg/m^3]
+    top_speed_kmh : float or None
+        Speed cap (gearing, limiter); None for drag-limited only [km/h]
     """
 
     mass_kg: float
@@ -214,17 +223,23 @@ def build_speed_trace(track: TrackDescription, envelope: CarEnvelope, *, sample_
 
     Parameters
     ----------
-    track : TrackDescription  The circuit [-]
-    envelope : CarEnvelope  The car's limits [-]
-    sample_hz : float  Output sample rate [Hz]
-    pace : float  Fraction of the limit speed driven, 0 < pace <= 1: every speed of the limit lap
+    track : TrackDescription
+        The circuit [-]
+    envelope : CarEnvelope
+        The car's limits [-]
+    sample_hz : float
+        Output sample rate [Hz]
+    pace : float
+        Fraction of the limit speed driven, 0 < pace <= 1: every speed of the limit lap
         is multiplied by ``pace`` at the same distance, so the lap time is divided by it and every
         acceleration multiplied by ``pace**2`` [-]
-    speed_limit_kmh : float or None  Absolute cap applied after ``pace`` everywhere (a pit lane) [km/h]
+    speed_limit_kmh : float or None
+        Absolute cap applied after ``pace`` everywhere (a pit lane) [km/h]
 
     Returns
     -------
-    LapTrace  Time, distance, speed and the model's longitudinal acceleration, samples at
+    LapTrace
+        Time, distance, speed and the model's longitudinal acceleration, samples at
         ``k / sample_hz`` up to the lap time; no pressure channels [-]
     """
     _positive("build_speed_trace", "sample_hz", sample_hz)

@@ -40,15 +40,21 @@ def braking_mask(trace: LapTrace, *, pressure_threshold_pa: float = 5e5, decel_o
 
     Parameters
     ----------
-    trace : LapTrace  The trace [-]
-    pressure_threshold_pa : float  Line pressure above which the brakes are on [Pa]
-    decel_on_mps2 : float  Deceleration at which a zone starts (no pressure channel) [m/s^2]
-    decel_off_mps2 : float  Deceleration below which it ends; at most ``decel_on_mps2`` [m/s^2]
-    min_duration_s : float  Shorter runs (last minus first sample time) are dropped [s]
+    trace : LapTrace
+        The trace [-]
+    pressure_threshold_pa : float
+        Line pressure above which the brakes are on [Pa]
+    decel_on_mps2 : float
+        Deceleration at which a zone starts (no pressure channel) [m/s^2]
+    decel_off_mps2 : float
+        Deceleration below which it ends; at most ``decel_on_mps2`` [m/s^2]
+    min_duration_s : float
+        Shorter runs (last minus first sample time) are dropped [s]
 
     Returns
     -------
-    ndarray of bool  One flag per sample [-]
+    ndarray of bool
+        One flag per sample [-]
     """
     _check_settings(trace, pressure_threshold_pa, decel_on_mps2, decel_off_mps2, min_duration_s)
     pressures = [p for p in (trace.pressure_front_pa, trace.pressure_rear_pa) if p is not None]

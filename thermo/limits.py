@@ -74,11 +74,13 @@ def boiling_drop_share(water_pct):
 
     Parameters
     ----------
-    water_pct : float or array  Water content [% by mass]
+    water_pct : float or array
+        Water content [% by mass]
 
     Returns
     -------
-    float or array  Share of the dry-to-wet drop [-]
+    float or array
+        Share of the dry-to-wet drop [-]
     """
     w = np.maximum(np.asarray(water_pct, dtype=float), 0.0)
     share = -np.expm1(-w / KEEN_DECAY_PCT) / -math.expm1(-WET_WATER_CONTENT_PCT / KEEN_DECAY_PCT)
@@ -237,13 +239,17 @@ def property_range_warnings(corner_name: str, node_materials: Mapping[str, Mater
 
     Parameters
     ----------
-    corner_name : str  Corner named in each line [-]
-    node_materials : mapping  Node name -> Material [-]
-    node_peaks_k : mapping  Node name -> peak temperature of the run [K]
+    corner_name : str
+        Corner named in each line [-]
+    node_materials : mapping
+        Node name -> Material [-]
+    node_peaks_k : mapping
+        Node name -> peak temperature of the run [K]
 
     Returns
     -------
-    list of str  One line per node out of range, in the order of ``node_materials`` [-]
+    list of str
+        One line per node out of range, in the order of ``node_materials`` [-]
     """
     lines = []
     for node, material in node_materials.items():

@@ -191,13 +191,13 @@ def test_vane_passage_h_rises_about_linearly_with_speed_as_measured():
 def test_fully_developed_tube_correlation_reads_low_as_the_issue_says():
     # the former vane model (Sieder-Tate / Gnielinski, fully developed, on the through-flow only)
     # against McPhee & Johnson (2008), abstract, 78.3 W/(m^2 K) at 1025 rpm: less than 60 % of it
-    from thermo.correlations import forced
+    from thermo.correlations import internal
     p = _rig_passages(*TYPICAL_ROTORS[0])
     omega = np.array([1025.0 * np.pi / 30])
     film = np.array([322.5])
     u = p.pumped_mass_flow(omega, 295.0) / (air.air_density(101325.0, film) * p.flow_area_m2)
     re = u * p.hydraulic_diameter_m / air.air_kinematic_viscosity(101325.0, film)
-    old = forced.nusselt_internal_vented_vane(re, air.air_prandtl(film), p.hydraulic_diameter_m, p.passage_length_m) \
+    old = internal.nusselt_internal_vented_vane(re, air.air_prandtl(film), p.hydraulic_diameter_m, p.passage_length_m) \
         * air.air_conductivity(film) / p.hydraulic_diameter_m
     assert old[0] < 0.6 * 78.3
 

@@ -7,7 +7,7 @@ import pytest
 from fluids.friction import friction_factor
 from ht import conv_external, conv_free_immersed, conv_internal
 
-from thermo.correlations import forced, natural, set_validity_policy
+from thermo.correlations import forced, internal, natural, set_validity_policy
 
 
 @pytest.fixture(autouse=True)
@@ -61,50 +61,50 @@ def test_flat_plate_chooser_switches_at_5e5():
 @pytest.mark.parametrize("heating", [True, False])
 def test_dittus_boelter_against_ht(re, heating):
     # oracle: ht.conv_internal.turbulent_Dittus_Boelter (revised coefficient 0.023)
-    assert forced.nusselt_internal_turbulent_dittus_boelter(re, 0.7, heating=heating) == pytest.approx(
+    assert internal.nusselt_internal_turbulent_dittus_boelter(re, 0.7, heating=heating) == pytest.approx(
         conv_internal.turbulent_Dittus_Boelter(re, 0.7, heating=heating), rel=1e-12)
 
 
 @pytest.mark.parametrize("re", [5.0e3, 1.0e5, 1.0e6])
 def test_gnielinski_against_ht(re):
     # oracle: ht.conv_internal.turbulent_Gnielinski with the same friction factor
-    f = float(forced.friction_factor_smooth_petukhov(re))
-    assert forced.nusselt_internal_turbulent_gnielinski(re, 0.7) == pytest.approx(
+    f = float(internal.friction_factor_smooth_petukhov(re))
+    assert internal.nusselt_internal_turbulent_gnielinski(re, 0.7) == pytest.approx(
         conv_internal.turbulent_Gnielinski(re, 0.7, f), rel=1e-12)
-    assert forced.nusselt_internal_turbulent_gnielinski(re, 0.7, friction_factor=0.02) == pytest.approx(
+    assert internal.nusselt_internal_turbulent_gnielinski(re, 0.7, friction_factor=0.02) == pytest.approx(
         conv_internal.turbulent_Gnielinski(re, 0.7, 0.02), rel=1e-12)
 
 
 def test_gnielinski_ht_docstring_example():
     # ht docstring example: turbulent_Gnielinski(Re=1E5, Pr=1.2, fd=0.0185) = 254.6268
-    assert forced.nusselt_internal_turbulent_gnielinski(1.0e5, 1.2, friction_factor=0.0185) == pytest.approx(
+    assert internal.nusselt_internal_turbulent_gnielinski(1.0e5, 1.2, friction_factor=0.0185) == pytest.approx(
         254.62682749359632, rel=1e-10)
 
 
 @pytest.mark.parametrize("re", [1.0e4, 1.0e5, 1.0e6])
 def test_petukhov_against_colebrook_smooth(re):
     # oracle: fluids.friction.friction_factor (Colebrook, smooth pipe); Petukhov agrees within ~2 %
-    assert forced.friction_factor_smooth_petukhov(re) == pytest.approx(friction_factor(re, eD=0.0), rel=0.025)
+    assert internal.friction_factor_smooth_petukhov(re) == pytest.approx(friction_factor(re, eD=0.0), rel=0.025)
 
 
 @pytest.mark.parametrize("re, pr, d, length", [(500.0, 0.7, 0.006, 0.06), (2000.0, 0.72, 0.008, 0.05)])
 def test_sieder_tate_against_ht(re, pr, d, length):
     # oracle: ht.conv_internal.laminar_entry_Seider_Tate, with and without the viscosity term
-    assert forced.nusselt_internal_laminar_entry_sieder_tate(re, pr, d, length) == pytest.approx(
+    assert internal.nusselt_internal_laminar_entry_sieder_tate(re, pr, d, length) == pytest.approx(
         conv_internal.laminar_entry_Seider_Tate(re, pr, length, d), rel=1e-12)
-    assert forced.nusselt_internal_laminar_entry_sieder_tate(re, pr, d, length, viscosity_ratio=0.8) == pytest.approx(
+    assert internal.nusselt_internal_laminar_entry_sieder_tate(re, pr, d, length, viscosity_ratio=0.8) == pytest.approx(
         conv_internal.laminar_entry_Seider_Tate(re, pr, length, d, mu=0.8, mu_w=1.0), rel=1e-12)
 
 
 def test_vented_vane_regimes():
     d, length, pr = 0.008, 0.06, 0.7
     re = np.array([0.0, 100.0, 1500.0, 2300.0, 6150.0, 1.0e4, 5.0e4])
-    nu = forced.nusselt_internal_vented_vane(re, pr, d, length)
+    nu = internal.nusselt_internal_vented_vane(re, pr, d, length)
     # laminar: Sieder-Tate floored at the fully developed 3.66 (Incropera eq. 8.55)
     assert nu[0] == pytest.approx(3.66)
     assert nu[2] == pytest.approx(conv_internal.laminar_entry_Seider_Tate(1500.0, pr, length, d))
     # turbulent: Gnielinski with Petukhov's f (ht.conv_internal.turbulent_Gnielinski)
-    f = float(forced.friction_factor_smooth_petukhov(5.0e4))
+    f = float(internal.friction_factor_smooth_petukhov(5.0e4))
     assert nu[6] == pytest.approx(conv_internal.turbulent_Gnielinski(5.0e4, pr, f), rel=1e-12)
     # transition: Gnielinski (2013) linear interpolation; 6150 is half way from 2300 to 1e4
     assert nu[4] == pytest.approx(0.5 * (nu[3] + nu[5]), rel=1e-12)
@@ -178,7 +178,7 @@ def test_arrays_go_through():
 @pytest.mark.parametrize("length", [0.03, 0.065, 1.0])
 def test_baehr_stephan_developing_laminar_against_ht(re, length):
     # oracle: ht.conv_internal.laminar_entry_Baehr_Stephan (Baehr & Stephan, Heat and Mass Transfer)
-    assert forced.nusselt_internal_laminar_developing_baehr_stephan(re, 0.7, 0.012, length) == pytest.approx(
+    assert internal.nusselt_internal_laminar_developing_baehr_stephan(re, 0.7, 0.012, length) == pytest.approx(
         conv_internal.laminar_entry_Baehr_Stephan(re, 0.7, length, 0.012), rel=1e-12)
 
 
@@ -189,15 +189,15 @@ def test_gnielinski_developing_is_gnielinski_times_the_entry_factor(re):
     f = (0.790 * np.log(re) - 1.64) ** -2
     factor = 1.0 + 0.2 ** (2.0 / 3.0)
     assert factor == pytest.approx(1.34200, abs=1e-5)
-    assert forced.nusselt_internal_developing_gnielinski(re, 0.7, 0.01, 0.05) == pytest.approx(
+    assert internal.nusselt_internal_developing_gnielinski(re, 0.7, 0.01, 0.05) == pytest.approx(
         conv_internal.turbulent_Gnielinski(re, 0.7, f) * factor, rel=1e-9)
 
 
 def test_vented_disc_passage_takes_the_larger_of_its_two_published_parts():
     # definition of the combination: max(Gnielinski developing on Re_relative, Baehr-Stephan on Re_through)
     d_h, length = 0.011, 0.055
-    turbulent = forced.nusselt_internal_developing_gnielinski(5000.0, 0.7, d_h, length)
-    laminar = forced.nusselt_internal_laminar_developing_baehr_stephan(1500.0, 0.7, d_h, length)
-    assert forced.nusselt_vented_disc_passage(5000.0, 1500.0, 0.7, d_h, length) == pytest.approx(max(turbulent, laminar))
+    turbulent = internal.nusselt_internal_developing_gnielinski(5000.0, 0.7, d_h, length)
+    laminar = internal.nusselt_internal_laminar_developing_baehr_stephan(1500.0, 0.7, d_h, length)
+    assert internal.nusselt_vented_disc_passage(5000.0, 1500.0, 0.7, d_h, length) == pytest.approx(max(turbulent, laminar))
     # at rest both Reynolds numbers are zero: the fully developed laminar 3.657 (Baehr & Stephan limit)
-    assert forced.nusselt_vented_disc_passage(0.0, 0.0, 0.7, d_h, length) == pytest.approx(3.657, rel=1e-3)
+    assert internal.nusselt_vented_disc_passage(0.0, 0.0, 0.7, d_h, length) == pytest.approx(3.657, rel=1e-3)

@@ -7,28 +7,28 @@ import numpy as np
 import pytest
 
 import thermo.correlations as corr
-from thermo.correlations import CorrelationWarning, forced, set_validity_policy, validity
+from thermo.correlations import CorrelationWarning, forced, internal, set_validity_policy, validity
 from thermo.errors import CorrelationError
 
 
 def test_default_policy_warns_outside_range():
     assert corr.get_validity_policy() == "warn"
     with pytest.warns(CorrelationWarning, match=r"nusselt_internal_turbulent_dittus_boelter: re spans \[5000"):
-        value = forced.nusselt_internal_turbulent_dittus_boelter(5000.0, 0.7)
+        value = internal.nusselt_internal_turbulent_dittus_boelter(5000.0, 0.7)
     assert value == pytest.approx(0.023 * 5000.0 ** 0.8 * 0.7 ** 0.4)   # still evaluated under "warn"
 
 
 def test_raise_policy_as_context_manager_restores_previous():
     with set_validity_policy("raise"):
         with pytest.raises(CorrelationError, match="outside the validity range"):
-            forced.nusselt_internal_turbulent_dittus_boelter(5000.0, 0.7)
+            internal.nusselt_internal_turbulent_dittus_boelter(5000.0, 0.7)
     assert corr.get_validity_policy() == "warn"
 
 
 def test_ignore_policy_is_silent():
     with set_validity_policy("ignore"), warnings.catch_warnings():
         warnings.simplefilter("error")
-        forced.nusselt_internal_turbulent_dittus_boelter(5000.0, 0.7)
+        internal.nusselt_internal_turbulent_dittus_boelter(5000.0, 0.7)
 
 
 def test_arrays_are_checked_by_min_and_max():
@@ -45,9 +45,9 @@ def test_derived_group_and_optional_arguments():
         with pytest.raises(CorrelationError, match=r"re\*pr"):   # Churchill-Bernstein needs Re Pr > 0.2
             forced.nusselt_cylinder_crossflow_churchill_bernstein(0.1, 0.7)
         # viscosity_ratio None is not checked; given, it is
-        forced.nusselt_internal_laminar_entry_sieder_tate(1000.0, 0.7, 0.01, 0.1)
+        internal.nusselt_internal_laminar_entry_sieder_tate(1000.0, 0.7, 0.01, 0.1)
         with pytest.raises(CorrelationError, match="viscosity_ratio"):
-            forced.nusselt_internal_laminar_entry_sieder_tate(1000.0, 0.7, 0.01, 0.1, viscosity_ratio=20.0)
+            internal.nusselt_internal_laminar_entry_sieder_tate(1000.0, 0.7, 0.01, 0.1, viscosity_ratio=20.0)
 
 
 def test_validity_is_data():
@@ -79,16 +79,9 @@ def test_unknown_name_gives_close_matches():
 
 
 def _documented_parameters(doc):
-    lines = inspect.cleandoc(doc).splitlines()
-    start = lines.index("Parameters") + 2
-    documented = {}
-    for line in lines[start:]:
-        if not line.strip():
-            break
-        match = re.match(r"^(\w+) : (.+)$", line)
-        assert match, f"parameter line not in 'name : type  description [unit]' form: {line!r}"
-        documented[match.group(1)] = match.group(2)
-    return documented
+    """name -> description of each parameter, as numpydoc's own parser reads the docstring."""
+    from numpydoc.docscrape import NumpyDocString
+    return {p.name: " ".join(p.desc) for p in NumpyDocString(inspect.cleandoc(doc))["Parameters"]}
 
 
 @pytest.mark.parametrize("name", sorted(corr.REGISTRY))

@@ -41,9 +41,13 @@ class RepeatedLaps:
     Attributes
     ----------
     output_nodes : tuple of str
-    lap_peaks_k : ndarray (n_laps, n_outputs)  Peak of each output node in each lap [K]
-    final_k : ndarray (n_nodes,)  Node temperatures at the end of the last lap [K]
-    steps_per_lap : int  Grid steps of one lap
+        The corner's output nodes, the order of the last axis of lap_peaks_k [-]
+    lap_peaks_k : ndarray (n_laps, n_outputs)
+        Peak of each output node in each lap [K]
+    final_k : ndarray (n_nodes,)
+        Node temperatures at the end of the last lap [K]
+    steps_per_lap : int
+        Grid steps of one lap
     """
 
     output_nodes: tuple
@@ -64,20 +68,32 @@ def repeated_laps(model, net, schedule, initial_k, n_laps: int, settings: Solver
 
     Parameters
     ----------
-    model : CornerModel  Gives the output nodes and their weights
-    net : CompiledNetwork  The corner's network (must run compiled)
-    schedule : Schedule  One lap [s]
-    initial_k : array_like (n_nodes,)  Start temperatures [K]
-    n_laps : int  Laps to drive [-]
-    settings : SolverSettings or None  rtol and atol_k of the full-Newton kernel; the linearised
+    model : CornerModel
+        Gives the output nodes and their weights
+    net : CompiledNetwork
+        The corner's network (must run compiled)
+    schedule : Schedule
+        One lap [s]
+    initial_k : array_like (n_nodes,)
+        Start temperatures [K]
+    n_laps : int
+        Laps to drive [-]
+    settings : SolverSettings or None
+        rtol and atol_k of the full-Newton kernel; the linearised
         mode has no iteration and so no tolerance (its accuracy is set by the grid) [-]
-    max_stride : int  Longest step off the brakes, in samples (1 = the full sample grid) [-]
-    linearised : bool  Kernel's linearised mode (see ``thermo.solver.kernel``) [-]
-    phase : str  Named in error messages
+    max_stride : int
+        Longest step off the brakes, in samples (1 = the full sample grid) [-]
+    linearised : bool
+        Kernel's linearised mode (see ``thermo.solver.kernel``) [-]
+    phase : str
+        Named in error messages
 
     Raises
     ------
-    ModelError  n_laps < 1 or a network that cannot run compiled.  SolveError  A lap failed.
+    ModelError
+        n_laps < 1 or a network that cannot run compiled.
+    SolveError
+        A lap failed.
     """
     if n_laps < 1:
         raise ModelError(f"race: n_laps must be >= 1, got {n_laps}")
@@ -121,9 +137,12 @@ class Race:
 
     Attributes
     ----------
-    corners : dict of str to RepeatedLaps  Per corner name, its laps [-]
-    wall_s : float  Wall time of the whole race, model building included [s]
-    build_s : float  The model building alone [s]
+    corners : dict of str to RepeatedLaps
+        Per corner name, its laps [-]
+    wall_s : float
+        Wall time of the whole race, model building included [s]
+    build_s : float
+        The model building alone [s]
     """
 
     corners: dict

@@ -52,18 +52,29 @@ class SettledLap:
     Attributes
     ----------
     corner : str
-    phase : str  The plan phase whose lap was repeated
-    lap_time_s : float  [s]
-    start_k : dict  Settled node temperature at the start (= end) of the lap, by network node [K]
-    peak_k : dict  Settled lap's peak of each output node [K]
-    min_k : dict  Settled lap's lowest temperature of each output node [K]
-    laps_to_1k : int  Laps from the scenario's start state (ambient) until every output node's lap
+        Corner name [-]
+    phase : str
+        The plan phase whose lap was repeated
+    lap_time_s : float
+        [s]
+    start_k : dict
+        Settled node temperature at the start (= end) of the lap, by network node [K]
+    peak_k : dict
+        Settled lap's peak of each output node [K]
+    min_k : dict
+        Settled lap's lowest temperature of each output node [K]
+    laps_to_1k : int
+        Laps from the scenario's start state (ambient) until every output node's lap
         peak is within 1 K of the settled peak (linearised count, see the module notes)
-    residual_k : float  max |F(T*) - T*| at the end [K]
-    lap_solves : int  Full-grid lap solves used (the coarse ones and the Jacobian's batched run not
+    residual_k : float
+        max |F(T*) - T*| at the end [K]
+    lap_solves : int
+        Full-grid lap solves used (the coarse ones and the Jacobian's batched run not
         counted; see ``method``)
-    method : str  How it was found
-    wall_s : float  Wall time of the search [s]
+    method : str
+        How it was found
+    wall_s : float
+        Wall time of the search [s]
     """
 
     corner: str
@@ -115,16 +126,25 @@ def settled_lap(scenario, corner_name=None, *, phase_name=None, tolerance_k=0.01
     Parameters
     ----------
     scenario : Scenario
-    corner_name : str or None  Corner, default the scenario's first
-    phase_name : str or None  Plan phase whose lap is repeated, default the first "laps" phase
-    tolerance_k : float  Stop when no node's start and end of lap differ by more than this [K]
-    settings : SolverSettings or None  rtol/atol_k of the 'fast' lap solves [-]
-    setup : tuple or None  ``lap_setup(scenario, corner_name, phase_name)`` already built (the model
+        A scenario read with ``load_scenario`` [-]
+    corner_name : str or None
+        Corner, default the scenario's first
+    phase_name : str or None
+        Plan phase whose lap is repeated, default the first "laps" phase
+    tolerance_k : float
+        Stop when no node's start and end of lap differ by more than this [K]
+    settings : SolverSettings or None
+        rtol/atol_k of the 'fast' lap solves [-]
+    setup : tuple or None
+        ``lap_setup(scenario, corner_name, phase_name)`` already built (the model
         build and its convection tables, about 0.5 s on the demo, are then not paid again)
 
     Raises
     ------
-    ScenarioError  Unknown corner or phase.  SolveError  No fixed point within MAX_ITERATIONS.
+    ScenarioError
+        Unknown corner or phase.
+    SolveError
+        No fixed point within MAX_ITERATIONS.
     """
     wall = _time.perf_counter()
     settings = SolverSettings(method="fast", rtol=scenario.solver.rtol, atol_k=scenario.solver.atol_k) \

@@ -17,7 +17,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from lapdata.units import STANDARD_GRAVITY
-from thermo.correlations import air, forced, natural
+from thermo.correlations import air, forced, internal, natural
 
 _FILM_FLOOR_K = 200.0
 
@@ -118,7 +118,7 @@ class VanePassages:
     """Air pumped through the vane passages of a vented disc (a centrifugal fan).
 
     Through-flow speed u = pumping coefficient x rim speed omega r_o, so the air mass flow rises
-    linearly with wheel speed. h from ``forced.nusselt_vented_disc_passage``: Gnielinski's
+    linearly with wheel speed. h from ``internal.nusselt_vented_disc_passage``: Gnielinski's
     developing-flow equation on the speed of the air relative to the rotating passage inlet,
     w = (u^2 + (omega r_i)^2)^(1/2), floored by Baehr-Stephan laminar developing flow on u; on a
     rotor rig this reproduces the measured, nearly linear rise of the passage h with speed
@@ -161,7 +161,7 @@ class VanePassages:
 
 
 def passage_h_area(mass_flow_kg_s, film_k, passages, speed_m_s=None) -> np.ndarray:
-    """h A of the vane passages carrying a mass flow [W/K] (``forced.nusselt_vented_disc_passage``).
+    """h A of the vane passages carrying a mass flow [W/K] (``internal.nusselt_vented_disc_passage``).
 
     The through-flow speed comes from the mass flow; the relative inlet speed adds the passage
     inlet's rotation omega r_i at the car speed ``speed_m_s`` (None: a passage at rest).
@@ -176,7 +176,7 @@ def passage_h_area(mass_flow_kg_s, film_k, passages, speed_m_s=None) -> np.ndarr
     relative = np.hypot(velocity, inlet_speed)
     nu_air = air.air_kinematic_viscosity(passages.pressure_pa, film_k)
     d_h = passages.hydraulic_diameter_m
-    nusselt = forced.nusselt_vented_disc_passage(relative * d_h / nu_air, velocity * d_h / nu_air,
+    nusselt = internal.nusselt_vented_disc_passage(relative * d_h / nu_air, velocity * d_h / nu_air,
                                                  air.air_prandtl(film_k), d_h, passages.passage_length_m)
     return nusselt * air.air_conductivity(film_k) / d_h * passages.wetted_area_m2
 
@@ -249,7 +249,7 @@ class PistonVentHoles:
         nu_air = air.air_kinematic_viscosity(self.pressure_pa, film)
         reynolds = np.maximum(velocity * self.hole_diameter_m / nu_air, 1.0)
         k_air = air.air_conductivity(film)
-        nusselt = forced.nusselt_internal_vented_vane(reynolds, air.air_prandtl(film), self.hole_diameter_m,
+        nusselt = internal.nusselt_internal_vented_vane(reynolds, air.air_prandtl(film), self.hole_diameter_m,
                                                       max(self.hole_length_m, self.hole_diameter_m))
         wetted = self.inner_area_m2 + self.hole_count * math.pi * self.hole_diameter_m * self.hole_length_m
         h_area = self.multiplier * nusselt * k_air / self.hole_diameter_m * wetted

@@ -13,13 +13,13 @@ import sys
 from typing import Callable
 
 from lapdata.suggest import did_you_mean
-from thermo.correlations import air, contact, forced, natural, radiation
+from thermo.correlations import air, contact, forced, internal, natural, radiation
 from thermo.correlations.validity import (
     VALIDITY, CorrelationWarning, get_validity_policy, reference_from_docstring, set_validity_policy,
 )
 from thermo.errors import CorrelationError
 
-_MODULES = [air, forced, natural, radiation, contact]
+_MODULES = [air, forced, internal, natural, radiation, contact]
 if importlib.util.find_spec("thermo.correlations.partition") is not None:
     # written by another module owner; its functions join the registry when decorated with
     # thermo.correlations.validity.correlation or named in its module-level REFERENCES dict

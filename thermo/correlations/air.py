@@ -38,12 +38,15 @@ def air_density(pressure_pa, temperature_k):
 
     Parameters
     ----------
-    pressure_pa : float or array  Absolute pressure [Pa]
-    temperature_k : float or array  Temperature [K]
+    pressure_pa : float or array
+        Absolute pressure [Pa]
+    temperature_k : float or array
+        Temperature [K]
 
     Returns
     -------
-    float or array  Density [kg/m^3]
+    float or array
+        Density [kg/m^3]
 
     Notes
     -----
@@ -63,11 +66,13 @@ def air_viscosity_sutherland(temperature_k):
 
     Parameters
     ----------
-    temperature_k : float or array  Temperature [K]
+    temperature_k : float or array
+        Temperature [K]
 
     Returns
     -------
-    float or array  Dynamic viscosity [Pa s]
+    float or array
+        Dynamic viscosity [Pa s]
 
     Notes
     -----
@@ -89,11 +94,13 @@ def air_conductivity(temperature_k):
 
     Parameters
     ----------
-    temperature_k : float or array  Temperature [K]
+    temperature_k : float or array
+        Temperature [K]
 
     Returns
     -------
-    float or array  Thermal conductivity [W/(m K)]
+    float or array
+        Thermal conductivity [W/(m K)]
 
     Notes
     -----
@@ -114,11 +121,13 @@ def air_specific_heat(temperature_k):
 
     Parameters
     ----------
-    temperature_k : float or array  Temperature [K]
+    temperature_k : float or array
+        Temperature [K]
 
     Returns
     -------
-    float or array  Specific heat c_p [J/(kg K)]
+    float or array
+        Specific heat c_p [J/(kg K)]
 
     Notes
     -----
@@ -139,11 +148,13 @@ def air_prandtl(temperature_k):
 
     Parameters
     ----------
-    temperature_k : float or array  Temperature [K]
+    temperature_k : float or array
+        Temperature [K]
 
     Returns
     -------
-    float or array  Prandtl number [-]
+    float or array
+        Prandtl number [-]
 
     Notes
     -----
@@ -165,12 +176,15 @@ def air_kinematic_viscosity(pressure_pa, temperature_k):
 
     Parameters
     ----------
-    pressure_pa : float or array  Absolute pressure [Pa]
-    temperature_k : float or array  Temperature [K]
+    pressure_pa : float or array
+        Absolute pressure [Pa]
+    temperature_k : float or array
+        Temperature [K]
 
     Returns
     -------
-    float or array  Kinematic viscosity [m^2/s]
+    float or array
+        Kinematic viscosity [m^2/s]
 
     Notes
     -----
@@ -191,12 +205,15 @@ def air_thermal_diffusivity(pressure_pa, temperature_k):
 
     Parameters
     ----------
-    pressure_pa : float or array  Absolute pressure [Pa]
-    temperature_k : float or array  Temperature [K]
+    pressure_pa : float or array
+        Absolute pressure [Pa]
+    temperature_k : float or array
+        Temperature [K]
 
     Returns
     -------
-    float or array  Thermal diffusivity [m^2/s]
+    float or array
+        Thermal diffusivity [m^2/s]
 
     Notes
     -----
@@ -218,11 +235,13 @@ def air_thermal_expansion(temperature_k):
 
     Parameters
     ----------
-    temperature_k : float or array  Temperature (film temperature for free convection) [K]
+    temperature_k : float or array
+        Temperature (film temperature for free convection) [K]
 
     Returns
     -------
-    float or array  Expansion coefficient beta [1/K]
+    float or array
+        Expansion coefficient beta [1/K]
 
     Notes
     -----
@@ -242,11 +261,13 @@ def pressure_at_altitude(altitude_m):
 
     Parameters
     ----------
-    altitude_m : float or array  Geopotential altitude above mean sea level [m]
+    altitude_m : float or array
+        Geopotential altitude above mean sea level [m]
 
     Returns
     -------
-    float or array  Pressure [Pa]
+    float or array
+        Pressure [Pa]
 
     Notes
     -----
@@ -268,12 +289,15 @@ def air_density_at_altitude(altitude_m, temperature_k=None):
 
     Parameters
     ----------
-    altitude_m : float or array  Geopotential altitude above mean sea level [m]
-    temperature_k : float or array or None  Air temperature; None takes the ISA value 288.15 - 0.0065 h [K]
+    altitude_m : float or array
+        Geopotential altitude above mean sea level [m]
+    temperature_k : float or array or None
+        Air temperature; None takes the ISA value 288.15 - 0.0065 h [K]
 
     Returns
     -------
-    float or array  Density [kg/m^3]
+    float or array
+        Density [kg/m^3]
 
     Notes
     -----

@@ -30,12 +30,15 @@ def conductance_contact(h_contact_w_m2k, area_m2):
 
     Parameters
     ----------
-    h_contact_w_m2k : float or array  Contact conductance coefficient h_c = 1/R''_tc [W/(m^2 K)]
-    area_m2 : float or array  Nominal (apparent) contact area [m^2]
+    h_contact_w_m2k : float or array
+        Contact conductance coefficient h_c = 1/R''_tc [W/(m^2 K)]
+    area_m2 : float or array
+        Nominal (apparent) contact area [m^2]
 
     Returns
     -------
-    float or array  Conductance G = h_c A [W/K]
+    float or array
+        Conductance G = h_c A [W/K]
 
     Notes
     -----
@@ -56,13 +59,17 @@ def conductance_slab(k, area, thickness):
 
     Parameters
     ----------
-    k : float or array  Thermal conductivity of the slab [W/(m K)]
-    area : float or array  Area normal to the heat flow [m^2]
-    thickness : float or array  Thickness along the heat flow [m]
+    k : float or array
+        Thermal conductivity of the slab [W/(m K)]
+    area : float or array
+        Area normal to the heat flow [m^2]
+    thickness : float or array
+        Thickness along the heat flow [m]
 
     Returns
     -------
-    float or array  Conductance G = k A / L [W/K]
+    float or array
+        Conductance G = k A / L [W/K]
 
     Notes
     -----
@@ -83,11 +90,13 @@ def conductance_series(*conductances_w_k):
 
     Parameters
     ----------
-    conductances_w_k : float or array  Two or more conductances, each > 0 [W/K]
+    conductances_w_k : float or array
+        Two or more conductances, each > 0 [W/K]
 
     Returns
     -------
-    float or array  Series conductance [W/K]
+    float or array
+        Series conductance [W/K]
 
     Notes
     -----
@@ -110,11 +119,13 @@ def conductance_parallel(*conductances_w_k):
 
     Parameters
     ----------
-    conductances_w_k : float or array  One or more conductances, each >= 0 [W/K]
+    conductances_w_k : float or array
+        One or more conductances, each >= 0 [W/K]
 
     Returns
     -------
-    float or array  Parallel conductance [W/K]
+    float or array
+        Parallel conductance [W/K]
 
     Notes
     -----

@@ -19,16 +19,23 @@ def rayleigh_number(expansion_1_k, delta_t_k, length_m, kinematic_viscosity_m2_s
 
     Parameters
     ----------
-    expansion_1_k : float or array  Volumetric expansion coefficient beta (1/T_film for a gas) [1/K]
-    delta_t_k : float or array  Surface minus fluid temperature; its magnitude is used [K]
-    length_m : float or array  Characteristic length (height, diameter or area/perimeter) [m]
-    kinematic_viscosity_m2_s : float or array  Kinematic viscosity of the fluid [m^2/s]
-    thermal_diffusivity_m2_s : float or array  Thermal diffusivity of the fluid [m^2/s]
-    gravity_m_s2 : float  Gravitational acceleration [m/s^2]
+    expansion_1_k : float or array
+        Volumetric expansion coefficient beta (1/T_film for a gas) [1/K]
+    delta_t_k : float or array
+        Surface minus fluid temperature; its magnitude is used [K]
+    length_m : float or array
+        Characteristic length (height, diameter or area/perimeter) [m]
+    kinematic_viscosity_m2_s : float or array
+        Kinematic viscosity of the fluid [m^2/s]
+    thermal_diffusivity_m2_s : float or array
+        Thermal diffusivity of the fluid [m^2/s]
+    gravity_m_s2 : float
+        Gravitational acceleration [m/s^2]
 
     Returns
     -------
-    float or array  Rayleigh number [-]
+    float or array
+        Rayleigh number [-]
 
     Notes
     -----
@@ -50,12 +57,15 @@ def nusselt_vertical_plate_churchill_chu(ra, pr):
 
     Parameters
     ----------
-    ra : float or array  Rayleigh number on the plate height [-]
-    pr : float or array  Prandtl number at the film temperature [-]
+    ra : float or array
+        Rayleigh number on the plate height [-]
+    pr : float or array
+        Prandtl number at the film temperature [-]
 
     Returns
     -------
-    float or array  Mean Nusselt number h L / k on the height [-]
+    float or array
+        Mean Nusselt number h L / k on the height [-]
 
     Notes
     -----
@@ -79,12 +89,15 @@ def nusselt_horizontal_cylinder_churchill_chu(ra, pr):
 
     Parameters
     ----------
-    ra : float or array  Rayleigh number on the diameter [-]
-    pr : float or array  Prandtl number at the film temperature [-]
+    ra : float or array
+        Rayleigh number on the diameter [-]
+    pr : float or array
+        Prandtl number at the film temperature [-]
 
     Returns
     -------
-    float or array  Mean Nusselt number h D / k [-]
+    float or array
+        Mean Nusselt number h D / k [-]
 
     Notes
     -----
@@ -108,11 +121,13 @@ def nusselt_horizontal_plate_upper_hot_mcadams(ra):
 
     Parameters
     ----------
-    ra : float or array  Rayleigh number on L = area / perimeter [-]
+    ra : float or array
+        Rayleigh number on L = area / perimeter [-]
 
     Returns
     -------
-    float or array  Mean Nusselt number h L / k, L = area / perimeter [-]
+    float or array
+        Mean Nusselt number h L / k, L = area / perimeter [-]
 
     Notes
     -----
@@ -135,11 +150,13 @@ def nusselt_horizontal_plate_lower_hot_mcadams(ra):
 
     Parameters
     ----------
-    ra : float or array  Rayleigh number on L = area / perimeter [-]
+    ra : float or array
+        Rayleigh number on L = area / perimeter [-]
 
     Returns
     -------
-    float or array  Mean Nusselt number h L / k, L = area / perimeter [-]
+    float or array
+        Mean Nusselt number h L / k, L = area / perimeter [-]
 
     Notes
     -----

@@ -30,13 +30,17 @@ def effusivity(conductivity_w_mk, density_kg_m3, specific_heat_j_kgk):
 
     Parameters
     ----------
-    conductivity_w_mk : float or array_like  Thermal conductivity [W/(m K)]
-    density_kg_m3 : float or array_like  Density [kg/m^3]
-    specific_heat_j_kgk : float or array_like  Specific heat capacity [J/(kg K)]
+    conductivity_w_mk : float or array_like
+        Thermal conductivity [W/(m K)]
+    density_kg_m3 : float or array_like
+        Density [kg/m^3]
+    specific_heat_j_kgk : float or array_like
+        Specific heat capacity [J/(kg K)]
 
     Returns
     -------
-    float or ndarray  Effusivity e = sqrt(k rho c) [W s^0.5 / (m^2 K)]
+    float or ndarray
+        Effusivity e = sqrt(k rho c) [W s^0.5 / (m^2 K)]
 
     Notes
     -----
@@ -68,12 +72,15 @@ def heat_partition_effusivity(e_disc, e_pad):
 
     Parameters
     ----------
-    e_disc : float or array_like  Effusivity of the disc material [W s^0.5 / (m^2 K)]
-    e_pad : float or array_like  Effusivity of the pad material [W s^0.5 / (m^2 K)]
+    e_disc : float or array_like
+        Effusivity of the disc material [W s^0.5 / (m^2 K)]
+    e_pad : float or array_like
+        Effusivity of the pad material [W s^0.5 / (m^2 K)]
 
     Returns
     -------
-    float or ndarray  Disc share gamma of the heat, between 0 and 1 [-]
+    float or ndarray
+        Disc share gamma of the heat, between 0 and 1 [-]
 
     Notes
     -----
@@ -108,14 +115,19 @@ def heat_partition_area_weighted(e_disc, e_pad, area_disc_m2, area_pad_m2):
 
     Parameters
     ----------
-    e_disc : float or array_like  Effusivity of the disc material [W s^0.5 / (m^2 K)]
-    e_pad : float or array_like  Effusivity of the pad material [W s^0.5 / (m^2 K)]
-    area_disc_m2 : float or array_like  Swept (rubbing) ring area of the disc, one face [m^2]
-    area_pad_m2 : float or array_like  Contact area of one pad [m^2]
+    e_disc : float or array_like
+        Effusivity of the disc material [W s^0.5 / (m^2 K)]
+    e_pad : float or array_like
+        Effusivity of the pad material [W s^0.5 / (m^2 K)]
+    area_disc_m2 : float or array_like
+        Swept (rubbing) ring area of the disc, one face [m^2]
+    area_pad_m2 : float or array_like
+        Contact area of one pad [m^2]
 
     Returns
     -------
-    float or ndarray  Disc share gamma of the heat, between 0 and 1 [-]
+    float or ndarray
+        Disc share gamma of the heat, between 0 and 1 [-]
 
     Notes
     -----

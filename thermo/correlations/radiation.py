@@ -29,15 +29,21 @@ def radiation_coefficient_grey_two_surface(eps1, eps2, area1, area2, view12):
 
     Parameters
     ----------
-    eps1 : float  Emissivity of surface 1 [-]
-    eps2 : float  Emissivity of surface 2 [-]
-    area1 : float  Area of surface 1 [m^2]
-    area2 : float  Area of surface 2 [m^2]
-    view12 : float  View factor from surface 1 to surface 2 [-]
+    eps1 : float
+        Emissivity of surface 1 [-]
+    eps2 : float
+        Emissivity of surface 2 [-]
+    area1 : float
+        Area of surface 1 [m^2]
+    area2 : float
+        Area of surface 2 [m^2]
+    view12 : float
+        View factor from surface 1 to surface 2 [-]
 
     Returns
     -------
-    float  Coefficient C with q_12 = C (T1^4 - T2^4) [W/K^4]
+    float
+        Coefficient C with q_12 = C (T1^4 - T2^4) [W/K^4]
 
     Notes
     -----
@@ -70,12 +76,15 @@ def radiation_coefficient_to_surroundings(eps, area):
 
     Parameters
     ----------
-    eps : float  Emissivity of the body's surface [-]
-    area : float  Radiating area of the body [m^2]
+    eps : float
+        Emissivity of the body's surface [-]
+    area : float
+        Radiating area of the body [m^2]
 
     Returns
     -------
-    float  Coefficient C with q = C (T^4 - T_sur^4) [W/K^4]
+    float
+        Coefficient C with q = C (T^4 - T_sur^4) [W/K^4]
 
     Notes
     -----
@@ -98,13 +107,17 @@ def radiation_conductance_linearised(coefficient_w_k4, t1_k, t2_k):
 
     Parameters
     ----------
-    coefficient_w_k4 : float or array  Coefficient C of q = C (T1^4 - T2^4) [W/K^4]
-    t1_k : float or array  Temperature of surface 1 [K]
-    t2_k : float or array  Temperature of surface 2 [K]
+    coefficient_w_k4 : float or array
+        Coefficient C of q = C (T1^4 - T2^4) [W/K^4]
+    t1_k : float or array
+        Temperature of surface 1 [K]
+    t2_k : float or array
+        Temperature of surface 2 [K]
 
     Returns
     -------
-    float or array  G with q = G (T1 - T2) [W/K]
+    float or array
+        G with q = G (T1 - T2) [W/K]
 
     Notes
     -----
@@ -126,13 +139,17 @@ def view_factor_coaxial_parallel_discs(radius_i, radius_j, distance):
 
     Parameters
     ----------
-    radius_i : float or array  Radius of the emitting disc i [m]
-    radius_j : float or array  Radius of the receiving disc j [m]
-    distance : float or array  Distance between the disc planes [m]
+    radius_i : float or array
+        Radius of the emitting disc i [m]
+    radius_j : float or array
+        Radius of the receiving disc j [m]
+    distance : float or array
+        Distance between the disc planes [m]
 
     Returns
     -------
-    float or array  View factor F_ij [-]
+    float or array
+        View factor F_ij [-]
 
     Notes
     -----
@@ -164,12 +181,15 @@ def view_factor_user_given(view_factor, source):
 
     Parameters
     ----------
-    view_factor : float  View factor F_12 from the emitting surface to the receiving one [-]
-    source : str  Where the value comes from (kept for the run's list of references) [-]
+    view_factor : float
+        View factor F_12 from the emitting surface to the receiving one [-]
+    source : str
+        Where the value comes from (kept for the run's list of references) [-]
 
     Returns
     -------
-    float  The same view factor [-]
+    float
+        The same view factor [-]
 
     Notes
     -----

@@ -15,7 +15,8 @@ class FixedBias:
 
     Parameters
     ----------
-    front_share : float  Front axle's share of the total brake torque, 0 to 1 [-]
+    front_share : float
+        Front axle's share of the total brake torque, 0 to 1 [-]
 
     Notes
     -----
@@ -35,16 +36,25 @@ class HydraulicBias:
 
     Parameters
     ----------
-    master_cylinder_front_m2 : float  Bore area of the front master cylinder [m^2]
-    master_cylinder_rear_m2 : float  Bore area of the rear master cylinder [m^2]
-    balance_bar_front_share : float  Share of the pushrod force the balance bar sends to the
+    master_cylinder_front_m2 : float
+        Bore area of the front master cylinder [m^2]
+    master_cylinder_rear_m2 : float
+        Bore area of the rear master cylinder [m^2]
+    balance_bar_front_share : float
+        Share of the pushrod force the balance bar sends to the
         front master cylinder, 0 to 1 [-]
-    piston_area_front_m2 : float  Summed piston area on one side of one front caliper [m^2]
-    piston_area_rear_m2 : float  Summed piston area on one side of one rear caliper [m^2]
-    pad_mu_front : float  Front pad friction coefficient [-]
-    pad_mu_rear : float  Rear pad friction coefficient [-]
-    effective_radius_front_m : float  Front effective friction radius [m]
-    effective_radius_rear_m : float  Rear effective friction radius [m]
+    piston_area_front_m2 : float
+        Summed piston area on one side of one front caliper [m^2]
+    piston_area_rear_m2 : float
+        Summed piston area on one side of one rear caliper [m^2]
+    pad_mu_front : float
+        Front pad friction coefficient [-]
+    pad_mu_rear : float
+        Rear pad friction coefficient [-]
+    effective_radius_front_m : float
+        Front effective friction radius [m]
+    effective_radius_rear_m : float
+        Rear effective friction radius [m]
 
     Notes
     -----
@@ -102,13 +112,17 @@ def front_power_share(torque_front_share: float, rolling_radius_front_m: float,
 
     Parameters
     ----------
-    torque_front_share : float  Front share of the brake torque, 0 to 1 [-]
-    rolling_radius_front_m : float  Front rolling radius [m]
-    rolling_radius_rear_m : float  Rear rolling radius [m]
+    torque_front_share : float
+        Front share of the brake torque, 0 to 1 [-]
+    rolling_radius_front_m : float
+        Front rolling radius [m]
+    rolling_radius_rear_m : float
+        Rear rolling radius [m]
 
     Returns
     -------
-    float  Front share of the brake power [-]
+    float
+        Front share of the brake power [-]
 
     Notes
     -----
@@ -129,12 +143,15 @@ def split_left_right(power_axle, left_share: float = 0.5):
 
     Parameters
     ----------
-    power_axle : float or ndarray  Brake power of the axle [W]
-    left_share : float  Left corner's share, 0 to 1 [-]
+    power_axle : float or ndarray
+        Brake power of the axle [W]
+    left_share : float
+        Left corner's share, 0 to 1 [-]
 
     Returns
     -------
-    tuple  (left, right) brake power [W]; they sum to ``power_axle``
+    tuple
+        (left, right) brake power [W]; they sum to ``power_axle``
     """
     check_number("split_left_right", "left_share", left_share, minimum=0.0, maximum=1.0)
     power = np.asarray(power_axle, dtype=float)

@@ -29,14 +29,22 @@ class CornerBrake:
 
     Parameters
     ----------
-    name : str  Corner name, e.g. ``front_left``
-    axle : str  'front' or 'rear'
-    side : str  'left' or 'right'
-    partition : float  Disc share gamma of the friction heat, 0 to 1 (the pad takes 1 - gamma) [-]
-    piston_area_one_side_m2 : float  Summed piston area on one side of the caliper [m^2]
-    pad_mu : float  Pad-disc friction coefficient [-]
-    effective_radius_m : float  Effective friction radius [m]
-    rolling_radius_m : float  Rolling radius of this wheel; must equal the vehicle's for this
+    name : str
+        Corner name, e.g. ``front_left``
+    axle : str
+        'front' or 'rear'
+    side : str
+        'left' or 'right'
+    partition : float
+        Disc share gamma of the friction heat, 0 to 1 (the pad takes 1 - gamma) [-]
+    piston_area_one_side_m2 : float
+        Summed piston area on one side of the caliper [m^2]
+    pad_mu : float
+        Pad-disc friction coefficient [-]
+    effective_radius_m : float
+        Effective friction radius [m]
+    rolling_radius_m : float
+        Rolling radius of this wheel; must equal the vehicle's for this
         axle [m]
     """
 
@@ -76,12 +84,18 @@ class CornerDuty:
 
     Parameters
     ----------
-    name : str  Corner name
-    time_s : ndarray  Sample times [s]
-    disc_heat_w : ndarray  Friction heat into the disc [W]
-    pad_heat_w : ndarray  Friction heat into the pad [W]
-    wheel_speed_rad_s : ndarray  Wheel (and disc) angular speed [rad/s]
-    vehicle_speed_mps : ndarray  Vehicle speed [m/s]
+    name : str
+        Corner name
+    time_s : ndarray
+        Sample times [s]
+    disc_heat_w : ndarray
+        Friction heat into the disc [W]
+    pad_heat_w : ndarray
+        Friction heat into the pad [W]
+    wheel_speed_rad_s : ndarray
+        Wheel (and disc) angular speed [rad/s]
+    vehicle_speed_mps : ndarray
+        Vehicle speed [m/s]
     """
 
     name: str
@@ -189,24 +203,36 @@ def corner_heat_inputs(time_s, speed_mps, vehicle: VehicleParameters, bias,
 
     Parameters
     ----------
-    time_s : ndarray  Sample times, strictly increasing [s]
-    speed_mps : ndarray  Vehicle speed [m/s]
-    vehicle : VehicleParameters  The car (mass and resistances; rolling radii for the power split)
-    bias : FixedBias or HydraulicBias or None  Torque bias for method='energy'; must be None for
+    time_s : ndarray
+        Sample times, strictly increasing [s]
+    speed_mps : ndarray
+        Vehicle speed [m/s]
+    vehicle : VehicleParameters
+        The car (mass and resistances; rolling radii for the power split)
+    bias : FixedBias or HydraulicBias or None
+        Torque bias for method='energy'; must be None for
         method='pressure' (the pressures set the bias)
-    corners : sequence of CornerBrake  The corners to compute (any subset of the four)
-    method : str  'energy' (speed trace) or 'pressure' (line pressure per axle)
-    pressure_front_pa, pressure_rear_pa : ndarray or None  Line pressures, method='pressure' [Pa]
-    left_share_front, left_share_rear : float or None  Left corner's share of its axle, energy
+    corners : sequence of CornerBrake
+        The corners to compute (any subset of the four)
+    method : str
+        'energy' (speed trace) or 'pressure' (line pressure per axle)
+    pressure_front_pa, pressure_rear_pa : ndarray or None
+        Line pressures, method='pressure' [Pa]
+    left_share_front, left_share_rear : float or None
+        Left corner's share of its axle, energy
         method; None is 0.5 [-]
-    grade_rad : float or ndarray or None  Road grade, positive uphill, energy method [rad]
-    accel_mps2 : ndarray or None  Measured acceleration, energy method; None derives it [m/s^2]
-    smoothing_window_s : float or None  Energy method filter window; None is
+    grade_rad : float or ndarray or None
+        Road grade, positive uphill, energy method [rad]
+    accel_mps2 : ndarray or None
+        Measured acceleration, energy method; None derives it [m/s^2]
+    smoothing_window_s : float or None
+        Energy method filter window; None is
         ``DEFAULT_SMOOTHING_WINDOW_S`` [s]
 
     Returns
     -------
-    dict  Corner name to :class:`CornerDuty`
+    dict
+        Corner name to :class:`CornerDuty`
 
     Notes
     -----

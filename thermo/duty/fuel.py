@@ -16,17 +16,22 @@ def fuel_mass_by_lap(fuel_start_kg: float, consumption_kg_per_lap: float, n_laps
 
     Parameters
     ----------
-    fuel_start_kg : float  Fuel at the start of lap 1 [kg]
-    consumption_kg_per_lap : float  Fuel burnt per lap [kg]
-    n_laps : int  Laps in the stint
+    fuel_start_kg : float
+        Fuel at the start of lap 1 [kg]
+    consumption_kg_per_lap : float
+        Fuel burnt per lap [kg]
+    n_laps : int
+        Laps in the stint
 
     Returns
     -------
-    ndarray  Fuel at the start of laps 1..n_laps [kg]
+    ndarray
+        Fuel at the start of laps 1..n_laps [kg]
 
     Raises
     ------
-    ScenarioError  If the fuel runs out before the end of the stint, naming the lap.
+    ScenarioError
+        If the fuel runs out before the end of the stint, naming the lap.
     """
     check_number("fuel_mass_by_lap", "fuel_start_kg", fuel_start_kg, minimum=0.0)
     check_number("fuel_mass_by_lap", "consumption_kg_per_lap", consumption_kg_per_lap, minimum=0.0)
@@ -48,16 +53,23 @@ def braking_energy_by_lap(time_s, speed_mps, vehicle: VehicleParameters, fuel_kg
 
     Parameters
     ----------
-    time_s : ndarray  Sample times of one lap [s]
-    speed_mps : ndarray  Vehicle speed over that lap [m/s]
-    vehicle : VehicleParameters  The car (its own fuel_kg is replaced lap by lap)
-    fuel_kg_by_lap : ndarray  Fuel for each lap, e.g. from :func:`fuel_mass_by_lap` [kg]
-    grade_rad : float or ndarray or None  Road grade, positive uphill [rad]
-    smoothing_window_s : float  Filter window of the energy method [s]
+    time_s : ndarray
+        Sample times of one lap [s]
+    speed_mps : ndarray
+        Vehicle speed over that lap [m/s]
+    vehicle : VehicleParameters
+        The car (its own fuel_kg is replaced lap by lap)
+    fuel_kg_by_lap : ndarray
+        Fuel for each lap, e.g. from :func:`fuel_mass_by_lap` [kg]
+    grade_rad : float or ndarray or None
+        Road grade, positive uphill [rad]
+    smoothing_window_s : float
+        Filter window of the energy method [s]
 
     Returns
     -------
-    ndarray  Braking energy of each lap [J]
+    ndarray
+        Braking energy of each lap [J]
     """
     fuel = np.atleast_1d(np.asarray(fuel_kg_by_lap, dtype=float))
     return np.array([

@@ -70,14 +70,19 @@ def resistive_work_per_interval_j(time_s, speed_mps, vehicle: VehicleParameters,
 
     Parameters
     ----------
-    time_s : ndarray  Sample times, strictly increasing [s]
-    speed_mps : ndarray  Vehicle speed [m/s]
-    vehicle : VehicleParameters  The car
-    grade_rad : float or ndarray or None  Road grade, positive uphill; None is level [rad]
+    time_s : ndarray
+        Sample times, strictly increasing [s]
+    speed_mps : ndarray
+        Vehicle speed [m/s]
+    vehicle : VehicleParameters
+        The car
+    grade_rad : float or ndarray or None
+        Road grade, positive uphill; None is level [rad]
 
     Returns
     -------
-    ndarray  Work on each of the n - 1 intervals [J]
+    ndarray
+        Work on each of the n - 1 intervals [J]
 
     Notes
     -----
@@ -115,19 +120,26 @@ def brake_energy_per_interval(time_s, speed_mps, vehicle: VehicleParameters, *, 
 
     Parameters
     ----------
-    time_s : ndarray  Sample times, strictly increasing [s]
-    speed_mps : ndarray  Vehicle speed [m/s]
-    vehicle : VehicleParameters  The car
-    grade_rad : float or ndarray or None  Road grade, positive uphill; None is level [rad]
-    accel_mps2 : ndarray or None  Measured longitudinal acceleration, positive forwards; None
+    time_s : ndarray
+        Sample times, strictly increasing [s]
+    speed_mps : ndarray
+        Vehicle speed [m/s]
+    vehicle : VehicleParameters
+        The car
+    grade_rad : float or ndarray or None
+        Road grade, positive uphill; None is level [rad]
+    accel_mps2 : ndarray or None
+        Measured longitudinal acceleration, positive forwards; None
         takes the deceleration from the speed [m/s^2]
-    smoothing_window_s : float  Zero-phase filter window that decides where the brakes are on
+    smoothing_window_s : float
+        Zero-phase filter window that decides where the brakes are on
         (:func:`lapdata.signal.smoothed_acceleration`, or the measured channel smoothed alike);
         0 turns the filter off [s]
 
     Returns
     -------
-    ndarray  Brake energy on each of the n - 1 intervals, never negative [J]
+    ndarray
+        Brake energy on each of the n - 1 intervals, never negative [J]
 
     Notes
     -----
@@ -169,12 +181,15 @@ def power_from_interval_energy(time_s, energy_j):
 
     Parameters
     ----------
-    time_s : ndarray  Sample times, strictly increasing [s]
-    energy_j : ndarray  Energy on each of the n - 1 intervals [J]
+    time_s : ndarray
+        Sample times, strictly increasing [s]
+    energy_j : ndarray
+        Energy on each of the n - 1 intervals [J]
 
     Returns
     -------
-    ndarray  Power at each of the n samples [W]
+    ndarray
+        Power at each of the n samples [W]
 
     Notes
     -----
@@ -203,16 +218,23 @@ def braking_power_energy_method(time_s, speed_mps, vehicle: VehicleParameters, *
 
     Parameters
     ----------
-    time_s : ndarray  Sample times, strictly increasing [s]
-    speed_mps : ndarray  Vehicle speed [m/s]
-    vehicle : VehicleParameters  The car
-    grade_rad : float or ndarray or None  Road grade, positive uphill; None is level [rad]
-    accel_mps2 : ndarray or None  Measured longitudinal acceleration, positive forwards [m/s^2]
-    smoothing_window_s : float  Window of the filter that decides where the brakes are on [s]
+    time_s : ndarray
+        Sample times, strictly increasing [s]
+    speed_mps : ndarray
+        Vehicle speed [m/s]
+    vehicle : VehicleParameters
+        The car
+    grade_rad : float or ndarray or None
+        Road grade, positive uphill; None is level [rad]
+    accel_mps2 : ndarray or None
+        Measured longitudinal acceleration, positive forwards [m/s^2]
+    smoothing_window_s : float
+        Window of the filter that decides where the brakes are on [s]
 
     Returns
     -------
-    ndarray  Power into all four brakes at each sample [W]. NOT the instantaneous
+    ndarray
+        Power into all four brakes at each sample [W]. NOT the instantaneous
         max(F_brakes, 0) v: the sample value is the time-weighted mean of the interval-mean
         powers either side (see :func:`power_from_interval_energy`), so the trapezoid integral
         of the returned array is exactly the braking energy of :func:`brake_energy_per_interval`.
@@ -242,9 +264,12 @@ class Caliper:
 
     Parameters
     ----------
-    piston_area_one_side_m2 : float  Summed area of all pistons on one side (one pad) [m^2]
-    pad_mu : float  Pad-disc friction coefficient [-]
-    effective_radius_m : float  Radius at which the friction force acts on the disc [m]
+    piston_area_one_side_m2 : float
+        Summed area of all pistons on one side (one pad) [m^2]
+    pad_mu : float
+        Pad-disc friction coefficient [-]
+    effective_radius_m : float
+        Radius at which the friction force acts on the disc [m]
     """
 
     piston_area_one_side_m2: float
@@ -262,14 +287,19 @@ def braking_torque_pressure_method(pressure_pa, piston_area_one_side_m2, pad_mu,
 
     Parameters
     ----------
-    pressure_pa : float or ndarray  Line pressure, gauge; negative values count as 0 [Pa]
-    piston_area_one_side_m2 : float  Summed area of all pistons on one side [m^2]
-    pad_mu : float  Pad-disc friction coefficient [-]
-    effective_radius_m : float  Effective friction radius [m]
+    pressure_pa : float or ndarray
+        Line pressure, gauge; negative values count as 0 [Pa]
+    piston_area_one_side_m2 : float
+        Summed area of all pistons on one side [m^2]
+    pad_mu : float
+        Pad-disc friction coefficient [-]
+    effective_radius_m : float
+        Effective friction radius [m]
 
     Returns
     -------
-    float or ndarray  Brake torque on the disc [N m]
+    float or ndarray
+        Brake torque on the disc [N m]
 
     Notes
     -----
@@ -291,14 +321,19 @@ def braking_power_pressure_method(pressure_pa, speed_mps, caliper: Caliper, roll
 
     Parameters
     ----------
-    pressure_pa : float or ndarray  Line pressure of that corner [Pa]
-    speed_mps : float or ndarray  Vehicle speed [m/s]
-    caliper : Caliper  Piston area, pad friction coefficient and effective radius
-    rolling_radius_m : float  Rolling radius of that wheel [m]
+    pressure_pa : float or ndarray
+        Line pressure of that corner [Pa]
+    speed_mps : float or ndarray
+        Vehicle speed [m/s]
+    caliper : Caliper
+        Piston area, pad friction coefficient and effective radius
+    rolling_radius_m : float
+        Rolling radius of that wheel [m]
 
     Returns
     -------
-    float or ndarray  Brake power P = T v / r_roll at each sample [W]
+    float or ndarray
+        Brake power P = T v / r_roll at each sample [W]
     """
     check_number("braking_power_pressure_method", "rolling_radius_m", rolling_radius_m, positive=True)
     v = np.asarray(speed_mps, dtype=float)

@@ -16,15 +16,24 @@ class CornerEnergy:
 
     Parameters
     ----------
-    name : str  Corner name
-    braking_energy_j : float  Disc plus pad heat, trapezoid integral over the trace [J]
-    disc_energy_j : float  Heat into the disc [J]
-    pad_energy_j : float  Heat into the pad [J]
-    duration_s : float  Length of the trace [s]
-    braking_time_s : float  Total length of the sample intervals with heat input [s]
-    mean_power_w : float  Braking energy over the whole trace duration [W]
-    mean_braking_power_w : float  Braking energy over the braking time (0 if no braking) [W]
-    peak_power_w : float  Largest sample of disc plus pad heat [W]
+    name : str
+        Corner name
+    braking_energy_j : float
+        Disc plus pad heat, trapezoid integral over the trace [J]
+    disc_energy_j : float
+        Heat into the disc [J]
+    pad_energy_j : float
+        Heat into the pad [J]
+    duration_s : float
+        Length of the trace [s]
+    braking_time_s : float
+        Total length of the sample intervals with heat input [s]
+    mean_power_w : float
+        Braking energy over the whole trace duration [W]
+    mean_braking_power_w : float
+        Braking energy over the braking time (0 if no braking) [W]
+    peak_power_w : float
+        Largest sample of disc plus pad heat [W]
     """
 
     name: str

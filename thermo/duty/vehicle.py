@@ -31,17 +31,27 @@ class VehicleParameters:
 
     Parameters
     ----------
-    mass_kg : float  Car with driver, without fuel [kg]
-    fuel_kg : float  Fuel on board [kg]
-    drag_cd_a_m2 : float  Drag coefficient times frontal area, C_d A [m^2]
-    downforce_cl_a_m2 : float  Downforce coefficient times area, C_L A, positive down [m^2]
-    rolling_resistance_coefficient : float  Tyre rolling resistance coefficient C_rr [-]
-    rolling_radius_front_m : float  Loaded rolling radius of the front tyres [m]
-    rolling_radius_rear_m : float  Loaded rolling radius of the rear tyres [m]
-    air_density_kg_m3 : float  Ambient air density [kg/m^3]
-    rotating_inertia_factor : float  Rotating parts as a share of the mass,
+    mass_kg : float
+        Car with driver, without fuel [kg]
+    fuel_kg : float
+        Fuel on board [kg]
+    drag_cd_a_m2 : float
+        Drag coefficient times frontal area, C_d A [m^2]
+    downforce_cl_a_m2 : float
+        Downforce coefficient times area, C_L A, positive down [m^2]
+    rolling_resistance_coefficient : float
+        Tyre rolling resistance coefficient C_rr [-]
+    rolling_radius_front_m : float
+        Loaded rolling radius of the front tyres [m]
+    rolling_radius_rear_m : float
+        Loaded rolling radius of the rear tyres [m]
+    air_density_kg_m3 : float
+        Ambient air density [kg/m^3]
+    rotating_inertia_factor : float
+        Rotating parts as a share of the mass,
         m_eff = m (1 + factor); default 0.04 [-]
-    engine_braking_force_n : float  Engine overrun force at the tyres, constant while braking;
+    engine_braking_force_n : float
+        Engine overrun force at the tyres, constant while braking;
         default 0 [N]
     """
 

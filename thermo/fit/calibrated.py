@@ -29,11 +29,16 @@ def calibrated_text(text: str, result, fit_date: str, *, measured: str, pinned=(
 
     Parameters
     ----------
-    text : str  The original scenario text [-]
-    result : FitResult  The fit [-]
-    fit_date : str  ISO date of the fit, written beside each value [-]
-    measured : str  The logged file the fit used, named in the table's comment [-]
-    pinned : sequence of (dotted key, str)  Extra overrides, e.g. plan files made absolute [-]
+    text : str
+        The original scenario text [-]
+    result : FitResult
+        The fit [-]
+    fit_date : str
+        ISO date of the fit, written beside each value [-]
+    measured : str
+        The logged file the fit used, named in the table's comment [-]
+    pinned : sequence of (dotted key, str)
+        Extra overrides, e.g. plan files made absolute [-]
     """
     body = strip_calibrated(text).rstrip("\n")
     lines = ["", "", f"# Written by `brakeheat fit` on {fit_date} from {printable(measured)}.",

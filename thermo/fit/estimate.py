@@ -188,12 +188,15 @@ def fit_scenario(scenario: Scenario, measured_path) -> FitResult:
 
     Parameters
     ----------
-    scenario : Scenario  Read with load_scenario; must have a [calibration] table [-]
-    measured_path : str or Path  The logged CSV (speed and distance, temp_* channels) [-]
+    scenario : Scenario
+        Read with load_scenario; must have a [calibration] table [-]
+    measured_path : str or Path
+        The logged CSV (speed and distance, temp_* channels) [-]
 
     Raises
     ------
-    FitError  No [calibration], unmapped or missing channels, a log that does not overlap the run,
+    FitError
+        No [calibration], unmapped or missing channels, a log that does not overlap the run,
         held-out laps not in the log.
     """
     cal = scenario.calibration

@@ -11,13 +11,17 @@ def first_order_lag(time_s, signal, time_constant_s):
 
     Parameters
     ----------
-    time_s : array_like  Strictly increasing sample times [s]
-    signal : array_like  Input u at those times (e.g. a node temperature) [K]
-    time_constant_s : float  Sensor time constant tau; 0 returns the input unchanged [s]
+    time_s : array_like
+        Strictly increasing sample times [s]
+    signal : array_like
+        Input u at those times (e.g. a node temperature) [K]
+    time_constant_s : float
+        Sensor time constant tau; 0 returns the input unchanged [s]
 
     Returns
     -------
-    ndarray  Lagged signal y at the sample times [K]
+    ndarray
+        Lagged signal y at the sample times [K]
 
     Notes
     -----
@@ -51,11 +55,16 @@ def sensor_reading(time_s, node_temperature_k, lag_s: float, offset_k: float, at
 
     Parameters
     ----------
-    time_s : array_like  Model output times [s]
-    node_temperature_k : array_like  Node temperature at those times [K]
-    lag_s : float  Sensor time constant [s]
-    offset_k : float  Reading minus true temperature [K]
-    at_time_s : array_like  Times of the logged samples, within the model's span [s]
+    time_s : array_like
+        Model output times [s]
+    node_temperature_k : array_like
+        Node temperature at those times [K]
+    lag_s : float
+        Sensor time constant [s]
+    offset_k : float
+        Reading minus true temperature [K]
+    at_time_s : array_like
+        Times of the logged samples, within the model's span [s]
     """
     lagged = first_order_lag(time_s, node_temperature_k, lag_s)
     return np.interp(at_time_s, time_s, lagged) + offset_k

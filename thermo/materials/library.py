@@ -80,18 +80,30 @@ class Material:
 
     Parameters
     ----------
-    name : str  Material name, as in the data file [-]
-    density_kg_m3 : float  Density [kg/m^3]
-    specific_heat_table : tuple  (temperatures, specific heats) [K], [J/(kg K)]
-    conductivity_table : tuple  (temperatures, conductivities), through-thickness [K], [W/(m K)]
-    emissivity : float or None  Nominal total hemispherical emissivity; None for an enclosed fluid [-]
-    sources : dict  Property name -> source text [-]
-    description : str  One line saying what the material is [-]
-    emissivity_range : tuple or None  (low, high) plausible emissivities [-]
-    emissivity_table : tuple or None  (temperatures, emissivities) [K], [-]
-    conductivity_in_plane_table : tuple or None  (temperatures, conductivities) in-plane [K], [W/(m K)]
-    service_limit_k : float or None  Highest temperature for service of a part of this material [K]
-    service_limit_basis : str  What that limit is (strength halved, maker's rating ...) [-]
+    name : str
+        Material name, as in the data file [-]
+    density_kg_m3 : float
+        Density [kg/m^3]
+    specific_heat_table : tuple
+        (temperatures, specific heats) [K], [J/(kg K)]
+    conductivity_table : tuple
+        (temperatures, conductivities), through-thickness [K], [W/(m K)]
+    emissivity : float or None
+        Nominal total hemispherical emissivity; None for an enclosed fluid [-]
+    sources : dict
+        Property name -> source text [-]
+    description : str
+        One line saying what the material is [-]
+    emissivity_range : tuple or None
+        (low, high) plausible emissivities [-]
+    emissivity_table : tuple or None
+        (temperatures, emissivities) [K], [-]
+    conductivity_in_plane_table : tuple or None
+        (temperatures, conductivities) in-plane [K], [W/(m K)]
+    service_limit_k : float or None
+        Highest temperature for service of a part of this material [K]
+    service_limit_basis : str
+        What that limit is (strength halved, maker's rating ...) [-]
     """
 
     name: str

@@ -177,7 +177,8 @@ def atomic_path(path):
 
     Parameters
     ----------
-    path : str or os.PathLike  Final file path [-]
+    path : str or os.PathLike
+        Final file path [-]
     """
     target = Path(path)
     directory = target.parent if str(target.parent) else Path(".")
@@ -208,9 +209,12 @@ def atomic_write(path, mode: str = "w", encoding: str | None = "utf-8"):
 
     Parameters
     ----------
-    path : str or os.PathLike  Final file path [-]
-    mode : str  ``"w"`` (text) or ``"wb"`` (binary) [-]
-    encoding : str or None  Text encoding, ignored in binary mode [-]
+    path : str or os.PathLike
+        Final file path [-]
+    mode : str
+        ``"w"`` (text) or ``"wb"`` (binary) [-]
+    encoding : str or None
+        Text encoding, ignored in binary mode [-]
     """
     if mode not in ("w", "wb"):
         raise OutputError(f"atomic_write {path}: mode must be 'w' or 'wb', got {shown(mode)}")

@@ -184,8 +184,10 @@ def write_results_hdf5(results: Results, path) -> None:
 
     Parameters
     ----------
-    results : Results  A finished run [-]
-    path : str or os.PathLike  Destination .h5 file [-]
+    results : Results
+        A finished run [-]
+    path : str or os.PathLike
+        Destination .h5 file [-]
     """
     _unique([c.name for c in results.corners], "corner", f"{path}")
     with atomic_path(path) as tmp:
@@ -305,11 +307,13 @@ def read_results_hdf5(path) -> Results:
 
     Parameters
     ----------
-    path : str or os.PathLike  A .h5 file in the brakeheat-results layout [-]
+    path : str or os.PathLike
+        A .h5 file in the brakeheat-results layout [-]
 
     Returns
     -------
-    Results  The run as written: arrays bit-identical, every field equal [-]
+    Results
+        The run as written: arrays bit-identical, every field equal [-]
     """
     try:
         handle = h5py.File(path, "r")

@@ -140,11 +140,16 @@ def comparison_html(data: dict, runs: list[tuple[str, Results]], *, warnings=(),
 
     Parameters
     ----------
-    data : dict  ``Comparison.as_dict()``: the variants (baseline first) and their changes [-]
-    runs : list of (str, Results)  The same runs, baseline first (overrides, scenario text, plots) [-]
-    warnings : sequence of str  Warnings of the comparison itself (a variant that moves the bias) [-]
-    generated : datetime or None  When the page was made (None: now) [-]
-    plots : bool  Embed the overlay and margin-gain plots as inline SVG [-]
+    data : dict
+        ``Comparison.as_dict()``: the variants (baseline first) and their changes [-]
+    runs : list of (str, Results)
+        The same runs, baseline first (overrides, scenario text, plots) [-]
+    warnings : sequence of str
+        Warnings of the comparison itself (a variant that moves the bias) [-]
+    generated : datetime or None
+        When the page was made (None: now) [-]
+    plots : bool
+        Embed the overlay and margin-gain plots as inline SVG [-]
     """
     base = runs[0][1]
     when = (generated or datetime.datetime.now(datetime.timezone.utc)).strftime("%Y-%m-%d %H:%M UTC")

@@ -308,12 +308,15 @@ def plot_run(results: Results, out_dir) -> list[Path]:
 
     Parameters
     ----------
-    results : Results  A finished run [-]
-    out_dir : str or os.PathLike  Folder for the PNG files [-]
+    results : Results
+        A finished run [-]
+    out_dir : str or os.PathLike
+        Folder for the PNG files [-]
 
     Returns
     -------
-    list of Path  One temperature plot per corner, the lap peak plot (when the run has laps)
+    list of Path
+        One temperature plot per corner, the lap peak plot (when the run has laps)
         and the heat path plot (when heat left through a named group) [-]
     """
     out = Path(out_dir)
@@ -394,12 +397,15 @@ def plot_comparison(variant_results: list[tuple[str, Results]], out_dir) -> list
 
     Parameters
     ----------
-    variant_results : list of (str, Results)  Named variants, the first is the baseline [-]
-    out_dir : str or os.PathLike  Folder for the PNG files [-]
+    variant_results : list of (str, Results)
+        Named variants, the first is the baseline [-]
+    out_dir : str or os.PathLike
+        Folder for the PNG files [-]
 
     Returns
     -------
-    list of Path  One overlay per corner of the baseline, then the margin-gain bar chart
+    list of Path
+        One overlay per corner of the baseline, then the margin-gain bar chart
         (only when there are at least two variants) [-]
     """
     if not variant_results:

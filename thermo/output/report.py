@@ -188,12 +188,15 @@ def format_run_report(results: Results, lap_rows: int | None = None) -> str:
 
     Parameters
     ----------
-    results : Results  A finished run [-]
-    lap_rows : int or None  About how many rows each per-lap table shows (None: the compact default) [-]
+    results : Results
+        A finished run [-]
+    lap_rows : int or None
+        About how many rows each per-lap table shows (None: the compact default) [-]
 
     Returns
     -------
-    str  The report, lines separated by newlines [-]
+    str
+        The report, lines separated by newlines [-]
     """
     head = [f"brakeheat run report: {results.scenario_name}",
             f"brakeheat {results.version}, solver {results.solver}: {results.solver_status}"]

@@ -111,11 +111,13 @@ def summary_dict(results: Results) -> dict:
 
     Parameters
     ----------
-    results : Results  A finished run [-]
+    results : Results
+        A finished run [-]
 
     Returns
     -------
-    dict  Keys scenario, version, solver, solver_status, caution, overrides, warnings, references, corners,
+    dict
+        Keys scenario, version, solver, solver_status, caution, overrides, warnings, references, corners,
         hydraulics (null for results read from a file written before it) [-]
     """
     return {
@@ -153,8 +155,10 @@ def write_summary_json(results: Results, path) -> None:
 
     Parameters
     ----------
-    results : Results  A finished run [-]
-    path : str or os.PathLike  Destination .json file [-]
+    results : Results
+        A finished run [-]
+    path : str or os.PathLike
+        Destination .json file [-]
     """
     text = summary_json(results)
     with atomic_write(path, "w") as handle:

@@ -77,18 +77,25 @@ def format_table(headers, rows, *, align=None, indent: str = "  ", max_text_widt
 
     Parameters
     ----------
-    headers : sequence of str  Column titles, units in brackets [-]
-    rows : sequence of sequences  Cells, formatted by the caller (None shows as "-") [-]
-    align : sequence of {"left", "right", None} or None  Per column; None: right when every
+    headers : sequence of str
+        Column titles, units in brackets [-]
+    rows : sequence of sequences
+        Cells, formatted by the caller (None shows as "-") [-]
+    align : sequence of {"left", "right", None} or None
+        Per column; None: right when every
         cell of the column reads as a number (:func:`is_number`), else left [-]
-    indent : str  Put before every line [-]
-    max_text_width : int  Longer text (not numbers) in a column other than the last is
+    indent : str
+        Put before every line [-]
+    max_text_width : int
+        Longer text (not numbers) in a column other than the last is
         abbreviated, with a key below [characters]
-    rule : bool  Draw the line of dashes under the header [-]
+    rule : bool
+        Draw the line of dashes under the header [-]
 
     Returns
     -------
-    list of str  The lines, without trailing spaces [-]
+    list of str
+        The lines, without trailing spaces [-]
     """
     headers = [str(h) for h in headers]
     n = len(headers)

@@ -138,9 +138,12 @@ def parse_calibration(table, corners, source: str) -> Calibration | None:
 
     Parameters
     ----------
-    table : dict or None  The parsed [calibration] table [-]
-    corners : sequence of CornerDesign  The scenario's corners (names and disc layers) [-]
-    source : str  Scenario file, for messages [-]
+    table : dict or None
+        The parsed [calibration] table [-]
+    corners : sequence of CornerDesign
+        The scenario's corners (names and disc layers) [-]
+    source : str
+        Scenario file, for messages [-]
     """
     if table is None:
         return None

@@ -21,7 +21,8 @@ class Comparison:
 
     Attributes
     ----------
-    runs : tuple of (str, Results)  (name, results), the baseline first [-]
+    runs : tuple of (str, Results)
+        (name, results), the baseline first [-]
     """
 
     runs: tuple[tuple[str, Results], ...]
@@ -173,16 +174,22 @@ def compare(path, *, variants=(), overrides=(), only=None, keep_bias=None) -> Co
 
     Parameters
     ----------
-    path : str or Path  Scenario TOML file [-]
-    variants : sequence  More variants as [NAME, "KEY=VALUE", ...] lists [-]
-    overrides : sequence  (dotted key, value) pairs applied to every run [-]
-    only : sequence of str or None  Run only these variants [-]
-    keep_bias : str or None  "balance_bar" or "rear_master_cylinder": re-balance variants that move
+    path : str or Path
+        Scenario TOML file [-]
+    variants : sequence
+        More variants as [NAME, "KEY=VALUE", ...] lists [-]
+    overrides : sequence
+        (dotted key, value) pairs applied to every run [-]
+    only : sequence of str or None
+        Run only these variants [-]
+    keep_bias : str or None
+        "balance_bar" or "rear_master_cylinder": re-balance variants that move
         the front share back to the baseline's (``keep_bias_plans``); None: leave them [-]
 
     Returns
     -------
-    Comparison  The runs, the baseline first [-]
+    Comparison
+        The runs, the baseline first [-]
     """
     plans = plan_comparison(Path(path), overrides, variants, only)
     rebalanced = {}

@@ -52,9 +52,11 @@ def study_executor(scheduler: str | None = None, workers: int | None = None):
 
     Parameters
     ----------
-    scheduler : str or None  None (local processes), "local" (a Dask LocalCluster) or the address of
+    scheduler : str or None
+        None (local processes), "local" (a Dask LocalCluster) or the address of
         a running Dask scheduler [-]
-    workers : int or None  Local processes or LocalCluster workers (default: the CPU cores); 1 with
+    workers : int or None
+        Local processes or LocalCluster workers (default: the CPU cores); 1 with
         no scheduler runs in this process [-]
     """
     if workers is not None and workers < 1:

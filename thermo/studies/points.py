@@ -24,12 +24,18 @@ class StudyJob:
 
     Attributes
     ----------
-    scenario_path : str  The scenario TOML file [-]
-    overrides : tuple of (str, object)  ``--set`` overrides applied to every point, before its own [-]
-    keys : tuple of str  The dotted keys each point sets, in the order of its values [-]
-    stints : int  Run the plan up to and including its ``stints``-th pit stop (0: the whole plan) [-]
-    settle : bool  Also the laps each corner takes to settle (``thermo.chain.settle``) [-]
-    keep_series : bool  Keep each point's stored temperature series (memory grows with the points) [-]
+    scenario_path : str
+        The scenario TOML file [-]
+    overrides : tuple of (str, object)
+        ``--set`` overrides applied to every point, before its own [-]
+    keys : tuple of str
+        The dotted keys each point sets, in the order of its values [-]
+    stints : int
+        Run the plan up to and including its ``stints``-th pit stop (0: the whole plan) [-]
+    settle : bool
+        Also the laps each corner takes to settle (``thermo.chain.settle``) [-]
+    keep_series : bool
+        Keep each point's stored temperature series (memory grows with the points) [-]
     """
 
     scenario_path: str

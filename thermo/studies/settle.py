@@ -9,14 +9,18 @@ def settle(scenario, *, corners=None, phase=None) -> list:
 
     Parameters
     ----------
-    scenario : Scenario  A scenario read with ``load_scenario`` [-]
-    corners : sequence of str or None  Corner names (None: every corner) [-]
-    phase : str or None  The 'laps' phase whose lap is repeated (None: the first) [-]
+    scenario : Scenario
+        A scenario read with ``load_scenario`` [-]
+    corners : sequence of str or None
+        Corner names (None: every corner) [-]
+    phase : str or None
+        The 'laps' phase whose lap is repeated (None: the first) [-]
 
     Returns
     -------
-    list of SettledLap  One per corner (``thermo.chain.settle.SettledLap``: peaks, minima, laps to
-    within 1 K from ambient) [-]
+    list of SettledLap
+        One per corner (``thermo.chain.settle.SettledLap``: peaks, minima, laps to
+        within 1 K from ambient) [-]
     """
     from thermo.chain.settle import settled_lap
 

@@ -134,21 +134,32 @@ def sweep(path, vary, *, zip_keys=False, overrides=(), stints=0, settle=False, k
 
     Parameters
     ----------
-    path : str or Path  Scenario TOML file [-]
-    vary : sequence of str or Varied  "KEY=SPEC" texts (see the module notes) or ``Varied`` [-]
-    zip_keys : bool  The keys go together point by point instead of a full grid [-]
-    overrides : sequence of (str, object)  Applied to every point first (``--set``) [-]
-    stints : int  Run the plan up to and including its n-th pit stop (0: the whole plan) [-]
-    settle : bool  Also each corner's laps to settle [-]
-    keep_series : bool  Keep each point's temperature series (memory grows with the points) [-]
+    path : str or Path
+        Scenario TOML file [-]
+    vary : sequence of str or Varied
+        "KEY=SPEC" texts (see the module notes) or ``Varied`` [-]
+    zip_keys : bool
+        The keys go together point by point instead of a full grid [-]
+    overrides : sequence of (str, object)
+        Applied to every point first (``--set``) [-]
+    stints : int
+        Run the plan up to and including its n-th pit stop (0: the whole plan) [-]
+    settle : bool
+        Also each corner's laps to settle [-]
+    keep_series : bool
+        Keep each point's temperature series (memory grows with the points) [-]
     scheduler, workers, chunk_size : see ``thermo.studies.engine`` [-]
-    checkpoint : str or Path or None  The study file (sweep.h5) rewritten after each chunk [-]
-    resume : bool  Continue the study in ``checkpoint`` without redoing its finished points [-]
-    progress : callable or None  ``progress(points_done, points_total)`` [-]
+    checkpoint : str or Path or None
+        The study file (sweep.h5) rewritten after each chunk [-]
+    resume : bool
+        Continue the study in ``checkpoint`` without redoing its finished points [-]
+    progress : callable or None
+        ``progress(points_done, points_total)`` [-]
 
     Returns
     -------
-    StudyRecord  Every point's values and result (``sweep_dict`` makes the JSON) [-]
+    StudyRecord
+        Every point's values and result (``sweep_dict`` makes the JSON) [-]
     """
     from thermo.studies.engine import run_study
     from thermo.studies.points import StudyJob

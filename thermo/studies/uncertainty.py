@@ -240,14 +240,17 @@ def uncertainty(path, *, overrides=(), samples=None, seed=None, sampling=None, s
 
     Parameters
     ----------
-    path : str or Path  Scenario TOML file with an ``[uncertainty]`` table [-]
-    overrides : sequence of (str, object)  Applied to every sample first (``--set``) [-]
+    path : str or Path
+        Scenario TOML file with an ``[uncertainty]`` table [-]
+    overrides : sequence of (str, object)
+        Applied to every sample first (``--set``) [-]
     samples, seed, sampling, stints : replace the table's values when given [-]
     settle, scheduler, workers, chunk_size, checkpoint, resume, progress : as ``thermo.studies.sweep.sweep`` [-]
 
     Returns
     -------
-    (UncertaintyPlan, StudyRecord)  The plan and every sample's result; ``uncertainty_dict``
+    (UncertaintyPlan, StudyRecord)
+        The plan and every sample's result; ``uncertainty_dict``
         makes the statistics [-]
     """
     from thermo.scenario import load_scenario
