@@ -24,9 +24,10 @@ from thermo.chain.settle import lap_setup
 from thermo.errors import SolveError
 from thermo.network import Schedule
 from thermo.scenario import load_scenario
-from thermo.solver import batch, kernel, kernel_lanes
-from thermo.solver.batch import (MIN_LANES, KernelNetwork, kernel_inputs, kernel_network, lane_width,
-                                 scaled, solve_batch)
+from thermo.solver import kernel, kernel_arrays, kernel_lanes
+from thermo.solver.batch import solve_batch
+from thermo.solver.kernel_arrays import (MIN_LANES, KernelNetwork, kernel_inputs, kernel_network, lane_width,
+                                         scaled)
 from thermo.solver.grids import graded_grid
 
 SMALL = Path(__file__).resolve().parents[1] / "data" / "small.toml"
@@ -93,14 +94,14 @@ def reruns(monkeypatch):
 def one_core_widths(monkeypatch):
     """``lane_width`` as on a one-core machine (W = min(LANES, B)), so that the automatic choice in
     ``run_laps`` and ``solve_batch`` takes the lanes whatever the core count of the test machine."""
-    original = batch.lane_width
-    monkeypatch.setattr(batch, "lane_width", lambda configurations, cores=None: original(configurations, 1))
+    original = kernel_arrays.lane_width
+    monkeypatch.setattr(kernel_arrays, "lane_width", lambda configurations, cores=None: original(configurations, 1))
 
 
 def alone(kb, inputs, T0, b, n_laps, weights, record):
     """Configuration b of a batch run by itself: B = 1 takes the one-configuration kernel."""
     one = kb.subset([b])
-    assert batch.lane_width(one.size) < MIN_LANES
+    assert kernel_arrays.lane_width(one.size) < MIN_LANES
     return one.run_laps(inputs, T0[b:b + 1], n_laps, weights, record)
 
 
@@ -135,7 +136,7 @@ def test_the_configurations_really_differ(lap, varied, singles):
 @pytest.mark.parametrize("width", [1, 3, 4, 8, 64, None])
 def test_lanes_equal_each_configuration_alone(lap, varied, singles, reruns, width):
     kb, T0, record = varied["kb"], varied["T0"], varied["record"]
-    weights = batch._sparse_weights(lap["W"])
+    weights = kernel_arrays._sparse_weights(lap["W"])
     res, peaks = kb._run_lanes(lap["inputs"], T0, N_LAPS, weights, record, width)
     assert reruns == [], "no lane may be flagged here: the lanes themselves must have computed every row"
     n_rec = int(np.count_nonzero(record))
@@ -203,7 +204,7 @@ def test_a_lane_off_the_table_is_rerun_and_reports_its_own_status(lap, reruns, h
     assert 1 <= failed_lap < N_LAPS
     assert np.all(np.isfinite(ref_peaks[0, :failed_lap])) and np.all(np.isnan(ref_peaks[0, failed_lap + 1:]))
     del reruns[:]
-    weights = batch._sparse_weights(W)
+    weights = kernel_arrays._sparse_weights(W)
     res, peaks = kb._run_lanes(inputs, T0, N_LAPS, weights, record, width)
     assert reruns == [[hot]], "exactly the hot configuration goes back to the one-configuration kernel"
     np.testing.assert_array_equal(peaks[hot], ref_peaks[0])                     # NaN where never driven
@@ -223,7 +224,7 @@ def test_a_lane_off_the_table_is_rerun_and_reports_its_own_status(lap, reruns, h
     assert np.abs(res.final[hot] - res_c.final[hot]).max() > 1.0
     # without output weights the rerun takes none either
     del reruns[:]
-    res0, peaks0 = kb._run_lanes(inputs, T0, N_LAPS, batch._sparse_weights(None), record, width)
+    res0, peaks0 = kb._run_lanes(inputs, T0, N_LAPS, kernel_arrays._sparse_weights(None), record, width)
     assert reruns == [[hot]] and peaks0.shape == (8, N_LAPS, 0)
     np.testing.assert_array_equal(res0.status, res.status)
     np.testing.assert_array_equal(res0.final, res.final)
@@ -248,7 +249,7 @@ def test_lanes_flag_exactly_the_configurations_whose_own_run_leaves_the_table(la
     assert lap["net"].conv_grid.node_max_k - 15.0 < own[failed[0] - 1].peak[0].max() < lap["net"].conv_grid.node_max_k
     assert all(2 * inputs.h.size <= own[b].fail_step[0] < 3 * inputs.h.size for b in failed)
     del reruns[:]
-    res, peaks = kb._run_lanes(inputs, T0, N_LAPS, batch._sparse_weights(None), np.zeros(inputs.grid.size, bool),
+    res, peaks = kb._run_lanes(inputs, T0, N_LAPS, kernel_arrays._sparse_weights(None), np.zeros(inputs.grid.size, bool),
                                width)
     assert reruns == [failed.tolist()]
     for b in range(kb.size):
@@ -278,7 +279,7 @@ def test_a_lane_whose_end_state_alone_is_off_the_table_is_flagged(lap, reruns, w
     assert end.final[0].max() > net.conv_grid.node_max_k > below.final[0].max()
     assert below.status[0] == kernel.STATUS_OK
     del reruns[:]
-    res, peaks = kb._run_lanes(inputs, T0, 1, batch._sparse_weights(None), np.zeros(N + 1, bool), width)
+    res, peaks = kb._run_lanes(inputs, T0, 1, kernel_arrays._sparse_weights(None), np.zeros(N + 1, bool), width)
     assert reruns == [[1]]
     for b in range(kb.size):
         assert_same_configuration(res, peaks, b, *runs[b], f"end state, width {width}")
@@ -381,7 +382,7 @@ def test_a_weak_pivot_lane_is_rerun_and_equals_its_own_run(lap, reruns):
     assert np.all(np.isfinite(own[weak][0].final)) and own[weak][0].final[0, node] < 400.0
     assert own[weak][0].peak[0, node] == 405.0, "the plate cools from its start, it never runs away"
     del reruns[:]
-    res, peaks = kb._run_lanes(inputs, T0, N_LAPS, batch._sparse_weights(W), np.zeros(N + 1, dtype=bool), 4)
+    res, peaks = kb._run_lanes(inputs, T0, N_LAPS, kernel_arrays._sparse_weights(W), np.zeros(N + 1, dtype=bool), 4)
     assert reruns == [[weak]], "only the weak-pivot lane is flagged"
     for b in range(8):
         assert_same_configuration(res, peaks, b, *own[b], "weak pivot")
@@ -438,7 +439,7 @@ def test_lanes_close_the_first_law_on_the_demo_lap(reruns):
     ss = rng.uniform(0.5, 1.3, (Bd, n))
     kb = scaled(kn, link_scale=rng.uniform(0.6, 1.5, (Bd, L)), capacity_scale=cs, source_scale=ss)
     T0 = demo["ambient"] + rng.uniform(0.0, 200.0, (Bd, 1)) + rng.uniform(0.0, 20.0, (Bd, n))
-    res, _ = kb._run_lanes(demo["inputs"], T0, 1, batch._sparse_weights(None), np.zeros(demo["grid"].size, bool), 4)
+    res, _ = kb._run_lanes(demo["inputs"], T0, 1, kernel_arrays._sparse_weights(None), np.zeros(demo["grid"].size, bool), 4)
     assert reruns == [] and np.all(res.status == kernel.STATUS_OK)
     # heat in: the piecewise linear source signals integrate exactly by the trapezoidal rule
     # (numpy.trapezoid) on the schedule's samples, times each node's (scaled) share of each signal
@@ -490,7 +491,7 @@ def test_constant_boundaries_read_presliced_tables_and_varying_ones_the_full_tab
     assert not slot_sliced2[to_boundary].any()
     # the pad-disc interface (node to node, G independent of the temperatures) is always sliced
     assert slot_sliced2[~to_boundary].all() and (~to_boundary).sum() == 1
-    res, peaks = kb._run_lanes(inputs, T0, 2, batch._sparse_weights(lap["W"]), varied["record"], 4)
+    res, peaks = kb._run_lanes(inputs, T0, 2, kernel_arrays._sparse_weights(lap["W"]), varied["record"], 4)
     for b in (0, 6, B - 1):
         ref, ref_peaks = alone(kb, inputs, T0, b, 2, lap["W"], varied["record"])
         assert_same_configuration(res, peaks, b, ref, ref_peaks, f"varying boundary, configuration {b}")

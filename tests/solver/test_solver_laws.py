@@ -4,7 +4,7 @@ The flow of each link kind with its slopes, the table interpolation and the enth
 written once and used by the numpy assembler (``CompiledNetwork.flows``, its Jacobian,
 ``CapacityTable``, ``tabulate.lookup``), by the compiled one-configuration kernels
 (``kernel._flows``, ``kernel._capacity_enthalpy``), by the lane kernel (``kernel_lanes._flows_lanes``,
-``_capacity_lanes``) and by the batch's energy bookkeeping (``batch._enthalpy``). Here all of
+``_capacity_lanes``) and by the batch's energy bookkeeping (``kernel_arrays.enthalpy``). Here all of
 them are evaluated on random states of a random network and compared; the laws themselves are
 checked against the Stefan-Boltzmann law and the exact integral of C(T).
 """
@@ -19,8 +19,8 @@ from thermo.network import laws
 from thermo.network.assemble import compile_network
 from thermo.network.elements import REFERENCE_TEMPERATURE_K
 from thermo.network.tabulate import ConductanceGrid, TabulatedConductance, lookup
-from thermo.solver import batch, kernel, kernel_lanes
-from thermo.solver.batch import KernelInputs, kernel_network
+from thermo.solver import kernel, kernel_arrays, kernel_lanes
+from thermo.solver.kernel_arrays import KernelInputs, kernel_network
 
 GRID = ConductanceGrid(driver_min=0.0, driver_max=60.0, driver_step=2.0, node_min_k=250.0, node_max_k=1250.0,
                        node_step_k=10.0, boundary_min_k=280.0, boundary_max_k=340.0, boundary_step_k=5.0)
@@ -196,7 +196,7 @@ def test_heat_capacity_and_enthalpy_agree_everywhere(case):
         kernel._capacity_enthalpy(T, capacities, C, H)
         np.testing.assert_allclose(C, caps.capacity(T), rtol=1e-13)
         np.testing.assert_allclose(H, caps.enthalpy(T), rtol=1e-12, atol=1e-9)
-        np.testing.assert_allclose(batch._enthalpy(kn, 0, T), H, rtol=1e-12, atol=1e-9)
+        np.testing.assert_allclose(kernel_arrays.enthalpy(kn, 0, T), H, rtol=1e-12, atol=1e-9)
     # the lane kernel, eight lanes of different states
     Ts = rng.uniform(150.0, 1600.0, (net.n_nodes, 8))
     _, lane_capacities = kernel._configuration(lane_arrays(kn, inputs, 8), 0)

@@ -42,7 +42,7 @@ from thermo.errors import SolveError
 from thermo.network.assemble import CompiledNetwork
 from thermo.network.schedule import Schedule
 from thermo.solver import kernel
-from thermo.solver.batch import KernelInputs, kernel_inputs, kernel_network
+from thermo.solver.kernel_arrays import KernelInputs, kernel_inputs, kernel_network
 from thermo.solver.grids import graded_grid
 from thermo.solver.segments import output_grid, split_long_steps, time_grid
 from thermo.solver.settings import SolverSettings
@@ -90,18 +90,9 @@ def _integrate_compiled(net, knet, inputs: KernelInputs, schedule, initial_k, se
         what = {kernel.STATUS_NEWTON: "Newton did not converge",
                 kernel.STATUS_NONFINITE: "produced non-finite temperatures"}[code]
         raise SolveError(f"phase '{phase}': method fast: {what} at t = {t_fail:.6g} s")
-    temps, flows = res.temps[0], res.flows[0]
-    link_energy = res.link_energy[0]
-    final = res.final[0]
-    stored = float(np.sum(net.capacities.enthalpy(final) - net.capacities.enthalpy(initial_k)))
-    lost = float(np.sum(link_energy[net.link_to_boundary]))
-    for array in (temps, flows, link_energy):
-        array.setflags(write=False)
-    return NetworkSolution(
-        time_s=np.asarray(out_t, dtype=float), node_names=net.node_names, temperatures_k=temps,
-        link_names=net.link_names, link_flows_w=flows, link_energy_j=link_energy,
-        heat_in_j=float(res.heat_in[0]), stored_j=stored, lost_j=lost, status="success",
-        nfev=int(res.counts[0, 0]), njev=int(res.counts[0, 1]), final_k=final.copy(), method="fast", phase=phase)
+    return finish_solution(net, schedule, out_t, res.temps[0], initial_k, res.final[0], res.heat_in[0],
+                           res.link_energy[0], res.counts[0, 0], res.counts[0, 1], "fast", phase,
+                           flows_w=res.flows[0])
 
 
 # ---------------------------------------------------------------------- the numpy stepper

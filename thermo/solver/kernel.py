@@ -2,8 +2,9 @@
 
 This is the numba-compiled core of method 'fast' (``thermo.solver.fast``) and of batched runs
 (``thermo.solver.batch``). A single run is a batch of one. Everything the kernel needs is a plain
-array (``thermo.solver.batch.KernelNetwork``); the schedule's signals are sampled or integrated beforehand, in numpy,
-on the grid and at the TR-BDF2 stage times, so the kernel never calls back into Python.
+array (``thermo.solver.kernel_arrays.KernelNetwork``, passed as the namedtuples below); the
+schedule's signals are sampled or integrated beforehand, in numpy, on the grid and at the TR-BDF2
+stage times, so the kernel never calls back into Python.
 
 Scheme (per step of length h, gamma = 2 - sqrt(2), d = gamma/2, w = sqrt(2)/4), on node enthalpies:
 
@@ -97,7 +98,7 @@ class KernelResult(NamedTuple):
     counts: np.ndarray      # (B, 2) flow and matrix evaluations
 
 
-# a batch of configurations as the kernels read it (``thermo.solver.batch.KernelNetwork.arrays``): shared
+# a batch of configurations as the kernels read it (``kernel_arrays.KernelNetwork.arrays``): shared
 # arrays, and per-configuration rows (B, ...) (the lane kernel: blocks (K, ..., W), tables flattened)
 NetworkArrays = namedtuple("NetworkArrays", (
     "link_a", "link_b", "kind", "par", "conv_slot", "conv_drv", "tables", "tix", "gp", "sliced", "slot_sliced",

@@ -23,6 +23,17 @@ corner; the energy balance closes to it (about 1e-5 relative on the demo), not t
 ``n_laps``: the grid is driven that many times carrying the state (a race of identical laps); the
 flows are evaluated afresh at each lap's start, each lap's peak of every output (a weighted node
 sum) is kept, and after the last step the end state's own table lookup is checked.
+
+Why this step loop is not merged with the full-Newton one (``kernel._advance_one``; issue 18):
+the two share their skeleton (set-up, sources, the stage matrix at T_n, checks, energies, peaks,
+records) and differ only in how the two stages are solved. One loop for both, the mode a run-time
+flag, measured 3-7 % slower a step (demo corner, one core, ``kernel.advance`` and this module's
+call timed beside the separate loops in one session, minimum of 84 runs each: full Newton 4.72
+against 4.59 us, linearised 3.10 against 2.90 us). Compiled once per mode (the mode a constant
+of a closure, so each compiled loop lacks the other's branch), the linearised loop was level
+(2.89 against 2.84 us) but full Newton still about 5 % slower (4.87 against 4.6-4.9 us; the lap
+loop and the output peaks it then carries). So the loops stay apart; what they share is in
+``thermo.solver.kernel`` (flows, capacities, factorisation, residual, sources, scratch).
 """
 from __future__ import annotations
 

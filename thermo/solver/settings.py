@@ -33,7 +33,7 @@ class SolverSettings:
     heated_max_step_samples : float  Bound on the step inside heated segments, in sample intervals
         of that segment [-]
     max_stride : int  'fast' only: longest step while no heat source is on, in schedule samples;
-        1 steps on every sample, more steps on the graded grid of ``thermo.solver.batch.graded_grid``
+        1 steps on every sample, more steps on the graded grid of ``thermo.solver.grids.graded_grid``
         (every sample while a source is on). The outputs are then the step grid's points [-]
     linearised : bool  'fast' only: one linearised solve a step instead of Newton iterations
         (``thermo.solver.kernel_linearised``; the tolerances then do not apply) [-]

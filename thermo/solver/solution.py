@@ -71,20 +71,48 @@ class NetworkSolution:
         return float(series[i]), float(self.time_s[i])
 
 
+def energy_totals(enthalpy, initial_k, final_k, link_energy_j, link_to_boundary) -> tuple:
+    """Heat stored and lost over a run [J]: the rise of the nodes' enthalpy and the heat carried by
+    the links that end at a boundary, toward it.
+
+    Parameters
+    ----------
+    enthalpy : callable
+        Node enthalpies [J] of temperatures (..., n_nodes) [K].
+    initial_k, final_k : ndarray (..., n_nodes)
+        Temperatures at the start and the end [K].
+    link_energy_j : ndarray (..., n_links)
+        Heat carried by each link [J].
+    link_to_boundary : ndarray of bool (n_links,)
+        True where a link's second end is a boundary.
+
+    Returns
+    -------
+    tuple
+        (stored [J], lost [J]), each of shape (...).
+    """
+    stored = np.sum(enthalpy(final_k) - enthalpy(initial_k), axis=-1)
+    lost = np.sum(np.asarray(link_energy_j)[..., link_to_boundary], axis=-1)
+    return stored, lost
+
+
 def finish_solution(compiled, schedule, time_s, temperatures_k, initial_k, final_k, heat_in_j,
-                    link_energy_j, nfev, njev, method, phase, status="success") -> NetworkSolution:
-    """Build a ``NetworkSolution``: link flows at the output times and the energy totals."""
+                    link_energy_j, nfev, njev, method, phase, status="success", flows_w=None) -> NetworkSolution:
+    """Build a ``NetworkSolution`` of every integrator: the link flows at the output times (from the
+    assembler unless the integrator gives them, ``flows_w`` (n_t, n_links) [W]), the energy totals
+    (``energy_totals``), the arrays read-only."""
     temps = np.asarray(temperatures_k, dtype=float)
-    boundary_k, drivers = compiled.inputs_series(time_s, schedule)
-    flows = compiled.flows(temps, boundary_k, drivers)
+    if flows_w is None:
+        boundary_k, drivers = compiled.inputs_series(time_s, schedule)
+        flows_w = compiled.flows(temps, boundary_k, drivers)
+    flows = np.asarray(flows_w, dtype=float)
     link_energy = np.asarray(link_energy_j, dtype=float)
-    stored = float(np.sum(compiled.capacities.enthalpy(np.asarray(final_k))
-                          - compiled.capacities.enthalpy(np.asarray(initial_k))))
-    lost = float(np.sum(link_energy[compiled.link_to_boundary]))
+    stored, lost = energy_totals(compiled.capacities.enthalpy, np.asarray(initial_k), np.asarray(final_k),
+                                 link_energy, compiled.link_to_boundary)
     for array in (temps, flows, link_energy):
         array.setflags(write=False)
     return NetworkSolution(
         time_s=np.asarray(time_s, dtype=float), node_names=compiled.node_names, temperatures_k=temps,
         link_names=compiled.link_names, link_flows_w=flows, link_energy_j=link_energy,
-        heat_in_j=float(heat_in_j), stored_j=stored, lost_j=lost, status=status, nfev=int(nfev),
+        heat_in_j=float(heat_in_j), stored_j=float(stored), lost_j=float(lost), status=status, nfev=int(nfev),
         njev=int(njev), final_k=np.array(final_k, dtype=float), method=method, phase=phase)
