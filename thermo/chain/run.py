@@ -116,7 +116,7 @@ def forget_cached_tables() -> None:
     so that its memory holds one configuration's tables, not hundreds (about 6 MB each)."""
     from thermo.corner import build
     from thermo.network import assemble
-    from thermo.solver import batch
+    from thermo.solver import kernel_arrays
     build._tabulated.cache_clear()
     assemble._stacked_tables.cache_clear()
-    batch._unique_stack.cache_clear()
+    kernel_arrays._unique_stack.cache_clear()

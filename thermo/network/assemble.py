@@ -46,11 +46,16 @@ class CompiledNetwork:
     Attributes
     ----------
     node_names, boundary_names, link_names, link_groups : tuple of str
-    link_a : ndarray of int  Node index of each link's first end
-    link_b : ndarray of int  Index of each link's second end in [nodes..., boundaries...]
-    link_to_boundary : ndarray of bool  True where a link's second end is a boundary
-    incidence : ndarray (n_nodes, n_links)  D above
-    driver_names, source_signals : tuple of str  Signals feeding drivers and heat sources
+    link_a : ndarray of int
+        Node index of each link's first end
+    link_b : ndarray of int
+        Index of each link's second end in [nodes..., boundaries...]
+    link_to_boundary : ndarray of bool
+        True where a link's second end is a boundary
+    incidence : ndarray (n_nodes, n_links)
+        D above
+    driver_names, source_signals : tuple of str
+        Signals feeding drivers and heat sources
     """
 
     def __init__(self, network: Network):
@@ -210,9 +215,12 @@ class CompiledNetwork:
 
         Parameters
         ----------
-        T_nodes : array_like (..., n_nodes)  Node temperatures [K]
-        boundary_k : array_like (..., n_boundaries)  Boundary temperatures, in ``boundary_names`` order [K]
-        driver_values : array_like (..., n_drivers)  Driver signals, in ``driver_names`` order [driver unit]
+        T_nodes : array_like (..., n_nodes)
+            Node temperatures [K]
+        boundary_k : array_like (..., n_boundaries)
+            Boundary temperatures, in ``boundary_names`` order [K]
+        driver_values : array_like (..., n_drivers)
+            Driver signals, in ``driver_names`` order [driver unit]
         """
         Ta, Tb = self._ends(T_nodes, boundary_k)
         g = self._unscaled_conductances(T_nodes, boundary_k, driver_values) if self._conv else None

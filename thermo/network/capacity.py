@@ -21,7 +21,8 @@ class CapacityTable:
 
     Parameters
     ----------
-    capacities : sequence of HeatCapacity  One per node, in node order
+    capacities : sequence of HeatCapacity
+        One per node, in node order
     """
 
     def __init__(self, capacities):

@@ -22,9 +22,12 @@ class HeatCapacity:
 
     Parameters
     ----------
-    mass_kg : float  Mass of the node [kg]
-    temperatures_k : tuple of float  Table temperatures, strictly increasing [K]
-    specific_heat_j_kgk : tuple of float  Specific heat at those temperatures [J/(kg K)]
+    mass_kg : float
+        Mass of the node [kg]
+    temperatures_k : tuple of float
+        Table temperatures, strictly increasing [K]
+    specific_heat_j_kgk : tuple of float
+        Specific heat at those temperatures [J/(kg K)]
     """
 
     mass_kg: float

@@ -23,8 +23,10 @@ class Schedule:
 
     Parameters
     ----------
-    time_s : array_like  Sample times, strictly increasing, at least two [s]
-    signals : mapping of str to array_like  One value per sample for each signal [signal unit]
+    time_s : array_like
+        Sample times, strictly increasing, at least two [s]
+    signals : mapping of str to array_like
+        One value per sample for each signal [signal unit]
 
     Outside ``[time_s[0], time_s[-1]]`` a signal has no value: asking for one is a ``ModelError``.
     """

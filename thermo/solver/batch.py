@@ -44,14 +44,23 @@ class BatchSolution:
     Attributes
     ----------
     node_names : tuple of str
-    time_s : ndarray (n_out,)  Times at which temperatures were kept [s]
-    temperatures_k : ndarray (B, n_out, n_nodes)  [K]
-    peak_k : ndarray (B, n_nodes)  Highest temperature of each node on the grid [K]
-    peak_time_s : ndarray (B, n_nodes)  When it occurred [s]
-    final_k : ndarray (B, n_nodes)  [K]
-    heat_in_j, stored_j, lost_j : ndarray (B,)  Energy totals [J]
-    link_energy_j : ndarray (B, n_links)  [J]
-    steps : int  Grid steps taken
+        The network's nodes, the order of every per-node axis [-]
+    time_s : ndarray (n_out,)
+        Times at which temperatures were kept [s]
+    temperatures_k : ndarray (B, n_out, n_nodes)
+        [K]
+    peak_k : ndarray (B, n_nodes)
+        Highest temperature of each node on the grid [K]
+    peak_time_s : ndarray (B, n_nodes)
+        When it occurred [s]
+    final_k : ndarray (B, n_nodes)
+        [K]
+    heat_in_j, stored_j, lost_j : ndarray (B,)
+        Energy totals [J]
+    link_energy_j : ndarray (B, n_links)
+        [J]
+    steps : int
+        Grid steps taken
     """
 
     node_names: tuple
@@ -84,25 +93,37 @@ def solve_batch(networks, schedule: Schedule, initial_k, settings: SolverSetting
 
     Parameters
     ----------
-    networks : KernelNetwork or sequence of Network/CompiledNetwork  The configurations
-    schedule : Schedule  Shared duty: sources [W], boundary temperatures [K], drivers
-    initial_k : array_like (n_nodes,) or (B, n_nodes)  Start temperatures [K]
-    settings : SolverSettings  rtol, atol_k and max_step_s are used (method is ignored: this is
+    networks : KernelNetwork or sequence of Network/CompiledNetwork
+        The configurations
+    schedule : Schedule
+        Shared duty: sources [W], boundary temperatures [K], drivers
+    initial_k : array_like (n_nodes,) or (B, n_nodes)
+        Start temperatures [K]
+    settings : SolverSettings
+        rtol, atol_k and max_step_s are used (method is ignored: this is
         always the compiled 'fast' scheme) [-]
-    t_start, t_end : float or None  Interval, default the whole schedule [s]
-    output_times : array_like or None  Times at which to keep temperatures (added to the grid);
+    t_start, t_end : float or None
+        Interval, default the whole schedule [s]
+    output_times : array_like or None
+        Times at which to keep temperatures (added to the grid);
         None keeps only the final state, the peaks and the energies [s]
-    grid : array_like or None  Time grid; default the schedule's samples (``graded_grid`` gives
+    grid : array_like or None
+        Time grid; default the schedule's samples (``graded_grid`` gives
         a coarser one) [s]
-    phase : str  Named in error messages
-    linearised : bool  The linearised mode: each stage linearised once, no Newton iteration, so
+    phase : str
+        Named in error messages
+    linearised : bool
+        The linearised mode: each stage linearised once, no Newton iteration, so
         rtol and atol_k do not apply; configurations side by side in lanes for larger batches
         (peaks within about 0.005 K of full Newton on the demo; see
         ``thermo.solver.kernel_linearised`` and ``thermo.solver.kernel_lanes``) [-]
 
     Raises
     ------
-    ModelError  Mixed topologies, bad shapes.  SolveError  A configuration failed (named).
+    ModelError
+        Mixed topologies, bad shapes.
+    SolveError
+        A configuration failed (named).
     """
     settings = SolverSettings(method="fast") if settings is None else settings
     kn = networks if isinstance(networks, KernelNetwork) else batch_network(list(networks))

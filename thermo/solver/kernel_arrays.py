@@ -373,10 +373,14 @@ def scaled(base: KernelNetwork, link_scale=None, capacity_scale=None, source_sca
 
     Parameters
     ----------
-    base : KernelNetwork  One configuration (B = 1)
-    link_scale : array_like (B, n_links) or None  Multiplies each link's G, c or convection G [-]
-    capacity_scale : array_like (B, n_nodes) or None  Multiplies each node's mass [-]
-    source_scale : array_like (B,) or (B, n_nodes) or None  Multiplies the heat into each node [-]
+    base : KernelNetwork
+        One configuration (B = 1)
+    link_scale : array_like (B, n_links) or None
+        Multiplies each link's G, c or convection G [-]
+    capacity_scale : array_like (B, n_nodes) or None
+        Multiplies each node's mass [-]
+    source_scale : array_like (B,) or (B, n_nodes) or None
+        Multiplies the heat into each node [-]
     """
     if base.size != 1:
         raise ModelError(f"batch: scaled() needs a one-configuration base, got {base.size}")

@@ -135,24 +135,34 @@ def solve_network(network, schedule: Schedule, initial_k, settings: SolverSettin
 
     Parameters
     ----------
-    network : Network or CompiledNetwork  The heat network
-    schedule : Schedule  Heat sources [W], boundary temperatures [K] and drivers
-    initial_k : array_like (n_nodes,)  Node temperatures at ``t_start`` [K]
-    settings : SolverSettings  Integrator and tolerances (default ``SolverSettings()``)
-    t_start, t_end : float or None  Solve interval, default the whole schedule [s]
-    output_times : array_like or None  Output times within the interval, default the schedule's
+    network : Network or CompiledNetwork
+        The heat network
+    schedule : Schedule
+        Heat sources [W], boundary temperatures [K] and drivers
+    initial_k : array_like (n_nodes,)
+        Node temperatures at ``t_start`` [K]
+    settings : SolverSettings
+        Integrator and tolerances (default ``SolverSettings()``)
+    t_start, t_end : float or None
+        Solve interval, default the whole schedule [s]
+    output_times : array_like or None
+        Output times within the interval, default the schedule's
         samples there plus both ends (for 'fast' with ``settings.max_stride`` > 1: the points of
         its graded step grid) [s]
-    phase : str  Name of this phase, used in error messages
+    phase : str
+        Name of this phase, used in error messages
 
     Returns
     -------
     NetworkSolution
+        Temperatures at the kept times, link flows, peaks and the energy totals [-]
 
     Raises
     ------
-    ModelError  A signal the network needs is missing, or the inputs are malformed.
-    SolveError  The integrator failed: the message names the phase and the time reached.
+    ModelError
+        A signal the network needs is missing, or the inputs are malformed.
+    SolveError
+        The integrator failed: the message names the phase and the time reached.
     """
     settings = SolverSettings() if settings is None else settings
     if not isinstance(settings, SolverSettings):

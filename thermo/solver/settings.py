@@ -18,24 +18,33 @@ class SolverSettings:
 
     Parameters
     ----------
-    method : str  'LSODA' (default), 'BDF', 'Radau' (scipy's stiff integrators), 'RK45' (explicit,
+    method : str
+        'LSODA' (default), 'BDF', 'Radau' (scipy's stiff integrators), 'RK45' (explicit,
         for non-stiff checks only; it uses no Jacobian) or 'fast' (TR-BDF2 on the schedule's own
         time grid, ``thermo.solver.fast``) [-]
-    rtol : float  Relative tolerance; for 'fast' the Newton convergence test [-]
-    atol_k : float  Absolute tolerance on temperatures; energies get atol_k x total heat capacity [K]
-    max_step_s : float or None  Largest step anywhere; for 'fast', sample intervals longer than this
+    rtol : float
+        Relative tolerance; for 'fast' the Newton convergence test [-]
+    atol_k : float
+        Absolute tolerance on temperatures; energies get atol_k x total heat capacity [K]
+    max_step_s : float or None
+        Largest step anywhere; for 'fast', sample intervals longer than this
         are split [s]
-    restart_at_edges : bool  Restart the integration wherever a heat source switches between zero
+    restart_at_edges : bool
+        Restart the integration wherever a heat source switches between zero
         and non-zero, and bound the step inside heated segments (scipy methods; 'fast' always steps
         on every sample, so it requires True) [-]
-    use_jacobian : bool  Give the stiff integrators the analytic Jacobian; False makes them
+    use_jacobian : bool
+        Give the stiff integrators the analytic Jacobian; False makes them
         difference it numerically ('fast' then differences it too) [-]
-    heated_max_step_samples : float  Bound on the step inside heated segments, in sample intervals
+    heated_max_step_samples : float
+        Bound on the step inside heated segments, in sample intervals
         of that segment [-]
-    max_stride : int  'fast' only: longest step while no heat source is on, in schedule samples;
+    max_stride : int
+        'fast' only: longest step while no heat source is on, in schedule samples;
         1 steps on every sample, more steps on the graded grid of ``thermo.solver.grids.graded_grid``
         (every sample while a source is on). The outputs are then the step grid's points [-]
-    linearised : bool  'fast' only: one linearised solve a step instead of Newton iterations
+    linearised : bool
+        'fast' only: one linearised solve a step instead of Newton iterations
         (``thermo.solver.kernel_linearised``; the tolerances then do not apply) [-]
     """
 

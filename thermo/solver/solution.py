@@ -17,21 +17,36 @@ class NetworkSolution:
 
     Attributes
     ----------
-    time_s : ndarray (n_t,)  Output times [s]
+    time_s : ndarray (n_t,)
+        Output times [s]
     node_names : tuple of str
-    temperatures_k : ndarray (n_t, n_nodes)  [K]
+        The network's nodes, the order of every per-node axis [-]
+    temperatures_k : ndarray (n_t, n_nodes)
+        [K]
     link_names : tuple of str
-    link_flows_w : ndarray (n_t, n_links)  Positive from a link's first end to its second [W]
-    link_energy_j : ndarray (n_links,)  Heat carried by each link over the phase [J]
-    heat_in_j : float  Heat put in by all sources [J]
-    stored_j : float  Rise of the nodes' enthalpy, from ``HeatCapacity.enthalpy`` [J]
-    lost_j : float  Heat carried by links that end at a boundary, toward it [J]
-    status : str  'success' or a message
-    nfev : int  Right-hand side evaluations, those of finite-difference Jacobians included
-    njev : int  Jacobian evaluations (analytic or numerical)
-    final_k : ndarray (n_nodes,)  Temperatures at the end of the phase [K]
-    method : str  The integrator used
-    phase : str  Name of the phase, for messages
+        The network's links, the order of every per-link axis [-]
+    link_flows_w : ndarray (n_t, n_links)
+        Positive from a link's first end to its second [W]
+    link_energy_j : ndarray (n_links,)
+        Heat carried by each link over the phase [J]
+    heat_in_j : float
+        Heat put in by all sources [J]
+    stored_j : float
+        Rise of the nodes' enthalpy, from ``HeatCapacity.enthalpy`` [J]
+    lost_j : float
+        Heat carried by links that end at a boundary, toward it [J]
+    status : str
+        'success' or a message
+    nfev : int
+        Right-hand side evaluations, those of finite-difference Jacobians included
+    njev : int
+        Jacobian evaluations (analytic or numerical)
+    final_k : ndarray (n_nodes,)
+        Temperatures at the end of the phase [K]
+    method : str
+        The integrator used
+    phase : str
+        Name of the phase, for messages
     """
 
     time_s: np.ndarray
