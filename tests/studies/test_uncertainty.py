@@ -125,7 +125,7 @@ def test_a_scenario_without_the_table_says_so(tmp_path):
 @pytest.fixture(scope="module")
 def known(tmp_path_factory):
     path = small_copy(tmp_path_factory.mktemp("known"), KNOWN)
-    plan, record = uncertainty(path, overrides=SHRINK + (("limits.bearing_caution_band_k", CAUTION_BAND_K),), workers=2)
+    plan, record = uncertainty(path, overrides=SHRINK + (("limits.bearing_caution_band_k", CAUTION_BAND_K),), workers=1)
     return path, plan, record, uncertainty_dict(plan, record)
 
 

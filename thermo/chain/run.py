@@ -109,14 +109,20 @@ def applied_overrides(scenario: Scenario) -> tuple[tuple[str, str], ...]:
     return tuple((str(key), toml_value_text(value)) for key, value in scenario.overrides)
 
 
-def forget_cached_tables() -> None:
-    """Empty the caches of convection tables (each path's tabulated conductance, and the stacks the
-    compiled kernels read). Within a run they spare rebuilding a worn corner's tables; a process
-    that runs many configurations with their own tables (a study's worker) empties them after each,
-    so that its memory holds one configuration's tables, not hundreds (about 6 MB each)."""
+STUDY_TABULATED_KEPT = 48      # tabulated conductances a study's worker keeps between points (about a point's worth)
+
+
+def forget_cached_tables(keep_tabulated: int = 0) -> None:
+    """Empty the caches of convection tables: the stacks the compiled kernels read (about 6 MB a
+    network), and each path's tabulated conductance when more than ``keep_tabulated`` are cached.
+    Within a run they spare rebuilding a worn corner's tables; a process that runs many
+    configurations (a study's worker) calls this after each, so that its memory stays about that
+    of one configuration, while configurations that share their airflow (only a limit or the
+    fluid's water content varied) still share their tabulated conductances."""
     from thermo.corner import build
     from thermo.network import assemble
     from thermo.solver import kernel_arrays
-    build._tabulated.cache_clear()
+    if build._tabulated.cache_info().currsize > keep_tabulated:
+        build._tabulated.cache_clear()
     assemble._stacked_tables.cache_clear()
     kernel_arrays._unique_stack.cache_clear()

@@ -111,13 +111,15 @@ def _laps_to_settle(scenario) -> dict:
 
 def run_chunk(job: StudyJob, chunk) -> list:
     """A chunk of points, ``[(index, values), ...]``, run one after another in this process:
-    ``[(index, point), ...]``. The unit of work sent to an executor. The convection-table caches
-    are emptied after each point, so that a worker's memory stays that of one point."""
-    from thermo.chain.run import forget_cached_tables
+    ``[(index, point), ...]``. The unit of work sent to an executor. The stacked convection tables
+    are emptied after each point, and the tabulated conductances when more than about a point's
+    worth are cached, so that a worker's memory stays about that of one point while points that
+    share their airflow still share their tables."""
+    from thermo.chain.run import STUDY_TABULATED_KEPT, forget_cached_tables
     out = []
     for index, values in chunk:
         out.append((index, run_point(job, values)))
-        forget_cached_tables()
+        forget_cached_tables(keep_tabulated=STUDY_TABULATED_KEPT)
     return out
 
 
