@@ -235,12 +235,14 @@ def test_compiled_laws_are_the_numpy_laws():
              (laws.convection_flow, kernel.convection_flow, (a, b, c, d, ta, tb)),
              (laws.bilinear, kernel.bilinear, (*corners[:4], fr[0], fr[1])),
              (laws.trilinear, kernel.trilinear, (*corners, *fr)),
+             (laws.trilinear_slope_k, kernel.trilinear_slope_k, (*corners, fr[0], fr[1])),
              (laws.capacity_segment, kernel.capacity_segment, (ta, np.minimum(tb, ta + 100.0), tb + 50.0)))
     for numpy_law, compiled_law, args in cases:
         whole = numpy_law(*args)
         for e in range(40):
             one = compiled_law(*(float(x[e]) for x in args))
-            np.testing.assert_allclose(one, [float(np.broadcast_to(w, (40,))[e]) for w in whole], rtol=1e-15)
+            whole_e = [float(np.broadcast_to(w, (40,))[e]) for w in (whole if isinstance(whole, tuple) else (whole,))]
+            np.testing.assert_allclose(one, whole_e if isinstance(whole, tuple) else whole_e[0], rtol=1e-15)
 
 
 def test_radiation_law_is_stefan_boltzmann():

@@ -197,18 +197,18 @@ class CompiledNetwork:
                              "that is negative or not finite")
         return out
 
-    def _link_laws(self, Ta, Tb, g):
-        """Flows f and slopes df/dT_a, df/dT_b of every link (``thermo.network.laws``), convection
+    def _link_laws(self, Ta, Tb, g, slopes=True):
+        """Flows f and (``slopes``) df/dT_a, df/dT_b of every link (``thermo.network.laws``), convection
         with its unscaled conductances ``g`` held constant in T (the scipy Jacobian's choice)."""
-        f = np.empty(Ta.shape)
-        dfa = np.empty(Ta.shape)
-        dfb = np.empty(Ta.shape)
-        c, r, v = self.cond_idx, self.rad_idx, self.conv_idx
-        f[..., c], dfa[..., c], dfb[..., c] = conduction_flow(self.cond_g, Ta[..., c], Tb[..., c])
-        f[..., r], dfa[..., r], dfb[..., r] = radiation_flow(self.rad_c, Ta[..., r], Tb[..., r])
+        laws = [(self.cond_idx, conduction_flow, (self.cond_g,)), (self.rad_idx, radiation_flow, (self.rad_c,))]
         if g is not None:
-            f[..., v], dfa[..., v], dfb[..., v] = convection_flow(self.conv_scale, g, 0.0, 0.0, Ta[..., v], Tb[..., v])
-        return f, dfa, dfb
+            laws.append((self.conv_idx, convection_flow, (self.conv_scale, g, 0.0, 0.0)))
+        out = [np.empty(Ta.shape) for _ in range(3 if slopes else 1)]
+        for idx, law, params in laws:
+            values = law(*params, Ta[..., idx], Tb[..., idx])
+            for array, value in zip(out, values):
+                array[..., idx] = value
+        return tuple(out)
 
     def flows(self, T_nodes, boundary_k, driver_values) -> np.ndarray:
         """Flow of every link, positive from its first end to its second [W].
@@ -224,7 +224,7 @@ class CompiledNetwork:
         """
         Ta, Tb = self._ends(T_nodes, boundary_k)
         g = self._unscaled_conductances(T_nodes, boundary_k, driver_values) if self._conv else None
-        return self._link_laws(Ta, Tb, g)[0]
+        return self._link_laws(Ta, Tb, g, slopes=False)[0]
 
     def flows_and_jacobian(self, T_nodes, boundary_k, driver_values) -> tuple[np.ndarray, np.ndarray]:
         """``flows`` and ``flow_jacobian`` of one state (n_nodes,) together, convection evaluated once."""

@@ -106,7 +106,7 @@ def bilinear(c00, c01, c10, c11, fi, fj):
 
 def trilinear(a000, a001, a010, a011, a100, a101, a110, a111, fi, fj, fk):
     """Trilinear interpolation in a cell (driver i, node temperature j, boundary temperature k) and
-    its slopes along j and k: first along k, then ``bilinear`` in (i, j).
+    its slope along j: first along k, then ``bilinear`` in (i, j).
 
     Parameters
     ----------
@@ -118,17 +118,33 @@ def trilinear(a000, a001, a010, a011, a100, a101, a110, a111, fi, fj, fk):
     Returns
     -------
     tuple
-        (value, d value / d fj, d value / d fk) [unit of the corners].
+        (value, d value / d fj) [unit of the corners].
     """
     c00 = a000 + fk * (a001 - a000)
     c01 = a010 + fk * (a011 - a010)
     c10 = a100 + fk * (a101 - a100)
     c11 = a110 + fk * (a111 - a110)
-    g, dj = bilinear(c00, c01, c10, c11, fi, fj)
+    return bilinear(c00, c01, c10, c11, fi, fj)
+
+
+def trilinear_slope_k(a000, a001, a010, a011, a100, a101, a110, a111, fi, fj):
+    """The slope along k of ``trilinear`` in its cell: ``bilinear``'s value of the k-differences.
+
+    Parameters
+    ----------
+    a000 ... a111 : float or ndarray
+        Corner values, digits the offsets along i, j, k [any unit].
+    fi, fj : float or ndarray
+        Fractions in the cell along i and j, in [0, 1] [-].
+
+    Returns
+    -------
+    float or ndarray
+        d value / d fk [unit of the corners].
+    """
     gi = 1.0 - fi
     gj = 1.0 - fj
-    dk = gi * (gj * (a001 - a000) + fj * (a011 - a010)) + fi * (gj * (a101 - a100) + fj * (a111 - a110))
-    return g, dj, dk
+    return gi * (gj * (a001 - a000) + fj * (a011 - a010)) + fi * (gj * (a101 - a100) + fj * (a111 - a110))
 
 
 def capacity_segment(t, lo, hi):

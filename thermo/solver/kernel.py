@@ -125,8 +125,9 @@ def _compile_laws(names):
     return [namespace[name] for name in names]
 
 
-(conduction_flow, radiation_flow, convection_flow, bilinear, trilinear, capacity_segment) = _compile_laws(
-    ("conduction_flow", "radiation_flow", "convection_flow", "bilinear", "trilinear", "capacity_segment"))
+(conduction_flow, radiation_flow, convection_flow, bilinear, trilinear, trilinear_slope_k,
+ capacity_segment) = _compile_laws(("conduction_flow", "radiation_flow", "convection_flow", "bilinear", "trilinear",
+                                    "trilinear_slope_k", "capacity_segment"))
 
 
 @njit(cache=True, error_model="numpy")
@@ -150,9 +151,12 @@ def _axis(value, lo, inv_step, n):
 @njit(cache=True, error_model="numpy")
 def _trilinear(tables, t, inv_j, inv_k, i, fi, j, fj, k, fk):
     """G [W/K] of table t in cell (i, j, k) at fractions (fi, fj, fk), and dG/dT_a, dG/dT_b [W/K^2]."""
-    g, dj, dk = trilinear(tables[t, i, j, k], tables[t, i, j, k + 1], tables[t, i, j + 1, k],
-                          tables[t, i, j + 1, k + 1], tables[t, i + 1, j, k], tables[t, i + 1, j, k + 1],
-                          tables[t, i + 1, j + 1, k], tables[t, i + 1, j + 1, k + 1], fi, fj, fk)
+    a000, a001 = tables[t, i, j, k], tables[t, i, j, k + 1]
+    a010, a011 = tables[t, i, j + 1, k], tables[t, i, j + 1, k + 1]
+    a100, a101 = tables[t, i + 1, j, k], tables[t, i + 1, j, k + 1]
+    a110, a111 = tables[t, i + 1, j + 1, k], tables[t, i + 1, j + 1, k + 1]
+    g, dj = trilinear(a000, a001, a010, a011, a100, a101, a110, a111, fi, fj, fk)
+    dk = trilinear_slope_k(a000, a001, a010, a011, a100, a101, a110, a111, fi, fj)
     return g, dj * inv_j, dk * inv_k
 
 

@@ -27,7 +27,7 @@ import numpy as np
 from numba import njit, prange
 
 from thermo.solver.kernel import (D_WEIGHT, W_WEIGHT, _axis, _configuration, bilinear, capacity_segment,
-                                  conduction_flow, convection_flow, radiation_flow, trilinear)
+                                  conduction_flow, convection_flow, radiation_flow, trilinear, trilinear_slope_k)
 
 LANES = 64       # widest block: measured fastest per configuration (16: 0.66, 32: 0.55, 64: 0.48 us a step)
 
@@ -111,8 +111,11 @@ def _flows_lanes(T, bk, drv, links, f, dfa, dfb, flag):
                 if not (oki and (on_node or okb)):
                     flag[c] = True
                 o = ((tix[s, c] * n_i + i) * n_j + j) * n_k + k
-                g, ga, gb = trilinear(tables[o], tables[o + 1], tables[o + n_k], tables[o + n_k + 1], tables[o + s_i],
-                                      tables[o + s_i + 1], tables[o + s_i + n_k], tables[o + s_i + n_k + 1], fi, fj, fk)
+                a000, a001, a010, a011 = tables[o], tables[o + 1], tables[o + n_k], tables[o + n_k + 1]
+                a100, a101 = tables[o + s_i], tables[o + s_i + 1]
+                a110, a111 = tables[o + s_i + n_k], tables[o + s_i + n_k + 1]
+                g, ga = trilinear(a000, a001, a010, a011, a100, a101, a110, a111, fi, fj, fk)
+                gb = trilinear_slope_k(a000, a001, a010, a011, a100, a101, a110, a111, fi, fj)
                 f[l, c], dfa[l, c], dfb[l, c] = convection_flow(par[l, c], g, ga * inv_j, gb * inv_k, ta, tb)
 
 
