@@ -30,6 +30,7 @@ from thermo.network.schedule import Schedule
 from thermo.network.tabulate import ConductanceGrid
 from thermo.results import CornerResult, EnergyBalance, LapSpan, PhaseSpan
 from thermo.scenario.model import Scenario
+from thermo.solver.kernel_arrays import release_kernel_network
 from thermo.solver.scipy_solve import solve_network
 from thermo.solver.settings import SolverSettings
 
@@ -122,7 +123,10 @@ class CornerRun:
 
     def _with_pad(self, thickness_m: float):
         """The corner rebuilt with another pad thickness (conduction path and pad mass): a new pad
-        exactly as ``build_corner(design)`` builds it, a worn one with the same number of layers."""
+        exactly as ``build_corner(design)`` builds it, a worn one with the same number of layers.
+        The network it replaces lets go of its kernel arrays at once (``release_kernel_network``)."""
+        if getattr(self, "compiled", None) is not None:
+            release_kernel_network(self.compiled)
         design = self.design
         pad = design.pad if thickness_m == design.pad.thickness_m else replace(
             design.pad, thickness_m=thickness_m, layers=self.pad_layer_count)
@@ -213,7 +217,8 @@ class CornerRun:
             self.thickness = new_thickness
 
     def result(self, segments) -> CornerResult:
-        """The corner's results over the segments it advanced through (in order)."""
+        """The corner's results over the segments it advanced through (in order); the network lets
+        go of its kernel arrays (``release_kernel_network``): the run is over."""
         scenario, design, model = self.scenario, self.design, self.model
         stint_thickness = self.stint_thickness + [("end of run", self.thickness)]
         validity_lines, used = check_validity(model.network, self.states, design.name)
@@ -239,6 +244,7 @@ class CornerRun:
                   "warnings": warns,
                   "correlations_used": sorted(used)}
         links = model.network.links
+        release_kernel_network(self.compiled)
         return CornerResult(
             name=design.name, node_names=model.output_nodes, time_s=time_s, temperatures_k=temps_all,
             link_names=tuple(link.name for link in links), link_groups=tuple(link.group for link in links),

@@ -360,12 +360,20 @@ def _unique_stack(functions: tuple) -> np.ndarray:
 
 
 def kernel_network(net: CompiledNetwork) -> KernelNetwork | None:
-    """The array form of one compiled network, built once and kept on it (so it lives exactly as
-    long as the network: a chain that rebuilds a worn corner every lap frees each lap's copy);
-    None if not compilable."""
+    """The array form of one compiled network, built once and kept on it; None if not compilable.
+
+    The two refer to each other (``KernelNetwork.compiled``), so only Python's cycle collector
+    frees them once dropped, and it runs by object count, not by memory: a chain that replaces a
+    network (a worn pad, every lap) calls ``release_kernel_network`` on the old one, and both go
+    at once."""
     if not hasattr(net, "_kernel_network"):
         net._kernel_network = batch_network([net]) if _link_tables(net) is not None else None
     return net._kernel_network
+
+
+def release_kernel_network(net: CompiledNetwork) -> None:
+    """Drop the array form kept on ``net`` (see ``kernel_network``), breaking their reference cycle."""
+    net.__dict__.pop("_kernel_network", None)
 
 
 def scaled(base: KernelNetwork, link_scale=None, capacity_scale=None, source_scale=None) -> KernelNetwork:
