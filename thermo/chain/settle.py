@@ -28,7 +28,7 @@ import numpy as np
 
 from thermo.chain.guards import check_state_range
 from thermo.chain.plan import expand_plan
-from thermo.chain.corner_run import conductance_grid, segment_schedule
+from thermo.chain.corner_run import conductance_grid, corner_check_specs, segment_schedule
 from thermo.chain.run import corner_brakes, corner_duties
 from thermo.corner.build import build_corner
 from thermo.errors import ScenarioError, SolveError
@@ -75,6 +75,9 @@ class SettledLap:
         How it was found
     wall_s : float
         Wall time of the search [s]
+    check_specs : tuple of CheckSpec
+        The corner's limit checks, on the nodes of the model that was solved
+        (``thermo.chain.corner_run.corner_check_specs``) [-]
     """
 
     corner: str
@@ -88,6 +91,7 @@ class SettledLap:
     lap_solves: int
     method: str
     wall_s: float
+    check_specs: tuple = ()
 
 
 def lap_setup(scenario, corner_name=None, phase_name=None):
@@ -212,7 +216,7 @@ def settled_lap(scenario, corner_name=None, *, phase_name=None, tolerance_k=0.01
         residual_k=residual, lap_solves=solves,
         method=f"Newton shooting: finite-difference Jacobian from one batched kernel run (graded grid, "
                f"linearised), Broyden updates on {coarse_solves} coarse then {solves} full-grid lap solves",
-        wall_s=_time.perf_counter() - wall)
+        wall_s=_time.perf_counter() - wall, check_specs=corner_check_specs(scenario, design, model))
 
 
 def _laps_to_within(settled_outputs, SW, J, e0, settled_peaks, band_k) -> int:

@@ -31,16 +31,13 @@ def settle(scenario, *, corners=None, phase=None) -> list:
 
 def settled_checks(scenario, result) -> list:
     """The run's limit checks of one corner against its settled peaks: ``CheckResult`` each, the
-    peak that of the settled lap (its time 0: the settled lap has no run time)."""
+    peak that of the settled lap (its time 0: the settled lap has no run time). The checks are
+    those the settled lap's own model carries (``SettledLap.check_specs``): no corner is built again."""
     import numpy as np
 
-    from thermo.chain.corner_run import corner_check_specs
-    from thermo.corner.build import build_corner
     from thermo.limits import evaluate_check
-    design = next(d for d in scenario.corners if d.name == result.corner)
-    model = build_corner(design, scenario.ambient.pressure_pa, grid=None)
     return [evaluate_check(spec, np.zeros(1), np.array([result.peak_k[spec.node]]))
-            for spec in corner_check_specs(scenario, design, model) if spec.node in result.peak_k]
+            for spec in result.check_specs if spec.node in result.peak_k]
 
 
 def settled_dict(scenario, results) -> dict:
