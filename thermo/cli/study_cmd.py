@@ -8,12 +8,11 @@ interrupted study keeps its finished points and ``--resume`` continues it.
 from __future__ import annotations
 
 import json
-import math
 import sys
 from pathlib import Path
 
 from lapdata.echo import printable
-from thermo.output.text_table import format_table
+from thermo.output.text_table import format_table, number
 
 STUDY_FILES = {"sweep": "sweep.h5", "uncertainty": "uncertainty.h5"}
 DEFAULT_ROWS = 40
@@ -175,13 +174,13 @@ def _value_text(value) -> str:
 
 def format_sweep(data: dict, max_rows: int = DEFAULT_ROWS) -> str:
     """The sweep's points as a table sorted by the worst margin (the smallest first)."""
-    from thermo.output.study_outputs import FLUID_CHECK, worst_check
+    from thermo.output.study_outputs import FLUID_CHECK, fluid_margin, point_verdict, ranked_points
     keys = data["varied"]
     scope = f"up to pit stop {data['stints']}" if data["stints"] else "the whole plan"
     lines = [f"Sweep: {printable(data['scenario'])}",
              f"{data['points_done']} of {data['points_total']} points, {scope}; sorted by the smallest margin of any "
              "check (worst first)", ""]
-    ranked = sorted(data["points"], key=lambda p: (math.isnan(worst_check(p)[0]), worst_check(p)[0]))
+    ranked = ranked_points(data["points"])
     corners = list(dict.fromkeys(c["name"] for p in ranked for c in p.get("corners", [])))
     header = [*keys, *(f"{c} fluid [K]" for c in corners), "worst margin [K]", "status", "worst check", "exceeded"]
     rows = []
@@ -190,13 +189,10 @@ def format_sweep(data: dict, max_rows: int = DEFAULT_ROWS) -> str:
         if "error" in p:
             rows.append([*values, *("-" for _ in corners), "-", "FAILED", printable(p["error"])[:80], "-"])
             continue
-        margin, where = worst_check(p)
-        fluid = [next((f"{k['margin_k']:+.1f}" for c in p["corners"] if c["name"] == name for k in c["checks"]
-                       if k["name"] == FLUID_CHECK), "-") for name in corners]
-        exceeded = sum(k["status"] == "exceeded" for c in p["corners"] for k in c["checks"])
-        status = "exceeded" if margin < 0 else next(k["status"] for c in p["corners"] for k in c["checks"]
-                                                    if f"{c['name']}: {k['name']}" == where)
-        rows.append([*values, *fluid, f"{margin:+.1f}", status.upper() if status != "ok" else "ok", where, str(exceeded)])
+        v = point_verdict(p)
+        fluid = [number(fluid_margin(p, name), "+.1f") for name in corners]
+        rows.append([*values, *fluid, f"{v['margin_k']:+.1f}", v["status"].upper() if v["status"] != "ok" else "ok",
+                     v["check"], str(v["exceeded"])])
     lines += format_table(header, rows)
     if corners:
         lines.append(f"  fluid: the margin of {FLUID_CHECK} (the fluid at the pistons against its boiling point "
@@ -243,13 +239,10 @@ def uncertainty_command(args) -> int:
     return 0
 
 
-def _percent(p: float) -> str:
-    return f"{100 * p:.1f} %"
-
-
 def format_uncertainty(data: dict) -> str:
     """The headline (the probability that the fluid boils), every check's probabilities, the
     inputs and what drives each margin."""
+    from thermo.output.study_outputs import percent as _percent
     how = {"lhs": "Latin hypercube", "sobol": "scrambled Sobol"}[data["sampling"]]
     scope = f"up to pit stop {data['stints']}" if data["stints"] else "the whole plan"
     conf = f"{100 * data['confidence']:g} %"

@@ -10,17 +10,14 @@ from __future__ import annotations
 
 import datetime
 import json
+import math
 
 from thermo import CAUTION
 from thermo.output.atomic import atomic_write
 from thermo.output.html_report import PAGE_END, caution_box, escape_html, html_list, html_table, page_head
-from thermo.output.study_outputs import FLUID_CHECK, worst_check
+from thermo.output.study_outputs import FLUID_CHECK, fluid_margin, percent as _percent, point_verdict, ranked_points
 
 MAX_POINT_ROWS = 500
-
-
-def _percent(p: float) -> str:
-    return f"{100 * p:.1f} %"
 
 
 def _when(generated) -> str:
@@ -91,7 +88,7 @@ def sweep_html(data: dict, record, *, generated=None, plots: bool = True) -> str
     caution = caution_box(data.get("caution") or CAUTION)
     scope = f"up to pit stop {data['stints']}" if data["stints"] else "the whole plan"
     keys = data["varied"]
-    ranked = sorted(data["points"], key=lambda p: (worst_check(p)[0] != worst_check(p)[0], worst_check(p)[0]))
+    ranked = ranked_points(data["points"])
     corners = list(dict.fromkeys(c["name"] for p in ranked for c in p.get("corners", [])))
     rows, classes = [], []
     for p in ranked[:MAX_POINT_ROWS]:
@@ -100,13 +97,10 @@ def sweep_html(data: dict, record, *, generated=None, plots: bool = True) -> str
             rows.append([*values, *("" for _ in corners), "", "failed", p["error"]])
             classes.append("exceeded")
             continue
-        margin, where = worst_check(p)
-        fluid = [next((f"{k['margin_k']:+.1f}" for c in p["corners"] if c["name"] == name for k in c["checks"]
-                       if k["name"] == FLUID_CHECK), "") for name in corners]
-        status = "exceeded" if margin < 0 else next(k["status"] for c in p["corners"] for k in c["checks"]
-                                                    if f"{c['name']}: {k['name']}" == where)
-        rows.append([*values, *fluid, f"{margin:+.1f}", status, where])
-        classes.append(status if status in ("exceeded", "caution") else "")
+        v = point_verdict(p)
+        fluid = ["" if math.isnan(m) else f"{m:+.1f}" for m in (fluid_margin(p, name) for name in corners)]
+        rows.append([*values, *fluid, f"{v['margin_k']:+.1f}", v["status"], v["check"]])
+        classes.append(v["status"] if v["status"] in ("exceeded", "caution") else "")
     parts = [*page_head(f"brakeheat sweep: {data['scenario']}"), caution,
              f"<p>brakeheat {escape_html(data['version'])}, report made {escape_html(_when(generated))}. "
              f"{data['points_done']} of {data['points_total']} points, {escape_html(scope)}; {data['failed']} failed. "

@@ -124,10 +124,32 @@ def sweep_margin_figure(record, key: str):
 FLUID_CHECK = "fluid_boiling_at_water_content"
 
 
-def _fluid_margin(point: dict) -> float:
-    """The smallest margin of the fluid boiling check (at the fluid's water content) over the corners."""
-    margins = [k["margin_k"] for c in point.get("corners", []) for k in c["checks"] if k["name"] == FLUID_CHECK]
+def fluid_margin(point: dict, corner: str | None = None) -> float:
+    """The margin of the fluid boiling check (at the fluid's water content) of one corner, or the
+    smallest over the corners (``corner`` None); NaN where there is none."""
+    margins = [k["margin_k"] for c in point.get("corners", []) if corner in (None, c["name"])
+               for k in c["checks"] if k["name"] == FLUID_CHECK]
     return min(margins) if margins else math.nan
+
+
+def percent(p: float) -> str:
+    """A probability (0 to 1) as a percentage for tables."""
+    return f"{100 * p:.1f} %"
+
+
+def ranked_points(points: list) -> list:
+    """The points sorted by their smallest margin of any check, the worst first; failed points last."""
+    return sorted(points, key=lambda p: (math.isnan(worst_check(p)[0]), worst_check(p)[0]))
+
+
+def point_verdict(point: dict) -> dict:
+    """What a sweep table shows of a point that ran: its smallest margin, that check ("corner:
+    check") and its status, and how many checks are exceeded."""
+    margin, where = worst_check(point)
+    status = "exceeded" if margin < 0 else next(k["status"] for c in point["corners"] for k in c["checks"]
+                                                if f"{c['name']}: {k['name']}" == where)
+    exceeded = sum(k["status"] == "exceeded" for c in point["corners"] for k in c["checks"])
+    return {"margin_k": margin, "check": where, "status": status, "exceeded": exceeded}
 
 
 def sweep_heatmap_figure(record):
@@ -141,7 +163,7 @@ def sweep_heatmap_figure(record):
     cols = list(dict.fromkeys(repr(v[1]) for v in record.values))
     label = {repr(v[i]): v[i] for v in record.values for i in (0, 1)}
     text = lambda r: f"{label[r]:g}" if isinstance(label[r], float) else str(label[r])
-    panels = (("fluid boiling margin, worst corner [K]", _fluid_margin),
+    panels = (("fluid boiling margin, worst corner [K]", fluid_margin),
               ("smallest margin of any check [K]", lambda p: worst_check(p)[0]))
     figure = _new_figure(max(9.0, 1.6 * len(cols) + 5.0), max(4.0, 0.5 * len(rows) + 2.2))
     for n, (title, measure) in enumerate(panels):
@@ -216,13 +238,9 @@ def uncertainty_tornado_figure(stats: dict, corner: str):
     return figure
 
 
-def _safe(name: str) -> str:
-    return "".join(ch if ch.isalnum() or ch in "-_" else "_" for ch in name)
-
-
 def plot_sweep(record, out_dir) -> list[Path]:
     """sweep_margin_<key>.png for each varied key, and sweep_heatmap.png for a grid of two keys."""
-    from thermo.output.plots import save_png
+    from thermo.output.plots import _safe, save_png
     out = Path(out_dir)
     if not any(p and p.get("corners") for p in record.points):
         return []
@@ -235,7 +253,7 @@ def plot_sweep(record, out_dir) -> list[Path]:
 
 def plot_uncertainty(stats: dict, out_dir) -> list[Path]:
     """uncertainty_peaks_<corner>.png and uncertainty_tornado_<corner>.png for each corner."""
-    from thermo.output.plots import save_png
+    from thermo.output.plots import _safe, save_png
     out = Path(out_dir)
     corners = list(dict.fromkeys(c["corner"] for c in stats["checks"]))
     paths = []
