@@ -117,7 +117,7 @@ def test_a_bigger_front_duct_cools_the_front_fluid_and_leaves_the_rear(duct_swee
     _, data = duct_sweep
     small, large = data["points"]
     fluid = lambda p, c: p["corners"][c]["peak_c"]["fluid"]
-    assert fluid(large, 0) < fluid(small, 0)            # more cooling air, a cooler front corner
+    assert fluid(large, 0) < fluid(small, 0)            # more cooling air, a cooler front corner: common practice, no published source
     assert fluid(large, 1) == fluid(small, 1)           # the rear corner has its own duct
 
 
