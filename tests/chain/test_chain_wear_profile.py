@@ -21,3 +21,43 @@ def test_the_worn_slice_is_the_face_and_the_back_keeps_its_temperature():
 
 def test_a_lumped_pad_keeps_its_temperature():
     assert worn_pad_profile(np.array([0.02]), np.array([650.0]), np.array([0.019])) == pytest.approx([650.0])
+
+
+def test_a_pad_worn_by_values_runs_as_a_pad_built_anew(monkeypatch):
+    """The run wears its pads by putting the new pad's values into the corner it has
+    (``worn_corner``, ``kernel_network_like``); building the corner anew every lap, as the run did
+    before, must give the same run. Demo car, layered pads worn fast (6 mm^3/kJ) so that the pads'
+    edges move to another layer on the way, a pit stop with new pads, the fast solver."""
+    import copy
+    import tomllib
+    from pathlib import Path
+
+    from thermo.chain import corner_run, run_scenario
+    from thermo.scenario.reader import scenario_from_dict
+
+    demo = Path(__file__).resolve().parents[2] / "scenarios" / "demo.toml"
+    text = demo.read_text(encoding="utf-8")
+    raw = copy.deepcopy(tomllib.loads(text))
+    raw["plan"]["phases"] = [{"type": "laps", "count": 8},
+                             {"type": "in_lap", "pace": 0.8, "pit_lane_speed_kmh": 60, "pit_lane_length_m": 200},
+                             {"type": "pit_stop", "duration_s": 30, "pad_change": True},
+                             {"type": "laps", "count": 1}, {"type": "soak", "duration_s": 120}]
+    raw.pop("uncertainty", None)
+    scenario = scenario_from_dict(raw, path=demo, text=text, overrides=[
+        ("pad_wear.wear_coefficient_mm3_per_kj", 6.0), ("solver.method", "fast"), ("solver.output_s", 0.0)])
+    made, moved = [], []
+    real = corner_run.worn_corner
+    monkeypatch.setattr(corner_run, "worn_corner", lambda model, thickness: (
+        lambda m: (made if m is not None else moved).append(thickness) or m)(real(model, thickness)))
+    by_values = run_scenario(scenario)
+    assert len(made) > 10 and len(moved) >= 1       # by values, and built anew where the edges moved
+    built = []
+    monkeypatch.setattr(corner_run, "worn_corner", lambda model, thickness: built.append(thickness))
+    anew = run_scenario(scenario)
+    assert len(built) > 10                                  # every wear step was built anew
+    for a, b in zip(by_values.corners, anew.corners):
+        worn = [x["thickness_m"] for x in a.extras["pad_thickness_m"]]
+        assert worn[0] < 0.6 * scenario.corners[0].pad.thickness_m or a.name == "rear"
+        np.testing.assert_allclose(a.temperatures_k, b.temperatures_k, rtol=0, atol=1e-9)
+        assert [c.peak_k for c in a.checks] == pytest.approx([c.peak_k for c in b.checks], abs=1e-9)
+        assert a.extras["pad_thickness_m"] == b.extras["pad_thickness_m"]

@@ -69,3 +69,31 @@ def test_graded_grid_keeps_switch_on_samples_and_stays_accurate():
     coarse = solve_batch([net], fine, [300.0, 300.0], SolverSettings(method="fast"), grid=g, output_times=s.time_s)
     exact = stint_reference(s, A)
     np.testing.assert_allclose(coarse.temperatures_k[0], exact, atol=0.5)
+
+
+def test_boundary_slices_are_kept_for_the_same_tables_and_air_only():
+    """``boundary_slices`` keeps its result for a run on the same tables and the same constant air
+    temperatures (lap after lap); another air temperature, or another table choice, works them
+    out anew: the kept result always equals one worked out afresh."""
+    from thermo.network import Schedule
+    from thermo.solver.kernel_arrays import forget_slices, kernel_inputs
+
+    kn = kernel_network(compile_network(tabulated_network()))
+    s = nonlinear_schedule(2)
+
+    def inputs(air_k):
+        sched = Schedule(s.time_s, {**s.signals, "t_air": np.full(s.time_s.size, air_k)})
+        return kernel_inputs(kn.compiled, sched, graded_grid(sched, kn.compiled, sched.t_start_s, sched.t_end_s))
+
+    forget_slices()
+    warm, cool = inputs(340.0), inputs(300.0)
+    first = kn.boundary_slices(warm)
+    assert kn.boundary_slices(warm) is first                      # kept
+    other = kn.boundary_slices(cool)
+    assert other is not first
+    for got, fresh in ((first, kn._slices(warm)), (other, kn._slices(cool))):
+        for a, b in zip(got, fresh):
+            np.testing.assert_array_equal(a, b)
+    assert not np.array_equal(first[0], other[0])                 # the air temperature matters
+    forget_slices()
+    assert kn.boundary_slices(warm) is not first

@@ -19,7 +19,7 @@ from thermo.chain.plan import PlanSegment
 from thermo.chain.validity import check_validity
 from thermo.corner.build import (
     SIGNAL_AMBIENT, SIGNAL_CLAMP, SIGNAL_DISC_HEAT, SIGNAL_DUCT_AIR, SIGNAL_PAD_HEAT, SIGNAL_SPEED, CornerModel, build_corner,
-    clamp_signal, duct_air_signals, pad_layers,
+    clamp_signal, duct_air_signals, pad_layers, worn_corner,
 )
 from thermo.corner.geometry import CornerDesign
 from thermo.errors import SolveError
@@ -30,7 +30,7 @@ from thermo.network.schedule import Schedule
 from thermo.network.tabulate import ConductanceGrid
 from thermo.results import CornerResult, EnergyBalance, LapSpan, PhaseSpan
 from thermo.scenario.model import Scenario
-from thermo.solver.kernel_arrays import release_kernel_network
+from thermo.solver.kernel_arrays import kernel_network_like, release_kernel_network
 from thermo.solver.scipy_solve import solve_network
 from thermo.solver.settings import SolverSettings
 
@@ -122,16 +122,23 @@ class CornerRun:
         self.warned: set = set()    # pad warnings given this stint ('near', 'below'); a pad change starts a new stint
 
     def _with_pad(self, thickness_m: float):
-        """The corner rebuilt with another pad thickness (conduction path and pad mass): a new pad
-        exactly as ``build_corner(design)`` builds it, a worn one with the same number of layers.
-        The network it replaces lets go of its kernel arrays at once (``release_kernel_network``)."""
-        if getattr(self, "compiled", None) is not None:
-            release_kernel_network(self.compiled)
-        design = self.design
-        pad = design.pad if thickness_m == design.pad.thickness_m else replace(
-            design.pad, thickness_m=thickness_m, layers=self.pad_layer_count)
-        built = build_corner(replace(design, pad=pad), self.scenario.ambient.pressure_pa, self.grid)
-        return built, compile_network(built.network)
+        """The corner with another pad thickness (conduction path and pad mass): a new pad exactly
+        as ``build_corner(design)`` builds it, a worn one with the same number of layers. A corner
+        already built takes only the pad's new values (``worn_corner``; its kernel arrays keep
+        their tables, ``kernel_network_like``) unless the pad's edges move to another layer. The
+        network it replaces lets go of its kernel arrays at once (``release_kernel_network``)."""
+        previous = getattr(self, "compiled", None)
+        built = None if previous is None else worn_corner(self.model, thickness_m)
+        if built is None:
+            design = self.design
+            pad = design.pad if thickness_m == design.pad.thickness_m else replace(
+                design.pad, thickness_m=thickness_m, layers=self.pad_layer_count)
+            built = build_corner(replace(design, pad=pad), self.scenario.ambient.pressure_pa, self.grid)
+        compiled = compile_network(built.network)
+        if previous is not None:
+            kernel_network_like(previous, compiled)
+            release_kernel_network(previous)
+        return built, compiled
 
     def _enthalpy(self, index=None) -> float:
         nodes = self.model.network.nodes

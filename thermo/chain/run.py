@@ -126,3 +126,4 @@ def forget_cached_tables(keep_tabulated: int = 0) -> None:
         build._tabulated.cache_clear()
     assemble._stacked_tables.cache_clear()
     kernel_arrays._unique_stack.cache_clear()
+    kernel_arrays.forget_slices()

@@ -25,12 +25,13 @@ import numpy as np
 from thermo.corner import interface, paths
 from thermo.corner import layers as layers_mod
 from thermo.corner.geometry import CornerDesign
+from thermo.corner.pad_terms import ROOM_K, pad_layer_link, pad_length_m, pad_sources, pad_terms, with_pad_thickness
 from thermo.correlations.partition import effusivity, heat_partition_area_weighted
 from thermo.correlations.radiation import (
     radiation_coefficient_grey_two_surface, radiation_coefficient_to_surroundings,
 )
 from thermo.materials import get_material
-from thermo.network import Boundary, Conduction, Convection, HeatSource, Network, Node, Radiation
+from thermo.network import Boundary, Conduction, Convection, Network, Node, Radiation
 from thermo.network.tabulate import ConductanceGrid, TabulatedConductance
 
 SIGNAL_DISC_HEAT = "disc_heat_w"
@@ -39,9 +40,7 @@ SIGNAL_SPEED = "vehicle_speed_m_s"
 SIGNAL_AMBIENT = "ambient_k"
 SIGNAL_DUCT_AIR = "duct_air_k"
 SIGNAL_CLAMP = "pad_clamp"
-ROOM_K = 293.15
 PAD_MAX_LAYERS = 6
-PAD_ASPECT_RATIO = 3.0          # pad length / radial height, for its edge area; common practice, no published source
 HOLE_FLOW_COEFFICIENT = 0.5     # vent-hole air speed / local airflow speed; common practice, no published source
 OUTPUT_NODES = ("disc", "pad", "piston", "fluid_at_piston", "fluid", "caliper", "upright", "bearing", "hub",
                 "disc_bell", "backing_plate", "piston_seal")
@@ -126,6 +125,35 @@ def materials_used(design: CornerDesign) -> tuple[str, ...]:
     return tuple(sorted(names))
 
 
+def corner_materials(design: CornerDesign) -> dict:
+    """The corner's materials by role: disc, bell, pad, backing, piston, caliper, fluid, hub,
+    bearing, upright, insert, shim."""
+    d, p, pi_, hub = design.disc, design.pad, design.piston, design.hub
+    return {key: get_material(name) for key, name in {
+        "disc": d.material, "bell": d.bell_material, "pad": p.material, "backing": p.backing_material,
+        "piston": pi_.material, "caliper": design.caliper.material, "fluid": design.fluid_material,
+        "hub": hub.hub_material, "bearing": hub.bearing_material, "upright": hub.upright_material,
+        "insert": pi_.insert_material, "shim": pi_.shim_material}.items()}
+
+
+def disc_face_resistance(design: CornerDesign, dx_disc: np.ndarray, disc_material) -> float:
+    """Conduction resistance from the centre of the disc's face layer to its friction faces [K/W]."""
+    return interface.half_layer_resistance(dx_disc[0], disc_material.conductivity(ROOM_K), 2 * design.disc.ring_area_m2)
+
+
+def worn_corner(model: CornerModel, thickness_m: float) -> CornerModel | None:
+    """``model`` with its pad worn (or renewed) to ``thickness_m``, the same number of layers: the
+    model ``build_corner`` builds for that pad (``thermo.corner.pad_terms``), made from the one
+    given without building the rest anew; None when the pads' edges move to another layer (then
+    build the corner anew)."""
+    design = model.design
+    design = replace(design, pad=replace(design.pad, thickness_m=thickness_m, layers=len(model.pad_nodes)))
+    mat = corner_materials(design)
+    dx_disc = disc_layers(design)
+    return with_pad_thickness(model, design, pad_layers(design), mat["pad"],
+                              disc_face_resistance(design, dx_disc, mat["disc"]), mat, (SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT))
+
+
 def heat_partition(design: CornerDesign) -> float:
     """Disc share of the friction heat: the user's override or the area-weighted effusivity form."""
     if design.pad.partition_override is not None:
@@ -164,11 +192,7 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
     ``grid``: convective conductances are tabulated on it (``None``: evaluated exactly every call).
     """
     d, p, pi_, cal, hub, air_ = design.disc, design.pad, design.piston, design.caliper, design.hub, design.airflow
-    mat = {key: get_material(name) for key, name in {
-        "disc": d.material, "bell": d.bell_material, "pad": p.material, "backing": p.backing_material,
-        "piston": pi_.material, "caliper": cal.material, "fluid": design.fluid_material, "hub": hub.hub_material,
-        "bearing": hub.bearing_material, "upright": hub.upright_material,
-        "insert": pi_.insert_material, "shim": pi_.shim_material}.items()}
+    mat = corner_materials(design)
     contact_mult = air_.contact_conductance_multiplier
     nodes, links = [], []
 
@@ -192,17 +216,17 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
         nodes.append(Node(name, mat["disc"].heat_capacity(mass)))
     surface, core = disc_nodes[0], disc_nodes[-1]
 
-    # --- pad: one node, or graded layers from the friction face to the backing plate
+    # --- pad: one node, or graded layers from the friction face to the backing plate; every value
+    # that follows from the pad's thickness comes from pad_terms (a pad that wears takes the same)
     pad_area2 = 2 * p.area_m2
-    k_pad = mat["pad"].conductivity(ROOM_K)
     dx_pad = pad_layers(design)
+    pad = pad_terms(design, dx_pad, mat, disc_face_resistance(design, dx_disc, mat["disc"]))
     pad_nodes = ["pad"] if len(dx_pad) == 1 else [f"pad_layer_{i + 1}" for i in range(len(dx_pad))]
-    pad_masses = pad_area2 * dx_pad * mat["pad"].density_kg_m3
+    pad_masses = pad.masses_kg
     for name, mass in zip(pad_nodes, pad_masses):
         nodes.append(Node(name, mat["pad"].heat_capacity(mass)))
-    for i in range(len(dx_pad) - 1):
-        g = k_pad * pad_area2 / (dx_pad[i] / 2 + dx_pad[i + 1] / 2)
-        links.append(_solid_conduction(f"{pad_nodes[i]}_to_{pad_nodes[i + 1]}", pad_nodes[i], pad_nodes[i + 1], g,
+    for i, g in enumerate(pad.between_layers_w_k):
+        links.append(_solid_conduction(pad_layer_link(pad_nodes, i), pad_nodes[i], pad_nodes[i + 1], g,
                                        "pad_conduction", mat["pad"]))
     pad_face, pad_back = pad_nodes[0], pad_nodes[-1]
 
@@ -223,9 +247,8 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
         Boundary(duct_air_boundary(i), signal) for i, (signal, _) in enumerate(duct_air_signals(design)) if i > 0)
 
     # --- conduction: pad -> backing plate -> (shim, insert, crown contact) -> piston -> fluid -> caliper
-    r_pad_back = (dx_pad[-1] / 2) / (k_pad * pad_area2)
     r_backing_half = (p.backing_thickness_m / 2) / (mat["backing"].conductivity(ROOM_K) * pad_area2)
-    links.append(Conduction("pad_to_backing_plate", pad_back, "backing_plate", _series(r_pad_back, r_backing_half), "pad_conduction"))
+    links.append(Conduction("pad_to_backing_plate", pad_back, "backing_plate", pad.to_backing_w_k, "pad_conduction"))
 
     n_pistons = 2 * pi_.count_per_side
     face_area = 2 * pi_.area_one_side_m2
@@ -301,14 +324,10 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
     ]
     # the pads' edges (perimeter x thickness of each pad) in the wheel-well air, from the layer at
     # mid-thickness (the edges carry about 1 % of the corner's heat: one node stands for them all)
-    pad_length = math.sqrt(PAD_ASPECT_RATIO * p.area_m2)
-    pad_perimeter = 2 * (pad_length + p.area_m2 / pad_length)
-    pad_edge_area = 2 * pad_perimeter * p.thickness_m
-    pad_mid = pad_nodes[int(np.searchsorted(np.cumsum(dx_pad), p.thickness_m / 2))]
-    eps_pad = mat["pad"].emissivity
-    edge_per_m2 = plate(1.0, air_.caliper_convection_multiplier, pad_length)  # one table, scaled by the edge area
+    pad_mid = pad_nodes[pad.mid_layer]
+    edge_per_m2 = plate(1.0, air_.caliper_convection_multiplier, pad_length_m(p.area_m2))  # one table, scaled by the edge area
     links.append(Convection("pad_edge_convection", pad_mid, "ambient", SIGNAL_SPEED, edge_per_m2, "pad_convection",
-                            scale=pad_edge_area))
+                            scale=pad.edge_area_m2))
     if pi_.piston_type == "vented":
         inner = sum(math.pi / 4 * (dia - 2 * pi_.wall_thickness_m) ** 2 for dia in pi_.diameters_m) * 2
         links.append(Convection("piston_vent_convection", "piston", "ambient", SIGNAL_SPEED, paths.PistonVentHoles(
@@ -317,23 +336,14 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
 
     # --- the pad-disc interface (thermo.corner.interface): the friction heat split by the two
     # bodies' resistances to the interface, plus their exchange while clamped and while resting
-    r_disc_face = interface.half_layer_resistance(dx_disc[0], k_disc, disc_face_area)
-    r_pad_face = interface.half_layer_resistance(dx_pad[0], k_pad, pad_area2)
-    g_rest = interface.rest_conductance(r_disc_face, r_pad_face, contact_mult * p.rest_contact_conductance_w_m2k, pad_area2)
-    if p.partition_override is None:
-        direct = interface.interface_disc_share(r_disc_face, r_pad_face)
-        sources = [HeatSource(surface, SIGNAL_DISC_HEAT, direct), HeatSource(surface, SIGNAL_PAD_HEAT, direct),
-                   HeatSource(pad_face, SIGNAL_DISC_HEAT, 1.0 - direct), HeatSource(pad_face, SIGNAL_PAD_HEAT, 1.0 - direct)]
-        g_applied = interface.applied_conductance(r_disc_face, r_pad_face)
+    sources = pad_sources(surface, pad_face, pad, (SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT))
+    links.append(Conduction("pad_disc_interface", pad_face, surface, pad.rest_w_k, "pad_interface"))
+    if pad.direct_disc_share is not None:
         # resting contact always, and the rest of the clamped conductance in proportion to the clamp:
         # G = G_rest + (G_applied - G_rest) clamp, as two links so that the tabulated part holds no
         # geometry (a pad rebuilt as it wears reuses the same table)
-        links.append(Conduction("pad_disc_interface", pad_face, surface, g_rest, "pad_interface"))
         links.append(Convection("pad_disc_interface_clamped", pad_face, surface, SIGNAL_CLAMP,
-                                interface.ClampShare(), "pad_interface", scale=max(g_applied - g_rest, 0.0)))
-    else:
-        sources = [HeatSource(surface, SIGNAL_DISC_HEAT, 1.0), HeatSource(pad_face, SIGNAL_PAD_HEAT, 1.0)]
-        links.append(Conduction("pad_disc_interface", pad_face, surface, g_rest, "pad_interface"))
+                                interface.ClampShare(), "pad_interface", scale=pad.clamped_extra_w_k))
 
     # --- radiation: disc to caliper (view factor) and to the surroundings; caliper, upright, bell,
     # backing plate and pad edges out
@@ -351,8 +361,7 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
         Radiation("backing_plate_radiation", "backing_plate", "ambient",
                   radiation_coefficient_to_surroundings(mat["backing"].emissivity, pad_area2), "radiation"),
     ]
-    links.append(Radiation("pad_edge_radiation", pad_mid, "ambient",
-                           radiation_coefficient_to_surroundings(eps_pad, pad_edge_area), "radiation"))
+    links.append(Radiation("pad_edge_radiation", pad_mid, "ambient", pad.edge_radiation_w_k4, "radiation"))
 
     if grid is not None:
         links = [replace(link, conductance=_tabulated(link.conductance, grid)) if isinstance(link, Convection) else link

@@ -11,6 +11,8 @@ Entry points
 ------------
 ``kernel_network(compiled)``  the array form of one network (cached on it), or None if it cannot
     run compiled (a convection link not tabulated on the shared grid).
+``kernel_network_like(previous, compiled)``  the same, made from a network of one shape and tables
+    (a worn pad) by taking only its values.
 ``batch_network(networks)``  one array form for several networks of one topology.
 ``scaled(kernel_net, ...)``  sweep points made by scaling a base network's links, capacities, sources.
 ``kernel_inputs(compiled, schedule, grid)``  the schedule's signals on a time grid (``KernelInputs``).
@@ -175,7 +177,29 @@ class KernelNetwork:
         ``kernel_lanes._flows_lanes``).
 
         Returns (sliced (P * n_driver * n_node,), slot_sliced (n_conv,) bool, six (B, n_conv) slice
-        of each configuration's slot)."""
+        of each configuration's slot). The slices depend only on the tables, which table each slot
+        reads and the boundaries' constant temperatures, so a run that solves lap after lap on the
+        same tables (a pad that wears takes new values, not new tables) makes them once
+        (``_SLICES``, emptied by ``forget_slices``)."""
+        n = self.n_nodes
+        boundary_q = sorted({int(b) - n for b in self.link_b[self.kind == kernel.KIND_CONVECTION] if b >= n})
+        constant = []
+        for q in boundary_q:
+            lo = min(inputs.bk_grid[:, q].min(), inputs.bk_mid[:, q].min())
+            hi = max(inputs.bk_grid[:, q].max(), inputs.bk_mid[:, q].max())
+            constant.append(float(lo) if lo == hi else None)
+        key = (id(self.tables), self.tix.tobytes(), self.tix.shape, tuple(boundary_q), tuple(constant))
+        kept = _SLICES.get(key)
+        if kept is not None and kept[0] is self.tables:
+            return kept[1]
+        found = self._slices(inputs)
+        if len(_SLICES) >= _SLICES_KEPT:
+            _SLICES.pop(next(iter(_SLICES)))
+        _SLICES[key] = (self.tables, found)
+        return found
+
+    def _slices(self, inputs: KernelInputs) -> tuple:
+        """``boundary_slices`` worked out."""
         n, n_conv = self.n_nodes, self.conv_drv.size
         slot_sliced = np.zeros(n_conv, dtype=np.bool_)
         six = np.zeros((self.size, n_conv), dtype=np.int64)
@@ -221,6 +245,15 @@ class KernelNetwork:
         return replace(self, par=pick(self.par), tix=pick(self.tix), mass=pick(self.mass), base=pick(self.base),
                        seg_lo=pick(self.seg_lo), seg_hi=pick(self.seg_hi), seg_slope=pick(self.seg_slope),
                        src=pick(self.src))
+
+
+_SLICES: dict = {}      # boundary_slices' results, by tables, table choice and boundary temperatures
+_SLICES_KEPT = 8        # a run's corners each reuse theirs lap after lap
+
+
+def forget_slices() -> None:
+    """Empty ``boundary_slices``' store (a study's worker does so after each point)."""
+    _SLICES.clear()
 
 
 MIN_LANES = 4    # narrower blocks are no cheaper per configuration than the one-configuration kernel
@@ -369,6 +402,35 @@ def kernel_network(net: CompiledNetwork) -> KernelNetwork | None:
     if not hasattr(net, "_kernel_network"):
         net._kernel_network = batch_network([net]) if _link_tables(net) is not None else None
     return net._kernel_network
+
+
+def kernel_network_like(previous: CompiledNetwork, net: CompiledNetwork) -> KernelNetwork | None:
+    """The array form of ``net`` made from ``previous``'s (``kernel_network``), when the two have
+    one shape and read the same tables (a corner whose pad has worn: only conductances, masses and
+    source shares differ). The new values are taken from ``net``; the tables, the grid and the
+    elimination plan are kept. It is kept on ``net`` as ``kernel_network`` would keep it. None
+    (and nothing kept) when ``previous`` has no array form or the two differ in shape or tables."""
+    old = getattr(previous, "_kernel_network", None)
+    if old is None or old.size != 1 or net.link_names != previous.link_names or net.node_names != previous.node_names:
+        return None
+    if not (np.array_equal(net.link_a, previous.link_a) and np.array_equal(net.link_b, previous.link_b)
+            and np.array_equal(net.capacities.seg_node, previous.capacities.seg_node)
+            and net.source_signals == previous.source_signals):
+        return None
+    fns, old_fns = _link_tables(net), _link_tables(previous)
+    if fns is None or old_fns is None or any(a.table is not b.table for a, b in zip(fns, old_fns)):
+        return None
+    par = np.ones((1, net.n_links))
+    par[0, net.cond_idx] = net.cond_g
+    par[0, net.rad_idx] = net.rad_c
+    par[0, net.conv_idx] = net.conv_scale
+    caps = net.capacities
+    kn = replace(old, compiled=net, par=par, mass=caps.mass_kg[None, :].copy(), base=caps.base_j_kgk[None, :].copy(),
+                 seg_lo=np.reshape(caps.seg_lo, (1, -1)).copy(), seg_hi=np.reshape(caps.seg_hi, (1, -1)).copy(),
+                 seg_slope=np.reshape(caps.seg_slope, (1, -1)).copy(),
+                 src=np.ascontiguousarray(net.source_matrix.reshape(1, net.n_nodes, -1)))
+    net._kernel_network = kn
+    return kn
 
 
 def release_kernel_network(net: CompiledNetwork) -> None:
