@@ -287,10 +287,11 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
     # --- convection (all to the wheel-well air unless ducted)
     factor = air_.local_airflow_factor
     disc_ducts = [dt for dt in design.ducts if dt.target == "disc_eye"]
+    # a path whose conductance is proportional to its multiplier (the faces, the plates) carries the
+    # multiplier as the link's scale, so that corners differing only in multipliers share one table
     links.append(Convection("disc_face_convection", surface, "ambient", SIGNAL_SPEED, paths.RotatingDiscFaces(
-        disc_face_area, d.outer_diameter_m / 2, design.rolling_radius_m, factor, air_.disc_convection_multiplier, pressure_pa,
-        d.face_correlation),
-        "disc_convection"))
+        disc_face_area, d.outer_diameter_m / 2, design.rolling_radius_m, factor, 1.0, pressure_pa, d.face_correlation),
+        "disc_convection", scale=air_.disc_convection_multiplier))
     passages = None
     if d.vented:
         passages = paths.VanePassages(
@@ -312,22 +313,26 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
             node = "caliper"
         links.append(Convection(tag, node, duct_air_boundary(i), SIGNAL_SPEED, fn, "duct"))
 
-    def plate(area, mult, length=None):
-        return paths.PlateInAirflow(area, math.sqrt(area) if length is None else length, factor, mult, pressure_pa)
+    def plate(area, length=None):
+        return paths.PlateInAirflow(area, math.sqrt(area) if length is None else length, factor, 1.0, pressure_pa)
 
+    hub_mult, caliper_mult = air_.hub_convection_multiplier, air_.caliper_convection_multiplier
     links += [
-        Convection("bell_convection", "disc_bell", "ambient", SIGNAL_SPEED, plate(d.bell_area_m2, air_.hub_convection_multiplier), "hub_convection"),
-        Convection("backing_plate_convection", "backing_plate", "ambient", SIGNAL_SPEED, plate(pad_area2, air_.caliper_convection_multiplier), "caliper_convection"),
-        Convection("caliper_convection", "caliper", "ambient", SIGNAL_SPEED, plate(cal.area_m2, air_.caliper_convection_multiplier), "caliper_convection"),
-        Convection("hub_convection", "hub", "ambient", SIGNAL_SPEED, plate(hub.hub_area_m2, air_.hub_convection_multiplier), "hub_convection"),
-        Convection("upright_convection", "upright", "ambient", SIGNAL_SPEED, plate(hub.upright_area_m2, air_.hub_convection_multiplier), "upright_convection"),
+        Convection("bell_convection", "disc_bell", "ambient", SIGNAL_SPEED, plate(d.bell_area_m2), "hub_convection", scale=hub_mult),
+        Convection("backing_plate_convection", "backing_plate", "ambient", SIGNAL_SPEED, plate(pad_area2), "caliper_convection",
+                   scale=caliper_mult),
+        Convection("caliper_convection", "caliper", "ambient", SIGNAL_SPEED, plate(cal.area_m2), "caliper_convection",
+                   scale=caliper_mult),
+        Convection("hub_convection", "hub", "ambient", SIGNAL_SPEED, plate(hub.hub_area_m2), "hub_convection", scale=hub_mult),
+        Convection("upright_convection", "upright", "ambient", SIGNAL_SPEED, plate(hub.upright_area_m2), "upright_convection",
+                   scale=hub_mult),
     ]
     # the pads' edges (perimeter x thickness of each pad) in the wheel-well air, from the layer at
     # mid-thickness (the edges carry about 1 % of the corner's heat: one node stands for them all)
     pad_mid = pad_nodes[pad.mid_layer]
-    edge_per_m2 = plate(1.0, air_.caliper_convection_multiplier, pad_length_m(p.area_m2))  # one table, scaled by the edge area
+    edge_per_m2 = plate(1.0, pad_length_m(p.area_m2))  # one table, scaled by the edge area and the multiplier
     links.append(Convection("pad_edge_convection", pad_mid, "ambient", SIGNAL_SPEED, edge_per_m2, "pad_convection",
-                            scale=pad.edge_area_m2))
+                            scale=pad.edge_convection_scale))
     if pi_.piston_type == "vented":
         inner = sum(math.pi / 4 * (dia - 2 * pi_.wall_thickness_m) ** 2 for dia in pi_.diameters_m) * 2
         links.append(Convection("piston_vent_convection", "piston", "ambient", SIGNAL_SPEED, paths.PistonVentHoles(

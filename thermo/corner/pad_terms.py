@@ -41,6 +41,9 @@ class PadTerms:
         Conduction from the last layer's centre to the backing plate's centre [W/K]
     edge_area_m2 : float
         The pads' edges in the wheel-well air (perimeter x thickness, both pads) [m^2]
+    edge_convection_scale : float
+        Scale of the edges' convection table (per m^2, multiplier 1): the edge area times the
+        caliper convection multiplier [m^2]
     edge_radiation_w_k4 : float
         Radiation coefficient of the edges to the surroundings [W/K^4]
     mid_layer : int
@@ -59,6 +62,7 @@ class PadTerms:
     between_layers_w_k: np.ndarray
     to_backing_w_k: float
     edge_area_m2: float
+    edge_convection_scale: float
     edge_radiation_w_k4: float
     mid_layer: int
     rest_w_k: float
@@ -97,6 +101,7 @@ def pad_terms(design, layers_m: np.ndarray, mat: dict, disc_face_resistance_k_w:
     return PadTerms(
         layers_m=dx, masses_kg=area2 * dx * mat["pad"].density_kg_m3, between_layers_w_k=between,
         to_backing_w_k=1.0 / (r_back + r_backing_half), edge_area_m2=edge_area,
+        edge_convection_scale=edge_area * design.airflow.caliper_convection_multiplier,
         edge_radiation_w_k4=radiation_coefficient_to_surroundings(mat["pad"].emissivity, edge_area),
         mid_layer=int(np.searchsorted(np.cumsum(dx), p.thickness_m / 2)), rest_w_k=rest,
         clamped_extra_w_k=max(applied - rest, 0.0), direct_disc_share=direct)
@@ -142,7 +147,7 @@ def with_pad_thickness(model, design, layers_m: np.ndarray, pad_material, disc_f
         return None
     new_links = {
         "pad_to_backing_plate": replace(links["pad_to_backing_plate"], conductance_w_k=terms.to_backing_w_k),
-        "pad_edge_convection": replace(links["pad_edge_convection"], scale=terms.edge_area_m2),
+        "pad_edge_convection": replace(links["pad_edge_convection"], scale=terms.edge_convection_scale),
         "pad_edge_radiation": replace(links["pad_edge_radiation"], coefficient_w_k4=terms.edge_radiation_w_k4),
         "pad_disc_interface": replace(links["pad_disc_interface"], conductance_w_k=terms.rest_w_k),
     }
