@@ -59,13 +59,7 @@ def integrate_fast(net: CompiledNetwork, schedule: Schedule, initial_k: np.ndarr
                    t_start: float, t_end: float, out_t: np.ndarray, phase: str) -> NetworkSolution:
     """TR-BDF2 over [t_start, t_end] on the schedule's grid, or on the graded grid when
     ``settings.max_stride`` > 1; see the module notes. ``out_t`` None: every step grid point."""
-    if settings.max_stride > 1:
-        grid = graded_grid(schedule, net, t_start, t_end, 1, settings.max_stride)
-        grid = split_long_steps(grid if out_t is None else np.union1d(grid, out_t), settings.max_step_s)
-    else:
-        out_t = output_grid(schedule, t_start, t_end) if out_t is None else out_t
-        grid = time_grid(schedule, t_start, t_end, out_t, settings.max_step_s)
-    out_t = grid if out_t is None else out_t
+    grid, out_t = step_grid(net, schedule, settings, t_start, t_end, out_t)
     knet = kernel_network(net) if settings.use_jacobian else None
     if knet is not None:
         inputs = kernel_inputs(net, schedule, grid)
@@ -73,6 +67,20 @@ def integrate_fast(net: CompiledNetwork, schedule: Schedule, initial_k: np.ndarr
         if sol is not None:
             return sol
     return _integrate_numpy(net, schedule, initial_k, settings, grid, out_t, phase)
+
+
+def step_grid(net: CompiledNetwork, schedule: Schedule, settings: SolverSettings, t_start: float, t_end: float,
+              out_t: np.ndarray | None) -> tuple[np.ndarray, np.ndarray]:
+    """(step grid, output times) of a 'fast' run over [t_start, t_end] [s]: the graded grid when
+    ``settings.max_stride`` > 1 (its points are the outputs unless ``out_t`` is given), else the
+    schedule's samples with the outputs added; intervals longer than ``settings.max_step_s`` split."""
+    if settings.max_stride > 1:
+        grid = graded_grid(schedule, net, t_start, t_end, 1, settings.max_stride)
+        grid = split_long_steps(grid if out_t is None else np.union1d(grid, out_t), settings.max_step_s)
+    else:
+        out_t = output_grid(schedule, t_start, t_end) if out_t is None else out_t
+        grid = time_grid(schedule, t_start, t_end, out_t, settings.max_step_s)
+    return grid, (grid if out_t is None else out_t)
 
 
 def _integrate_compiled(net, knet, inputs: KernelInputs, schedule, initial_k, settings, out_t, phase):

@@ -362,22 +362,33 @@ def batch_network(networks) -> KernelNetwork:
         tables = np.zeros((1, 2, 2, 2))
         gp = np.array([0.0, 1.0, 2, 0.0, 1.0, 2, 0.0, 1.0, 2])
         conv_drv = np.zeros(0, dtype=np.int64)
-    par = np.ones((len(nets), L))
-    for b, net in enumerate(nets):
-        par[b, net.cond_idx] = net.cond_g
-        par[b, net.rad_idx] = net.rad_c
-        par[b, net.conv_idx] = net.conv_scale
-    caps = [net.capacities for net in nets]
-    seg_start = np.searchsorted(caps[0].seg_node, np.arange(n + 1)).astype(np.int64)
+    rows = [configuration_rows(net) for net in nets]
+    seg_start = np.searchsorted(net0.capacities.seg_node, np.arange(n + 1)).astype(np.int64)
     return KernelNetwork(
         compiled=net0, link_a=net0.link_a.astype(np.int64), link_b=net0.link_b.astype(np.int64), kind=kind,
-        conv_slot=conv_slot, conv_drv=conv_drv, tables=tables, gp=gp, seg_start=seg_start, par=par, tix=tix,
-        mass=np.array([c.mass_kg for c in caps]), base=np.array([c.base_j_kgk for c in caps]),
-        seg_lo=np.array([c.seg_lo for c in caps]).reshape(len(nets), -1),
-        seg_hi=np.array([c.seg_hi for c in caps]).reshape(len(nets), -1),
-        seg_slope=np.array([c.seg_slope for c in caps]).reshape(len(nets), -1),
-        src=np.ascontiguousarray(np.array([net.source_matrix for net in nets]).reshape(len(nets), n, -1)),
+        conv_slot=conv_slot, conv_drv=conv_drv, tables=tables, gp=gp, seg_start=seg_start, tix=tix,
+        **{name: np.ascontiguousarray(np.concatenate([r[name] for r in rows])) for name in ROW_FIELDS},
         plan=elimination_plan(n, [(a, b) for a, b in zip(net0.link_a, net0.link_b) if b < n]), varies_b=varies_b)
+
+
+ROW_FIELDS = ("par", "mass", "base", "seg_lo", "seg_hi", "seg_slope", "src")   # a configuration's own rows
+
+
+def configuration_rows(net: CompiledNetwork) -> dict:
+    """One configuration's rows of the kernel's arrays (``ROW_FIELDS``, each with a leading axis of
+    1): ``par`` G [W/K], c [W/K^4] or convection scale [-] of each link; ``mass`` [kg], ``base``
+    [J/(kg K)] and the capacity segments of each node; ``src`` each node's share of each signal."""
+    par = np.ones((1, net.n_links))
+    par[0, net.cond_idx] = net.cond_g
+    par[0, net.rad_idx] = net.rad_c
+    par[0, net.conv_idx] = net.conv_scale
+    caps = net.capacities
+    return {"par": par, "mass": np.array(caps.mass_kg, dtype=float).reshape(1, -1),
+            "base": np.array(caps.base_j_kgk, dtype=float).reshape(1, -1),
+            "seg_lo": np.array(caps.seg_lo, dtype=float).reshape(1, -1),
+            "seg_hi": np.array(caps.seg_hi, dtype=float).reshape(1, -1),
+            "seg_slope": np.array(caps.seg_slope, dtype=float).reshape(1, -1),
+            "src": np.array(net.source_matrix, dtype=float).reshape(1, net.n_nodes, -1)}
 
 
 @functools.lru_cache(maxsize=16)
@@ -420,15 +431,7 @@ def kernel_network_like(previous: CompiledNetwork, net: CompiledNetwork) -> Kern
     fns, old_fns = _link_tables(net), _link_tables(previous)
     if fns is None or old_fns is None or any(a.table is not b.table for a, b in zip(fns, old_fns)):
         return None
-    par = np.ones((1, net.n_links))
-    par[0, net.cond_idx] = net.cond_g
-    par[0, net.rad_idx] = net.rad_c
-    par[0, net.conv_idx] = net.conv_scale
-    caps = net.capacities
-    kn = replace(old, compiled=net, par=par, mass=caps.mass_kg[None, :].copy(), base=caps.base_j_kgk[None, :].copy(),
-                 seg_lo=np.reshape(caps.seg_lo, (1, -1)).copy(), seg_hi=np.reshape(caps.seg_hi, (1, -1)).copy(),
-                 seg_slope=np.reshape(caps.seg_slope, (1, -1)).copy(),
-                 src=np.ascontiguousarray(net.source_matrix.reshape(1, net.n_nodes, -1)))
+    kn = replace(old, compiled=net, **configuration_rows(net))
     net._kernel_network = kn
     return kn
 
