@@ -12,6 +12,7 @@ field ``outer_diameter_m``, which must be above 0. Ranges and defaults are in th
 from __future__ import annotations
 
 import dataclasses
+import functools
 import math
 from dataclasses import dataclass
 from typing import Any
@@ -82,6 +83,12 @@ def key(toml_name: str, default=REQUIRED, *, factor=1.0, offset=0.0, kind=float,
 
 def declared_keys(cls) -> dict[str, Field]:
     """The schema table of a dataclass: TOML name -> Field (with the field's name as ``si_name``), in order."""
+    return dict(_declared_keys(cls))
+
+
+@functools.lru_cache(maxsize=None)
+def _declared_keys(cls) -> dict[str, Field]:
+    """``declared_keys``, worked out once a class (every instance checks itself against it)."""
     return {fld.metadata["key"].toml_name: dataclasses.replace(fld.metadata["key"], si_name=fld.name)
             for fld in dataclasses.fields(cls) if "key" in fld.metadata}
 

@@ -31,6 +31,9 @@ def _common(p) -> None:
                    help="run on Dask: 'local' (a LocalCluster on this machine) or a scheduler address, "
                         "e.g. tcp://10.0.0.5:8786 (needs pip install \".[cluster]\")")
     p.add_argument("--chunk-size", type=int, metavar="N", help="points per unit of work sent to a worker (default: automatic)")
+    p.add_argument("--one-by-one", action="store_true",
+                   help="run every point alone as 'brakeheat run' runs it, instead of side by side in the kernel's "
+                        "lanes (the linearised scheme, within 0.005 K); slower")
 
 
 def add_parsers(sub) -> None:
@@ -148,7 +151,8 @@ def sweep_command(args) -> int:
     def start(checkpoint, progress):
         return sweep(Path(args.scenario), args.vary, zip_keys=args.zip, overrides=overrides, stints=_stints(args) or 0,
                      settle=args.settle, keep_series=args.keep_series, scheduler=args.scheduler, workers=args.workers,
-                     chunk_size=args.chunk_size, checkpoint=checkpoint, resume=args.resume, progress=progress)
+                     chunk_size=args.chunk_size, checkpoint=checkpoint, resume=args.resume, progress=progress,
+                     one_by_one=args.one_by_one)
     checkpoint, record = _run(args, "sweep", start)
     data = sweep_dict(record)
 
@@ -218,7 +222,7 @@ def uncertainty_command(args) -> int:
         return uncertainty(Path(args.scenario), overrides=overrides, samples=args.samples, seed=args.seed,
                            sampling=args.sampling, stints=_stints(args), settle=args.settle, scheduler=args.scheduler,
                            workers=args.workers, chunk_size=args.chunk_size, checkpoint=checkpoint, resume=args.resume,
-                           progress=progress)
+                           progress=progress, one_by_one=args.one_by_one)
     checkpoint, (plan, record) = _run(args, "uncertainty", start)
     data = uncertainty_dict(plan, record)
 

@@ -93,10 +93,12 @@ def disc_layers(design: CornerDesign) -> np.ndarray:
     return solid_layers(half, d.layers, get_material(d.material))
 
 
-def pad_layers(design: CornerDesign) -> np.ndarray:
-    """Layer thicknesses through the friction material of a pad [m]."""
+def pad_layers(design: CornerDesign, thickness_m: float | None = None, count: int | None = None) -> np.ndarray:
+    """Layer thicknesses through the friction material of a pad [m]; ``thickness_m`` and ``count``
+    (the number of layers) if not the design's (a worn pad keeps its count)."""
     p = design.pad
-    return solid_layers(p.thickness_m, p.layers, get_material(p.material), PAD_MAX_LAYERS)
+    return solid_layers(p.thickness_m if thickness_m is None else thickness_m, p.layers if count is None else count,
+                        get_material(p.material), PAD_MAX_LAYERS)
 
 
 def duct_air_boundary(index: int) -> str:

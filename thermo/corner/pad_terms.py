@@ -70,7 +70,8 @@ class PadTerms:
     direct_disc_share: float | None
 
 
-def pad_terms(design, layers_m: np.ndarray, mat: dict, disc_face_resistance_k_w: float) -> PadTerms:
+def pad_terms(design, layers_m: np.ndarray, mat: dict, disc_face_resistance_k_w: float,
+              thickness_m: float | None = None) -> PadTerms:
     """The pad-dependent values of a corner (``PadTerms``).
 
     Parameters
@@ -83,8 +84,11 @@ def pad_terms(design, layers_m: np.ndarray, mat: dict, disc_face_resistance_k_w:
         The corner's materials by role ("pad", "backing", ...), as ``build_corner`` holds them [-]
     disc_face_resistance_k_w : float
         Conduction resistance from the disc's face layer centre to its face [K/W]
+    thickness_m : float or None
+        The pad's thickness, if not the design's (a worn pad) [m]
     """
     p = design.pad
+    thickness = p.thickness_m if thickness_m is None else float(thickness_m)
     area2 = 2 * p.area_m2
     k_pad = mat["pad"].conductivity(ROOM_K)
     dx = np.asarray(layers_m, dtype=float)
@@ -92,7 +96,7 @@ def pad_terms(design, layers_m: np.ndarray, mat: dict, disc_face_resistance_k_w:
     r_back = (dx[-1] / 2) / (k_pad * area2)
     r_backing_half = (p.backing_thickness_m / 2) / (mat["backing"].conductivity(ROOM_K) * area2)
     length = pad_length_m(p.area_m2)
-    edge_area = 2 * 2 * (length + p.area_m2 / length) * p.thickness_m      # both pads' perimeter x thickness
+    edge_area = 2 * 2 * (length + p.area_m2 / length) * thickness      # both pads' perimeter x thickness
     r_pad_face = interface.half_layer_resistance(dx[0], k_pad, area2)
     contact = design.airflow.contact_conductance_multiplier * p.rest_contact_conductance_w_m2k
     rest = interface.rest_conductance(disc_face_resistance_k_w, r_pad_face, contact, area2)
@@ -103,7 +107,7 @@ def pad_terms(design, layers_m: np.ndarray, mat: dict, disc_face_resistance_k_w:
         to_backing_w_k=1.0 / (r_back + r_backing_half), edge_area_m2=edge_area,
         edge_convection_scale=edge_area * design.airflow.caliper_convection_multiplier,
         edge_radiation_w_k4=radiation_coefficient_to_surroundings(mat["pad"].emissivity, edge_area),
-        mid_layer=int(np.searchsorted(np.cumsum(dx), p.thickness_m / 2)), rest_w_k=rest,
+        mid_layer=int(np.searchsorted(np.cumsum(dx), thickness / 2)), rest_w_k=rest,
         clamped_extra_w_k=max(applied - rest, 0.0), direct_disc_share=direct)
 
 

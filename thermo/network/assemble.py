@@ -104,10 +104,10 @@ class CompiledNetwork:
             for i in self.conv_idx)
         fns = [fn for _, fn, _ in self._conv]
         # every convection link tabulated on one grid: look them all up in one gather
-        self.conv_tables = None
+        self._tabulated = None       # the tabulated conductances, when every convection link has one on one grid
         if fns and all(isinstance(fn, TabulatedConductance) for fn in fns) and len({fn.grid for fn in fns}) == 1:
             self.conv_grid = fns[0].grid
-            self.conv_tables = _stacked_tables(tuple(fns))
+            self._tabulated = tuple(fns)
             self.conv_driver_index = np.array([di for _, _, di in self._conv], dtype=int)
             self._conv_exact = tuple(fn.function for fn in fns)
         signals = []
@@ -122,7 +122,20 @@ class CompiledNetwork:
         self.capacities = CapacityTable(n.heat_capacity for n in network.nodes)
         self._bound: tuple | None = None
 
+    @property
+    def tabulated(self) -> bool:
+        """Whether every convection link reads a table, all on one grid (``conv_grid``)."""
+        return self._tabulated is not None
+
+    @property
+    def conv_tables(self) -> np.ndarray | None:
+        """The convection links' tables stacked (n_conv, n_driver, n_node, n_boundary) [W/K], or
+        None unless ``tabulated``; stacked on first use (a network run only side by side with
+        others, whose tables are stacked together, never needs its own stack)."""
+        return None if self._tabulated is None else _stacked_tables(self._tabulated)
+
     # ------------------------------------------------------------------ signals
+
     def required_signals(self) -> dict[str, str]:
         """Every schedule signal the network reads, with what reads it."""
         need: dict[str, str] = {}
@@ -180,7 +193,7 @@ class CompiledNetwork:
         """G [W/K] of each convection link before its multiplier ``conv_scale`` (checked as scaled)."""
         Ta, Tb = self._ends(T_nodes, boundary_k)
         drv = np.asarray(driver_values, dtype=float)
-        if self.conv_tables is not None:
+        if self._tabulated is not None:
             li = self.conv_idx
             dv = np.where(self.conv_driver_index >= 0, drv[..., np.maximum(self.conv_driver_index, 0)], 0.0) \
                 if drv.shape[-1:] != (0,) else np.zeros(Ta.shape[:-1] + (li.size,))

@@ -24,6 +24,7 @@ import functools
 import os
 from dataclasses import dataclass, replace
 
+import numba
 import numpy as np
 
 from thermo.errors import ModelError
@@ -117,19 +118,22 @@ class KernelNetwork:
         return out
 
     def run_laps(self, inputs: KernelInputs, initial_k: np.ndarray, n_laps: int, output_weights,
-                 record: np.ndarray | None = None) -> tuple:
+                 record: np.ndarray | None = None, width: int | None = None) -> tuple:
         """The linearised kernel over the grid ``n_laps`` times, carrying the state (one call).
 
         ``output_weights`` (n_nodes, n_outputs) or None: the outputs whose peak in every lap is
         kept. Returns (KernelResult, lap_peaks (B, n_laps, n_outputs) [K]); ``record`` applies to
-        the last lap and ``peak_step`` counts steps over all laps."""
+        the last lap and ``peak_step`` counts steps over all laps. ``width``: configurations per
+        block of the lane kernel (None: ``lane_width(B)``, the blocks spread over the cores; a
+        process that is itself one of several workers gives ``min(B, LANES)``, one block)."""
         B = self.size
         record = np.zeros(inputs.grid.size, dtype=bool) if record is None else record
         record = np.ascontiguousarray(record, dtype=np.bool_)
         w_ptr, w_node, w_val = _sparse_weights(output_weights)
         T0 = np.ascontiguousarray(initial_k, dtype=float)
-        if lane_width(B) >= MIN_LANES:
-            return self._run_lanes(inputs, T0, int(n_laps), (w_ptr, w_node, w_val), record)
+        width = lane_width(B) if width is None else int(min(width, kernel_lanes.LANES))
+        if width >= MIN_LANES:
+            return self._run_lanes(inputs, T0, int(n_laps), (w_ptr, w_node, w_val), record, width)
         return self._run_each(inputs, T0, int(n_laps), (w_ptr, w_node, w_val), record)
 
     def _run_each(self, inputs, T0, n_laps, weights, record) -> tuple:
@@ -154,7 +158,13 @@ class KernelNetwork:
             peak=np.empty((K, n, Wd)), peak_step=np.zeros((K, n, Wd), dtype=np.int64),
             lap_peaks=np.empty((K, n_laps, n_out, Wd)), link_energy=np.zeros((K, L, Wd)), heat_in=np.zeros((K, Wd)),
             lane_flag=np.zeros((K, Wd), dtype=np.bool_), counts=np.zeros((K, Wd), dtype=np.int64))
-        kernel_lanes.advance_lanes(lanes(T0), inputs, self.arrays(inputs, lanes), n_laps, weights, record, lane_out)
+        threads = numba.get_num_threads()
+        if K == 1:
+            numba.set_num_threads(1)     # one block: no threads to wake (each would spin on a core another process may use)
+        try:
+            kernel_lanes.advance_lanes(lanes(T0), inputs, self.arrays(inputs, lanes), n_laps, weights, record, lane_out)
+        finally:
+            numba.set_num_threads(threads)
         temps, flows, final, peak, peak_step, lap_peaks, link_energy, heat_in, flag, _ = lane_out
         back = lambda y: _from_lanes(y, B)
         out = KernelResult(back(temps), back(flows), back(final), back(peak), back(peak_step), back(link_energy),
@@ -302,7 +312,7 @@ def _link_tables(net: CompiledNetwork):
     """Each convection link's TabulatedConductance, or None if any is untabulated or grids differ."""
     if net.conv_idx.size == 0:
         return ()
-    if net.conv_tables is None:
+    if not net.tabulated:
         return None
     fns = [net.network.links[i].conductance for i in net.conv_idx]
     return fns if all(isinstance(fn, TabulatedConductance) for fn in fns) else None

@@ -11,6 +11,7 @@ cluster the scenario's folder must be readable at the same path on every worker)
 from __future__ import annotations
 
 from dataclasses import dataclass
+from pathlib import Path
 
 import numpy as np
 
@@ -36,6 +37,9 @@ class StudyJob:
         Also the laps each corner takes to settle (``thermo.chain.settle``) [-]
     keep_series : bool
         Keep each point's stored temperature series (memory grows with the points) [-]
+    lanes : bool
+        Run the points of a chunk that share their drive side by side (``thermo.studies.lanes``);
+        False: every point alone, as ``brakeheat run`` runs it [-]
     """
 
     scenario_path: str
@@ -44,6 +48,7 @@ class StudyJob:
     stints: int = 0
     settle: bool = False
     keep_series: bool = False
+    lanes: bool = True
 
 
 def first_stints(segments, stints: int) -> list:
@@ -62,9 +67,32 @@ def first_stints(segments, stints: int) -> list:
 
 
 def point_scenario(job: StudyJob, values) -> object:
-    """The scenario of one point: the job's overrides, then the point's (key, value) pairs."""
-    from thermo.scenario import load_scenario
-    return load_scenario(job.scenario_path, list(job.overrides) + list(zip(job.keys, values)))
+    """The scenario of one point: the job's overrides, then the point's (key, value) pairs. The
+    file is read and parsed once per worker while it stays the same (``_scenario_file``)."""
+    from thermo.scenario.reader import scenario_from_dict
+    path, raw, text = _scenario_file(job.scenario_path)
+    return scenario_from_dict(raw, path=path, text=text, overrides=list(job.overrides) + list(zip(job.keys, values)))
+
+
+_FILES: dict = {}     # scenario path -> ((mtime, size), path, parsed, text), this worker's last read
+
+
+def _scenario_file(name: str) -> tuple:
+    """(path, parsed TOML, text) of a scenario file, parsed again only when its time or size changed
+    (``scenario_from_dict`` works on a copy, so the parsed document is never changed)."""
+    from lapdata.files import read_toml_file
+    from thermo.errors import ScenarioError
+    path = Path(name)
+    try:
+        stat = path.stat()
+        stamp = (stat.st_mtime_ns, stat.st_size)
+    except OSError:
+        stamp = None
+    kept = _FILES.get(name)
+    if stamp is None or kept is None or kept[0] != stamp:
+        raw, text = read_toml_file(path, "scenario file", ScenarioError)
+        kept = _FILES[name] = (stamp, path, raw, text)
+    return kept[1:]
 
 
 def run_point(job: StudyJob, values) -> dict:
@@ -86,20 +114,27 @@ def run_point(job: StudyJob, values) -> dict:
 
 def corner_point(corner, laps_to_settle=None, keep_series: bool = False) -> dict:
     """A corner's peaks [degC] and checks, rounded as ``run --json`` rounds them (0.01 K)."""
-    c2 = lambda k: round(float(kelvin_to_celsius(k)), 2)
-    peaks = np.max(corner.temperatures_k, axis=0)
-    entry = {
-        "name": corner.name,
-        "peak_c": {node: c2(peak) for node, peak in zip(corner.node_names, peaks)},
-        "checks": [{"name": k.name, "node": k.node, "limit_c": c2(k.limit_k), "peak_c": c2(k.peak_k),
-                    "margin_k": round(float(k.margin_k), 2), "status": k.status} for k in corner.checks],
-    }
-    if laps_to_settle is not None:
-        entry["laps_to_settle"] = int(laps_to_settle)
+    entry = corner_entry(corner.name, corner.node_names, np.max(corner.temperatures_k, axis=0), corner.checks,
+                         laps_to_settle)
     if keep_series:
         entry["series"] = {"time_s": corner.time_s.tolist(),
                            "temperature_c": {n: kelvin_to_celsius(corner.temperature(n)).round(2).tolist()
                                              for n in corner.node_names}}
+    return entry
+
+
+def corner_entry(name: str, node_names, peaks_k, checks, laps_to_settle=None) -> dict:
+    """One corner of a point: {"name", "peak_c": {node: degC}, "checks": [...]} (and
+    "laps_to_settle"), rounded as ``run --json`` rounds them (0.01 K); ``checks`` CheckResults."""
+    c2 = lambda k: round(float(kelvin_to_celsius(k)), 2)
+    entry = {
+        "name": name,
+        "peak_c": {node: c2(peak) for node, peak in zip(node_names, peaks_k)},
+        "checks": [{"name": k.name, "node": k.node, "limit_c": c2(k.limit_k), "peak_c": c2(k.peak_k),
+                    "margin_k": round(float(k.margin_k), 2), "status": k.status} for k in checks],
+    }
+    if laps_to_settle is not None:
+        entry["laps_to_settle"] = int(laps_to_settle)
     return entry
 
 
@@ -116,6 +151,11 @@ def run_chunk(job: StudyJob, chunk) -> list:
     worth are cached, so that a worker's memory stays about that of one point while points that
     share their airflow still share their tables."""
     from thermo.chain.run import STUDY_TABULATED_KEPT, forget_cached_tables
+    if job.lanes and not job.keep_series:
+        from thermo.studies.lanes import run_chunk_in_lanes
+        out = run_chunk_in_lanes(job, chunk)
+        forget_cached_tables(keep_tabulated=STUDY_TABULATED_KEPT)
+        return out
     out = []
     for index, values in chunk:
         out.append((index, run_point(job, values)))

@@ -129,7 +129,8 @@ def check_values(path, overrides, varied: list[Varied]) -> None:
 
 
 def sweep(path, vary, *, zip_keys=False, overrides=(), stints=0, settle=False, keep_series=False,
-          scheduler=None, workers=None, chunk_size=None, checkpoint=None, resume=False, progress=None):
+          scheduler=None, workers=None, chunk_size=None, checkpoint=None, resume=False, progress=None,
+          one_by_one=False):
     """Run a scenario at every point of a sweep.
 
     Parameters
@@ -155,6 +156,9 @@ def sweep(path, vary, *, zip_keys=False, overrides=(), stints=0, settle=False, k
         Continue the study in ``checkpoint`` without redoing its finished points [-]
     progress : callable or None
         ``progress(points_done, points_total)`` [-]
+    one_by_one : bool
+        Run every point alone as ``brakeheat run`` runs it, not side by side in the kernel's lanes
+        (``thermo.studies.lanes``) [-]
 
     Returns
     -------
@@ -168,7 +172,10 @@ def sweep(path, vary, *, zip_keys=False, overrides=(), stints=0, settle=False, k
     check_values(path, overrides, varied)
     definition = {"vary": [{"key": v.key, "spec": v.spec} for v in varied], "zip": bool(zip_keys),
                   "overrides": [[k, v] for k, v in overrides], "stints": int(stints), "settle": bool(settle)}
-    job = StudyJob(str(path), tuple(overrides), tuple(v.key for v in varied), int(stints), bool(settle), bool(keep_series))
+    if one_by_one:
+        definition["one_by_one"] = True         # recorded only when asked: studies from before keep resuming
+    job = StudyJob(str(path), tuple(overrides), tuple(v.key for v in varied), int(stints), bool(settle), bool(keep_series),
+                   lanes=not one_by_one)
     return run_study("sweep", path, job, values, definition, scheduler=scheduler, workers=workers,
                      chunk_size=chunk_size, checkpoint=checkpoint, resume=resume, progress=progress)
 

@@ -235,7 +235,8 @@ def read_uncertainty(scenario, path, overrides=(), samples=None, seed=None, samp
 
 
 def uncertainty(path, *, overrides=(), samples=None, seed=None, sampling=None, stints=None, settle=False,
-                scheduler=None, workers=None, chunk_size=None, checkpoint=None, resume=False, progress=None):
+                scheduler=None, workers=None, chunk_size=None, checkpoint=None, resume=False, progress=None,
+                one_by_one=False):
     """Run the scenario's ``[uncertainty]`` study.
 
     Parameters
@@ -245,7 +246,7 @@ def uncertainty(path, *, overrides=(), samples=None, seed=None, sampling=None, s
     overrides : sequence of (str, object)
         Applied to every sample first (``--set``) [-]
     samples, seed, sampling, stints : replace the table's values when given [-]
-    settle, scheduler, workers, chunk_size, checkpoint, resume, progress : as ``thermo.studies.sweep.sweep`` [-]
+    settle, scheduler, workers, chunk_size, checkpoint, resume, progress, one_by_one : as ``thermo.studies.sweep.sweep`` [-]
 
     Returns
     -------
@@ -261,7 +262,9 @@ def uncertainty(path, *, overrides=(), samples=None, seed=None, sampling=None, s
     definition = {"inputs": [inp.as_dict() for inp in plan.inputs], "samples": plan.samples, "seed": plan.seed,
                   "sampling": plan.sampling, "stints": plan.stints, "settle": bool(settle),
                   "overrides": [[k, v] for k, v in overrides]}
-    job = StudyJob(str(path), tuple(overrides), plan.keys, plan.stints, bool(settle), False)
+    if one_by_one:
+        definition["one_by_one"] = True         # recorded only when asked: studies from before keep resuming
+    job = StudyJob(str(path), tuple(overrides), plan.keys, plan.stints, bool(settle), False, lanes=not one_by_one)
     record = run_study("uncertainty", path, job, plan.values(), definition, scheduler=scheduler, workers=workers,
                        chunk_size=chunk_size, checkpoint=checkpoint, resume=resume, progress=progress)
     return plan, record

@@ -1,0 +1,207 @@
+"""Many configurations of one corner carried across the plan side by side (``CornerLanes``).
+
+A study's points often differ only in the corner's own build (duct size, convection multipliers,
+pad thickness, pistons) and limits, while the car, the plan and so each segment's heat input and
+air are the same. Those configurations run here together: each segment is one call of the lane
+kernel (``KernelNetwork.run_laps``, the linearised TR-BDF2 of ``thermo.solver.kernel_linearised``,
+side by side in ``thermo.solver.kernel_lanes``) for all of them, from each one's carried state.
+Between segments each configuration's pad wears and is changed at stops exactly as ``CornerRun``
+does it, by writing the worn pad's values (``thermo.corner.pad_terms``) into its rows of the
+kernel's arrays: nothing is rebuilt. The tables are stacked once for all configurations and
+shared where equal. A configuration keeps only each output node's peak and when it was reached.
+
+The linearised scheme keeps peaks within 0.005 K of the full-Newton run on the demo corner (see
+README, Speed). A configuration the lane kernel flags, whose state leaves a conductance table or
+the model's physical range, or whose network is of another shape, is dropped (``failed``): its
+caller runs it alone the ordinary way (``CornerRun``), which reports it as ``brakeheat run`` would.
+"""
+from __future__ import annotations
+
+from dataclasses import replace
+
+import numpy as np
+
+from thermo.chain.corner_run import (
+    MIN_PAD_THICKNESS_M, SegmentDuty, _wear_factor, conductance_grid, segment_schedule, worn_pad_profile,
+)
+from thermo.chain.guards import STATE_MAX_K, STATE_MIN_K
+from thermo.chain.plan import PlanSegment
+from thermo.corner import layers as layers_mod
+from thermo.corner.build import (
+    SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT, build_corner, corner_materials, disc_face_resistance, disc_layers, pad_layers,
+)
+from thermo.corner.pad_terms import PadTerms, pad_layer_link, pad_terms
+from thermo.network.assemble import compile_network
+from thermo.solver import kernel
+from thermo.solver.fast import step_grid
+from thermo.solver.kernel_arrays import ROW_FIELDS, _link_tables, configuration_rows, kernel_inputs, kernel_network
+from thermo.solver.settings import SolverSettings
+
+EDGE_LINKS = ("pad_edge_convection", "pad_edge_radiation")
+
+
+def _shape(net) -> tuple:
+    """What configurations side by side must share: nodes, links and their second ends, kinds,
+    drivers, signals, capacity segments and the table grid (the edges' first end may differ)."""
+    return (net.node_names, net.boundary_names, net.link_names, tuple(map(type, net.network.links)), tuple(net.link_b),
+            net.driver_names, tuple(net.conv_driver_index) if net.conv_idx.size else (), net.source_signals,
+            tuple(net.capacities.seg_node), net.conv_grid if net.conv_idx.size else None)
+
+
+class _PadRows:
+    """Where a corner's pad-dependent values sit in the kernel's rows (one map for every configuration)."""
+
+    def __init__(self, net, model):
+        links, nodes = net.link_names, net.node_names
+        self.pads = np.array([nodes.index(n) for n in model.pad_nodes])
+        self.between = np.array([links.index(pad_layer_link(model.pad_nodes, i)) for i in range(len(self.pads) - 1)],
+                                dtype=np.int64)
+        self.to_backing = links.index("pad_to_backing_plate")
+        self.edges = [links.index(name) for name in EDGE_LINKS]
+        self.rest = links.index("pad_disc_interface")
+        self.clamped = links.index("pad_disc_interface_clamped") if "pad_disc_interface_clamped" in links else None
+        self.face, self.pad_face = nodes.index(model.disc_face_node), int(self.pads[0])
+        signals = net.source_signals
+        self.disc_signal, self.pad_signal = signals.index(SIGNAL_DISC_HEAT), signals.index(SIGNAL_PAD_HEAT)
+        sources = {(s.node, s.signal) for s in model.network.sources}
+        expected = {(n, sig) for n in (model.disc_face_node, model.pad_nodes[0]) for sig in (SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT)}
+        if self.clamped is not None and sources != expected:
+            raise ValueError("corner lanes: the friction heat's sources are not the interface split")
+        outputs = model.output_nodes
+        self.out_pad = outputs.index("pad")
+        self.out_pad_surface = outputs.index("pad_surface") if "pad_surface" in outputs else None
+
+    def write(self, rows: dict, link_a: np.ndarray, weights: np.ndarray, b: int, terms: PadTerms) -> None:
+        """Configuration ``b``'s rows, the edges' first end and its output weights for ``terms``."""
+        par = rows["par"]
+        par[b, self.between] = terms.between_layers_w_k
+        par[b, self.to_backing] = terms.to_backing_w_k
+        par[b, self.edges[0]] = terms.edge_convection_scale
+        par[b, self.edges[1]] = terms.edge_radiation_w_k4
+        par[b, self.rest] = terms.rest_w_k
+        if self.clamped is not None:
+            par[b, self.clamped] = terms.clamped_extra_w_k
+        rows["mass"][b, self.pads] = terms.masses_kg
+        if terms.direct_disc_share is not None:
+            src, d = rows["src"], terms.direct_disc_share
+            src[b, self.face, [self.disc_signal, self.pad_signal]] = d
+            src[b, self.pad_face, [self.disc_signal, self.pad_signal]] = 1.0 - d
+        link_a[b, self.edges] = self.pads[terms.mid_layer]
+        weights[b, self.out_pad, self.pads] = terms.masses_kg / np.sum(terms.masses_kg)
+        if self.out_pad_surface is not None:
+            weights[b, self.out_pad_surface, self.pads[:2]] = layers_mod.face_extrapolation(terms.layers_m)
+
+
+class CornerLanes:
+    """One corner of several scenarios that share their drive, solved segment by segment side by side.
+
+    ``scenarios``: one per configuration, each with this corner (``corner`` its index); their
+    plans, cars, air and solver settings must be the same (``thermo.studies.lanes`` groups them).
+    After ``advance`` over the segments, ``peaks_k`` (B, n_outputs) and ``peak_time_s`` hold each
+    configuration's output peaks; ``failed`` the configurations to run alone.
+    """
+
+    def __init__(self, scenarios, corner: int, settings: SolverSettings):
+        self.scenarios = list(scenarios)
+        first = self.scenarios[0]
+        self.designs = [s.corners[corner] for s in self.scenarios]
+        self.settings = settings
+        grid = conductance_grid(first)
+        self.models = [build_corner(d, s.ambient.pressure_pa, grid) for d, s in zip(self.designs, self.scenarios)]
+        nets = [compile_network(m.network) for m in self.models]
+        self.net = nets[0]
+        self.failed: set[int] = set()
+        template = kernel_network(self.net)
+        if template is None:
+            raise ValueError("corner lanes: the network does not run compiled")
+        shape = _shape(self.net)
+        tables, self.tix = {}, np.zeros((len(nets), self.net.conv_idx.size), dtype=np.int64)
+        for b, net in enumerate(nets):
+            fns = _link_tables(net)
+            if fns is None or _shape(net) != shape:
+                self.failed.add(b)
+                continue
+            for s, fn in enumerate(fns):
+                self.tix[b, s] = tables.setdefault(id(fn.table), (len(tables), fn.table))[0]
+        stacked = np.ascontiguousarray(np.stack([t for _, t in sorted(tables.values(), key=lambda x: x[0])]))
+        self.template = replace(template, tables=stacked, varies_b=None)     # worked out where needed
+        rows = [configuration_rows(net) for net in nets]
+        self.rows = {name: np.ascontiguousarray(np.concatenate([r[name] for r in rows])) for name in ROW_FIELDS}
+        self.link_a = np.array([net.link_a for net in nets], dtype=np.int64)
+        self.weights = np.array([m.output_weights for m in self.models])
+        self.pad_rows = _PadRows(self.net, self.models[0])
+        self.pad_count = len(self.models[0].pad_nodes)
+        self.materials = [corner_materials(d) for d in self.designs]
+        self.disc_face_r = [disc_face_resistance(d, disc_layers(d), m["disc"]) for d, m in zip(self.designs, self.materials)]
+        self.thickness = np.array([d.pad.thickness_m for d in self.designs])
+        self.layers = [pad_layers(d, count=self.pad_count) for d in self.designs]
+        n_out = len(self.models[0].output_nodes)
+        self.T = np.array([np.full(self.net.n_nodes, float(s.ambient.temperature_at(0.0))) for s in self.scenarios])
+        self.peaks_k = np.full((len(nets), n_out), -np.inf)
+        self.peak_time_s = np.zeros((len(nets), n_out))
+        self.back = self.net.node_names.index("backing_plate")
+
+    @property
+    def live(self) -> np.ndarray:
+        """The configurations still side by side."""
+        return np.array([b for b in range(len(self.scenarios)) if b not in self.failed], dtype=np.int64)
+
+    def _set_pad(self, b: int, thickness_m: float) -> None:
+        """Configuration ``b``'s pad at ``thickness_m``, the same number of layers (``pad_terms``)."""
+        design = self.designs[b]
+        self.layers[b] = pad_layers(design, thickness_m, self.pad_count)
+        terms = pad_terms(design, self.layers[b], self.materials[b], self.disc_face_r[b], thickness_m)
+        self.pad_rows.write(self.rows, self.link_a, self.weights, b, terms)
+        self.thickness[b] = thickness_m
+
+    def advance(self, segment: PlanSegment, duty: SegmentDuty) -> None:
+        """Solve one segment for every configuration still side by side."""
+        phase = segment.phase
+        schedule = segment_schedule(self.scenarios[0], self.designs[0], segment, duty)
+        if phase.kind == "pit_stop":
+            for b in self.live:
+                if phase.pad_change or self.thickness[b] < phase.pad_change_below_m:
+                    self._set_pad(b, self.designs[b].pad.thickness_m)
+                    at = float(self.scenarios[b].ambient.temperature_at(segment.t_start_s))
+                    self.T[b, list(self.pad_rows.pads) + [self.back]] = at
+        grid, out_t = step_grid(self.net, schedule, self.settings, schedule.t_start_s, schedule.t_end_s, None)
+        inputs = kernel_inputs(self.net, schedule, grid)
+        record = np.zeros(grid.size, dtype=bool)
+        record[np.searchsorted(grid, out_t)] = True
+        energy = float(np.trapezoid(duty.disc_heat_w + duty.pad_heat_w, duty.time_s))
+        weight = np.interp(out_t, schedule.time_s, duty.pad_heat_w)
+        live = self.live
+        shapes: dict[bytes, list[int]] = {}
+        for b in live:
+            shapes.setdefault(self.link_a[b].tobytes(), []).append(int(b))
+        for members in shapes.values():
+            ix = np.array(members, dtype=np.int64)
+            kn = replace(self.template, link_a=self.link_a[ix[0]].copy(), tix=np.ascontiguousarray(self.tix[ix]),
+                         **{name: np.ascontiguousarray(self.rows[name][ix]) for name in ROW_FIELDS})
+            res, _ = kn.run_laps(inputs, self.T[ix], 1, None, record, width=len(ix))
+            for j, b in enumerate(members):
+                temps = res.temps[j]
+                if res.status[j] != kernel.STATUS_OK or not np.all((temps >= STATE_MIN_K) & (temps <= STATE_MAX_K)):
+                    self.failed.add(b)
+                    continue
+                out = temps @ self.weights[b].T
+                top = np.argmax(out, axis=0)
+                higher = out[top, np.arange(out.shape[1])] > self.peaks_k[b]
+                self.peaks_k[b, higher] = out[top[higher], np.flatnonzero(higher)]
+                self.peak_time_s[b, higher] = out_t[top[higher]]
+                self.T[b] = res.final[j]
+                self._wear(b, segment, out, weight, energy)
+
+    def _wear(self, b: int, segment: PlanSegment, out: np.ndarray, weight: np.ndarray, energy_lap: float) -> None:
+        """``CornerRun._wear`` for configuration ``b``: the pad-heat weighted pad temperature sets the wear."""
+        scenario = self.scenarios[b]
+        if not (scenario.pad_wear.enabled and segment.moving and energy_lap > 0):
+            return
+        pad_k = float(np.sum(weight * out[:, self.pad_rows.out_pad]) / max(np.sum(weight), 1e-12))
+        wear = (scenario.pad_wear.wear_coefficient_m3_per_j * energy_lap / (2 * self.designs[b].pad.area_m2)
+                * _wear_factor(scenario, pad_k))
+        new = max(self.thickness[b] - wear, MIN_PAD_THICKNESS_M)
+        if new < self.thickness[b]:
+            old_dx, pads = self.layers[b], self.pad_rows.pads
+            self._set_pad(b, new)
+            self.T[b, pads] = worn_pad_profile(old_dx, self.T[b, pads], self.layers[b])

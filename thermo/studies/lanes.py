@@ -1,0 +1,121 @@
+"""A chunk of a study's points run side by side (``run_chunk_in_lanes``).
+
+Points that share their drive (``drive_key``: the scenario file, car, brake balance, fuel, air,
+plan and solver settings, and each corner's view of the brakes and of its ducts' air) see the same
+heat and air in every segment; they differ only in their corners' own build, pad wear rates and
+limits. Each group of at least ``MIN_LANE_POINTS`` such points runs corner by corner in
+``thermo.chain.corner_lanes.CornerLanes``; a smaller group, a point whose solver is not 'fast', and
+any point the lanes drop (see there) runs alone through ``run_point``, exactly as ``brakeheat
+run`` would run it. A point's result has the same form either way (``points.corner_entry``).
+"""
+from __future__ import annotations
+
+import dataclasses
+
+import numpy as np
+
+from thermo.errors import BrakeheatError
+
+MIN_LANE_POINTS = 4      # fewer points of one drive run one by one (``kernel_arrays.MIN_LANES``)
+DRIVE_FIELDS = ("path", "vehicle", "envelope", "bias", "power_method", "left_share_front", "left_share_rear",
+                "fuel_consumption_kg_per_lap", "fuel_capacity_kg", "ambient", "plan", "solver")
+
+
+def fingerprint(value) -> object:
+    """A hashable, exact stand-in for ``value`` (dataclasses, sequences, mappings, arrays, numbers)."""
+    if dataclasses.is_dataclass(value) and not isinstance(value, type):
+        return (type(value).__name__,) + tuple((f.name, fingerprint(getattr(value, f.name)))
+                                               for f in dataclasses.fields(value))
+    if isinstance(value, np.ndarray):
+        return ("array", value.dtype.str, value.shape, value.tobytes())
+    if isinstance(value, dict):
+        return ("dict",) + tuple(sorted((str(k), fingerprint(v)) for k, v in value.items()))
+    if isinstance(value, (list, tuple)):
+        return ("seq",) + tuple(fingerprint(v) for v in value)
+    if isinstance(value, (np.generic, float, int, str, bool, type(None))):
+        return (type(value).__name__, repr(value.item() if isinstance(value, np.generic) else value))
+    return (type(value).__name__, repr(value))
+
+
+def drive_key(scenario) -> object:
+    """What points must share to run side by side: every input of each segment's heat and air."""
+    from thermo.chain.run import corner_brakes
+    from thermo.corner.build import duct_air_signals
+    corners = tuple((brake, tuple(duct_air_signals(design)))
+                    for brake, design in zip(corner_brakes(scenario), scenario.corners))
+    return fingerprint(tuple(getattr(scenario, name) for name in DRIVE_FIELDS) + (corners,))
+
+
+def run_chunk_in_lanes(job, chunk) -> list:
+    """``points.run_chunk`` with the points that share their drive side by side: ``[(index, point)]``."""
+    from thermo.studies.points import point_scenario, run_point
+
+    done, groups = {}, {}
+    for index, values in chunk:
+        try:
+            scenario = point_scenario(job, values)
+        except BrakeheatError:
+            done[index] = run_point(job, values)         # it says why, as a point alone would
+            continue
+        key = drive_key(scenario) if scenario.solver.method == "fast" else ("alone", index)
+        groups.setdefault(key, []).append((index, values, scenario))
+    for members in groups.values():
+        if len(members) < MIN_LANE_POINTS:
+            done.update((index, run_point(job, values)) for index, values, _ in members)
+        else:
+            done.update(_run_group(job, members))
+    return [(index, done[index]) for index, _ in chunk]
+
+
+def _run_group(job, members) -> dict:
+    """Points of one drive: each corner's configurations side by side, the dropped ones alone."""
+    from thermo.chain.corner_lanes import CornerLanes
+    from thermo.chain.corner_run import corner_check_specs
+    from thermo.chain.plan import expand_plan
+    from thermo.chain.run import corner_brakes, corner_duties
+    from thermo.limits import evaluate_check
+    from thermo.studies.points import _laps_to_settle, _plain, corner_entry, first_stints, run_point
+
+    scenarios = [scenario for _, _, scenario in members]
+    first = scenarios[0]
+    try:
+        segments = first_stints(expand_plan(first), job.stints)
+        brakes = corner_brakes(first)
+        duties = [corner_duties(first, segment, brakes) for segment in segments]
+    except BrakeheatError:
+        return {index: run_point(job, values) for index, values, _ in members}
+    settings = first.solver.settings()
+    corners = {index: [] for index, _, _ in members}
+    alone: set[int] = set()
+    for c, design in enumerate(first.corners):
+        try:
+            lanes = CornerLanes(scenarios, c, settings)
+        except (BrakeheatError, ValueError):
+            alone.update(index for index, _, _ in members)
+            break
+        for segment, duty in zip(segments, duties):
+            lanes.advance(segment, duty[design.name])
+        for b, (index, _, scenario) in enumerate(members):
+            if b in lanes.failed:
+                alone.add(index)
+                continue
+            model = lanes.models[b]
+            peaks, when = lanes.peaks_k[b], lanes.peak_time_s[b]
+            where = {node: i for i, node in enumerate(model.output_nodes)}
+            checks = [evaluate_check(spec, np.array([when[where[spec.node]]]), np.array([peaks[where[spec.node]]]))
+                      for spec in corner_check_specs(scenario, lanes.designs[b], model)]
+            corners[index].append((design.name, model.output_nodes, peaks, checks))
+    out = {}
+    for index, values, scenario in members:
+        if index in alone:
+            out[index] = run_point(job, values)
+            continue
+        try:
+            settled = _laps_to_settle(scenario) if job.settle else {}
+        except BrakeheatError as error:
+            out[index] = {"values": {k: _plain(v) for k, v in zip(job.keys, values)}, "corners": [], "error": str(error)}
+            continue
+        out[index] = {"values": {k: _plain(v) for k, v in zip(job.keys, values)},
+                      "corners": [corner_entry(name, nodes, peaks, checks, settled.get(name))
+                                  for name, nodes, peaks, checks in corners[index]]}
+    return out
