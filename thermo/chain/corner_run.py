@@ -28,7 +28,7 @@ from thermo.materials import get_material
 from thermo.network.assemble import compile_network
 from thermo.network.schedule import Schedule
 from thermo.network.tabulate import ConductanceGrid
-from thermo.results import CornerResult, EnergyBalance, LapSpan, PhaseSpan
+from thermo.results import CornerFacts, CornerResult, EnergyBalance, LapPadThickness, LapSpan, PhaseSpan, StintPadThickness
 from thermo.scenario.model import Scenario
 from thermo.solver.kernel_arrays import release_kernel_network
 from thermo.solver.scipy_solve import solve_network
@@ -233,16 +233,15 @@ class CornerRun:
                                          {n: float(temps_all[:, i].max()) for n, i in node_index.items() if n in node_materials})
         checks = tuple(evaluate_check(s, time_s, temps_all[:, node_index[s.node]]) for s in specs)
         stop = next((s.t_start_s for s in segments if s.phase.kind == "soak"), None)
-        extras = {"pad_thickness_m": [{"when": w, "thickness_m": th} for w, th in stint_thickness],
-                  "pad_thickness_by_lap_m": self.lap_thickness,
-                  "pad_minimum_thickness_m": design.pad.minimum_thickness_m,
-                  "link_to_boundary": [link.b in model.network.boundary_names for link in model.network.links],
-                  "heat_partition_disc": model.heat_partition,
-                  "heat_partition_realised": _realised_partition(model, self.heat_in, self.direct_to_disc, self.link_energy),
-                  "removed_with_pad_material_j": self.removed,
-                  "initial_temperature_k": float(self.T_initial[0]),
-                  "warnings": warns,
-                  "correlations_used": sorted(used)}
+        facts = CornerFacts(
+            pad_thickness_m=tuple(StintPadThickness(w, th) for w, th in stint_thickness),
+            pad_thickness_by_lap_m=tuple(LapPadThickness(row["lap"], row["thickness_m"]) for row in self.lap_thickness),
+            pad_minimum_thickness_m=design.pad.minimum_thickness_m,
+            link_to_boundary=tuple(link.b in model.network.boundary_names for link in model.network.links),
+            heat_partition_disc=model.heat_partition,
+            heat_partition_realised=_realised_partition(model, self.heat_in, self.direct_to_disc, self.link_energy),
+            removed_with_pad_material_j=self.removed, initial_temperature_k=float(self.T_initial[0]),
+            warnings=tuple(warns), correlations_used=tuple(sorted(used)))
         links = model.network.links
         release_kernel_network(self.compiled)
         return CornerResult(
@@ -250,7 +249,7 @@ class CornerRun:
             link_names=tuple(link.name for link in links), link_groups=tuple(link.group for link in links),
             link_flows_w=np.concatenate(self.flows) if self.full else None, link_energy_j=self.link_energy,
             energy=energy, checks=checks, laps=tuple(self.laps), phases=_phase_spans(segments, self.energy_by_phase),
-            stop_time_s=stop, extras=extras, speed_m_s=np.concatenate(self.speeds),
+            stop_time_s=stop, facts=facts, speed_m_s=np.concatenate(self.speeds),
             brake_power_w=np.concatenate(self.powers))
 
 

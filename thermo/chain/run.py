@@ -94,10 +94,11 @@ def run_scenario(scenario: Scenario, *, progress=None, segments=None, store: str
             if progress is not None:
                 progress(design.name, segment)
     corners = tuple(run.result(segments) for run in runs)
-    run_warnings = tuple(w for c in corners for w in c.extras.get("warnings", []))
+    run_warnings = tuple(w for c in corners for w in c.facts.warnings)
+    used = {name for c in corners for name in c.facts.correlations_used}
     return Results(
         scenario_name=scenario.name, scenario_text=scenario.text, version=thermo.__version__,
-        solver=settings.method, solver_status="success", references=references_for(scenario, {n for c in corners for n in c.extras["correlations_used"]}),
+        solver=settings.method, solver_status="success", references=references_for(scenario, used),
         corners=corners, caution=thermo.CAUTION, warnings=run_warnings, overrides=applied_overrides(scenario),
         hydraulics=hydraulics_dict(scenario, corners))
 
