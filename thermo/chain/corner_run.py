@@ -32,7 +32,6 @@ from thermo.results import CornerFacts, CornerResult, EnergyBalance, LapPadThick
 from thermo.scenario.model import Scenario
 from thermo.solver.kernel_arrays import release_kernel_network
 from thermo.solver.scipy_solve import solve_network
-from thermo.solver.settings import SolverSettings
 
 MIN_PAD_THICKNESS_M = 0.5e-3   # a pad worn this far is held here (and the run warns)
 VALIDITY_SAMPLE_EVERY = 10     # every n-th output sample is checked against the correlations' ranges
@@ -96,17 +95,20 @@ class CornerRun:
     physical range after each segment (``thermo.chain.guards``).
     """
 
-    def __init__(self, scenario: Scenario, design: CornerDesign, settings: SolverSettings, *,
+    def __init__(self, scenario: Scenario, setup, *,
                  interval_s: float | None = None, store: str = "standard", clock: WallClock | None = None):
+        """``setup``: the corner as ``thermo.chain.setup.corner_setup`` built it (design, model, compiled
+        network, conductance grid, solver settings); the run starts from its network."""
         if store not in STORE_CHOICES:
             raise ValueError(f"store must be one of {STORE_CHOICES}, got {store!r}")
-        self.scenario, self.design, self.settings = scenario, design, settings
+        design = setup.design
+        self.scenario, self.design, self.settings = scenario, design, setup.settings
         self.clock = WallClock(scenario.solver.wall_clock_limit_s) if clock is None else clock
-        self.grid = conductance_grid(scenario)
+        self.grid = setup.grid
         self.full = store == "full"
         self.interval_s = 0.0 if self.full else (output_interval_s(scenario) if interval_s is None else interval_s)
         self.pad_layer_count = len(pad_layers(design))   # kept as the pad wears, so the state maps node for node
-        self.model, self.compiled = self._with_pad(design.pad.thickness_m)
+        self.model, self.compiled = setup.model, setup.network
         names = self.model.network.node_names
         self.i_pads = [names.index(node) for node in self.model.pad_nodes]
         self.i_back = names.index("backing_plate")
