@@ -53,6 +53,89 @@ class LapSpan:
 
 
 @dataclass(frozen=True)
+class StintPadThickness:
+    """The pad thickness when a stint ended.
+
+    Attributes
+    ----------
+    when : str
+        What ended the stint: the pit stop that changed the pads (its phase name) or "end of run" [-]
+    thickness_m : float
+        Pad friction-material thickness then [m]
+    """
+
+    when: str
+    thickness_m: float
+
+
+@dataclass(frozen=True)
+class LapPadThickness:
+    """The pad thickness at the end of one lap.
+
+    Attributes
+    ----------
+    lap : int
+        1-based lap count over the whole run (``LapSpan.index``) [-]
+    thickness_m : float
+        Pad friction-material thickness at the lap's end [m]
+    """
+
+    lap: int
+    thickness_m: float
+
+
+@dataclass(frozen=True, kw_only=True)
+class CornerFacts:
+    """What a run found out about one corner beside its series and checks.
+
+    Written as the JSON key ``extras`` of each corner (``run --json``, summary.json) and as the
+    HDF5 attribute ``extras_json`` of ``/corners/<corner>``, with the attribute names below as
+    keys, in this order. The three facts marked optional are None only in a ``Results`` read
+    from a file written before brakeheat recorded them.
+
+    Attributes
+    ----------
+    pad_thickness_m : tuple of StintPadThickness
+        The pad thickness at the end of each stint: at each pit stop that changed the
+        pads, then at the end of the run [m]
+    pad_thickness_by_lap_m : tuple of LapPadThickness or None
+        The pad thickness at the end of every lap (optional) [m]
+    pad_minimum_thickness_m : float
+        The pad's minimum friction-material thickness, from the design [m]
+    link_to_boundary : tuple of bool
+        One flag per link (the order of ``CornerResult.link_names``): True where the
+        link's second end is a boundary (ambient or duct air), so that its heat leaves the corner [-]
+    heat_partition_disc : float
+        Nominal disc share of the friction heat: the area-weighted effusivity form,
+        or the user's fixed share [-]
+    heat_partition_realised : float or None
+        Share of the run's friction heat that ended in the disc: what the sources put
+        into its face plus what crossed the pad-disc interface (optional) [-]
+    removed_with_pad_material_j : float
+        Heat carried away with worn pad material and with pads taken off at pit stops,
+        counted as lost in the energy balance [J]
+    initial_temperature_k : float
+        Temperature of every node at the start of the run [K]
+    warnings : tuple of str
+        This corner's warnings: alignment, pad wear, correlations used outside their
+        ranges, material data extrapolated [-]
+    correlations_used : tuple of str or None
+        Names of the correlations the run evaluated, sorted (optional) [-]
+    """
+
+    pad_thickness_m: tuple[StintPadThickness, ...]
+    pad_thickness_by_lap_m: tuple[LapPadThickness, ...] | None = None
+    pad_minimum_thickness_m: float
+    link_to_boundary: tuple[bool, ...]
+    heat_partition_disc: float
+    heat_partition_realised: float | None = None
+    removed_with_pad_material_j: float
+    initial_temperature_k: float
+    warnings: tuple[str, ...]
+    correlations_used: tuple[str, ...] | None = None
+
+
+@dataclass(frozen=True)
 class CornerResult:
     """The solution of one brake corner over the whole plan."""
 
@@ -71,7 +154,7 @@ class CornerResult:
     laps: tuple[LapSpan, ...] = ()
     phases: tuple[PhaseSpan, ...] = ()
     stop_time_s: float | None = None   # when the car stopped for the final soak (None: no soak)
-    extras: dict = field(default_factory=dict)   # further per-corner facts (pad thickness per stint ...)
+    facts: CornerFacts = field(kw_only=True)   # pad thickness, heat partition, warnings ... (keyword only)
     speed_m_s: np.ndarray | None = None      # (n_t,) car speed at the stored rows [m/s] (None: not kept)
     brake_power_w: np.ndarray | None = None  # (n_t,) friction heat into the corner at the stored rows [W]
 

@@ -12,7 +12,8 @@ import tomllib
 from pathlib import Path
 
 from thermo.chain.plan import expand_plan
-from thermo.chain.run import corner_brakes, corner_duties, solve_corner
+from thermo.chain.run import corner_duties, solve_corner
+from thermo.chain.setup import corner_brakes
 from thermo.scenario.reader import scenario_from_dict
 from thermo.solver.settings import SolverSettings
 

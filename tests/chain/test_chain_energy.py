@@ -19,7 +19,7 @@ from thermo.network import HeatCapacity
 
 def _final_model(scenario, result):
     design = scenario.corners[0]
-    thickness = result.extras["pad_thickness_m"][-1]["thickness_m"]
+    thickness = result.facts.pad_thickness_m[-1].thickness_m
     return build_corner(replace(design, pad=replace(design.pad, thickness_m=thickness)), grid=None)
 
 
@@ -30,7 +30,7 @@ def _enthalpy(model, result, row):
 
 def test_stint_energy_balance_below_1e_5(stint_run):
     assert stint_run.energy.balance_rel_error < 1e-5
-    assert stint_run.extras["removed_with_pad_material_j"] > 0.0
+    assert stint_run.facts.removed_with_pad_material_j > 0.0
 
 
 def test_heat_in_is_the_braking_energy_of_the_laps(stint_run):
@@ -46,8 +46,8 @@ def test_balance_rebuilt_from_outputs_and_link_energies(stint_scenario, stint_ru
     initial = build_corner(stint_scenario.corners[0], grid=None)
     final = _final_model(stint_scenario, r)
     stored = _enthalpy(final, r, -1) - _enthalpy(initial, r, 0)
-    to_air = sum(e for e, out in zip(r.link_energy_j, r.extras["link_to_boundary"]) if out)
-    removed = r.extras["removed_with_pad_material_j"]
+    to_air = sum(e for e, out in zip(r.link_energy_j, r.facts.link_to_boundary) if out)
+    removed = r.facts.removed_with_pad_material_j
     assert stored == pytest.approx(r.energy.stored_j, rel=1e-9)
     assert r.energy.heat_in_j - stored - to_air - removed == pytest.approx(0.0, abs=1e-5 * r.energy.heat_in_j)
 
@@ -66,7 +66,7 @@ def test_pad_change_removes_the_enthalpy_of_the_old_pads():
     expected = sum(node.heat_capacity.enthalpy(r.temperature(node.name)[row]) - node.heat_capacity.enthalpy(amb)
                    for node in model.network.nodes if node.name in ("pad", "backing_plate"))
     assert expected > 1e4
-    assert r.extras["removed_with_pad_material_j"] == pytest.approx(expected, rel=1e-9)
+    assert r.facts.removed_with_pad_material_j == pytest.approx(expected, rel=1e-9)
     # and the new pads start the next stint at ambient
     assert r.temperature("pad")[row + 1] < r.temperature("pad")[row]
 
@@ -76,11 +76,11 @@ def test_worn_material_carries_its_own_enthalpy():
     scenario = small_scenario([{"type": "laps", "count": 1}], [("pad_wear.wear_coefficient_mm3_per_kj", 5.0)])
     r = solve_one(scenario)
     t0 = scenario.corners[0].pad.thickness_m
-    t1 = r.extras["pad_thickness_m"][-1]["thickness_m"]
+    t1 = r.facts.pad_thickness_m[-1].thickness_m
     assert t1 < t0
     pad = get_material("pad_semi_metallic")
     worn_kg = (t0 - t1) * 2 * scenario.corners[0].pad.area_m2 * pad.density_kg_m3
     specific = HeatCapacity(1.0, tuple(pad.specific_heat_table[0]), tuple(pad.specific_heat_table[1]))
     expected = worn_kg * float(specific.enthalpy(r.temperature("pad")[-1]))
-    assert r.extras["removed_with_pad_material_j"] == pytest.approx(expected, rel=1e-9)
+    assert r.facts.removed_with_pad_material_j == pytest.approx(expected, rel=1e-9)
     assert r.energy.balance_rel_error < 1e-5

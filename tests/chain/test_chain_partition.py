@@ -12,8 +12,8 @@ def test_a_fixed_split_with_the_pad_held_off_is_realised_exactly():
     scenario = small_scenario(SHORT_PLAN, NO_WEAR + [("corners.front.pad.heat_partition", 0.9),
                                                      ("corners.front.pad.rest_contact_conductance_w_m2k", 0.0)])
     run = solve_one(scenario)
-    assert run.extras["heat_partition_disc"] == 0.9
-    assert run.extras["heat_partition_realised"] == pytest.approx(0.9, abs=1e-9)
+    assert run.facts.heat_partition_disc == 0.9
+    assert run.facts.heat_partition_realised == pytest.approx(0.9, abs=1e-9)
 
 
 def test_the_resting_contact_carries_heat_from_the_hotter_side():
@@ -25,5 +25,5 @@ def test_the_resting_contact_carries_heat_from_the_hotter_side():
     lumped = small_scenario(SHORT_PLAN, NO_WEAR + [("corners.front.pad.heat_partition", 0.9)])
     layered = small_scenario(SHORT_PLAN, NO_WEAR + [("corners.front.pad.heat_partition", 0.9),
                                                     ("corners.front.pad.layers", 0)])
-    assert solve_one(lumped).extras["heat_partition_realised"] < 0.9
-    assert solve_one(layered).extras["heat_partition_realised"] > 0.9
+    assert solve_one(lumped).facts.heat_partition_realised < 0.9
+    assert solve_one(layered).facts.heat_partition_realised > 0.9

@@ -6,7 +6,8 @@ import pytest
 
 from chain_runs import small_scenario
 from thermo.chain.plan import expand_plan
-from thermo.chain.run import corner_brakes, corner_duties
+from thermo.chain.run import corner_duties
+from thermo.chain.setup import corner_brakes
 from thermo.duty.bias import front_power_share
 from thermo.errors import ScenarioError
 

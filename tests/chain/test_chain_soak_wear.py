@@ -68,9 +68,9 @@ def pad_stints():
 def test_pad_change_restores_thickness_and_lowers_the_next_fluid_peak(small_design, pad_stints):
     changed, kept = pad_stints
     new = small_design.pad.thickness_m
-    by_lap = {row["lap"]: row["thickness_m"] for row in changed.extras["pad_thickness_by_lap_m"]}
-    kept_by_lap = {row["lap"]: row["thickness_m"] for row in kept.extras["pad_thickness_by_lap_m"]}
-    assert changed.extras["pad_thickness_m"][0]["thickness_m"] == pytest.approx(by_lap[2])
+    by_lap = {row.lap: row.thickness_m for row in changed.facts.pad_thickness_by_lap_m}
+    kept_by_lap = {row.lap: row.thickness_m for row in kept.facts.pad_thickness_by_lap_m}
+    assert changed.facts.pad_thickness_m[0].thickness_m == pytest.approx(by_lap[2])
     assert new - by_lap[3] < 0.6 * (new - by_lap[2])      # after the change: one lap of wear, not three
     assert kept_by_lap[4] < by_lap[4] - 1e-3
     pit_end = next(p.t_end_s for p in changed.phases if p.kind == "pit_stop")
@@ -83,22 +83,22 @@ def test_pad_change_restores_thickness_and_lowers_the_next_fluid_peak(small_desi
 
 def test_pad_thickness_falls_monotonically_within_a_stint(pad_stints):
     _, kept = pad_stints
-    rows = kept.extras["pad_thickness_by_lap_m"]
-    assert [r["lap"] for r in rows] == [1, 2, 3, 4]
-    assert np.all(np.diff([r["thickness_m"] for r in rows]) < 0)
+    rows = kept.facts.pad_thickness_by_lap_m
+    assert [r.lap for r in rows] == [1, 2, 3, 4]
+    assert np.all(np.diff([r.thickness_m for r in rows]) < 0)
 
 
 def test_warning_near_the_minimum_thickness():
     plan = [TWO_LAPS, {"type": "laps", "count": 2}]
     overrides = [("corners.front.pad.thickness_mm", 10.5), ("pad_wear.wear_coefficient_mm3_per_kj", 10.0)]
     run = solve_one(small_scenario(plan, overrides))
-    rows = [r["thickness_m"] for r in run.extras["pad_thickness_by_lap_m"]]
+    rows = [r.thickness_m for r in run.facts.pad_thickness_by_lap_m]
     first_near = next(i for i, th in enumerate(rows, start=1) if th - 0.008 < 0.001)
-    near = [w for w in run.extras["warnings"] if "within 1.0 mm" in w]
+    near = [w for w in run.facts.warnings if "within 1.0 mm" in w]
     assert len(near) == 1 and f"lap {first_near}" in near[0]
     # no warning at all while the pads are thick
     quiet = solve_one(small_scenario([TWO_LAPS]))
-    assert not [w for w in quiet.extras["warnings"] if "pad" in w]
+    assert not [w for w in quiet.facts.warnings if "pad" in w]
 
 
 @pytest.fixture(scope="module")

@@ -86,16 +86,16 @@ def test_pads_worn_below_a_thickness_are_changed_at_the_stop_corner_by_corner():
     sc = scenario(stints=[{"name": "run", "repeat": 3, "phases": stint}], finish=[SOAK],
                   overrides=[("pad_wear.wear_coefficient_mm3_per_kj", 40.0)])
     result = solve_one(sc, "front")
-    changes = [entry for entry in result.extras["pad_thickness_m"] if entry["when"] != "end of run"]
+    changes = [entry for entry in result.facts.pad_thickness_m if entry.when != "end of run"]
     # each change is recorded with the thickness the pad had come down to, below the threshold
-    assert changes and all(entry["thickness_m"] < 19.0e-3 for entry in changes)
+    assert changes and all(entry.thickness_m < 19.0e-3 for entry in changes)
     new = sc.corners[0].pad.thickness_m
-    assert len(changes) < 3 or all(entry["thickness_m"] < new for entry in changes)
+    assert len(changes) < 3 or all(entry.thickness_m < new for entry in changes)
     # without the rule no pad is changed
     stint[2] = {"type": "pit_stop", "duration_s": 30}
     plain = solve_one(scenario(stints=[{"name": "run", "repeat": 3, "phases": stint}], finish=[SOAK],
                                overrides=[("pad_wear.wear_coefficient_mm3_per_kj", 40.0)]), "front")
-    assert [e["when"] for e in plain.extras["pad_thickness_m"]] == ["end of run"]
+    assert [e.when for e in plain.facts.pad_thickness_m] == ["end of run"]
 
 
 @pytest.mark.parametrize("stints, finish, message", [

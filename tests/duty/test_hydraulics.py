@@ -99,12 +99,13 @@ def test_rebalancing_restores_the_share_and_the_pressure_ratio_gives_it():
 
 
 def test_the_fluid_drawn_by_pad_wear_follows_the_worn_thickness():
-    from thermo.results import CornerResult
+    from thermo.results import CornerFacts, CornerResult, StintPadThickness
     scenario = load_scenario(DEMO)
     new = scenario.corners[0].pad.thickness_m
-    corner = CornerResult("front", (), None, None, (), (), None, None, None, (),
-                          extras={"pad_thickness_m": [{"when": "stop", "thickness_m": new - 1.5e-3},
-                                                      {"when": "end of run", "thickness_m": new - 0.5e-3}]})
+    facts = CornerFacts(pad_thickness_m=(StintPadThickness("stop", new - 1.5e-3), StintPadThickness("end of run", new - 0.5e-3)),
+                        pad_minimum_thickness_m=0.005, link_to_boundary=(), heat_partition_disc=0.9,
+                        removed_with_pad_material_j=0.0, initial_temperature_k=300.0, warnings=())
+    corner = CornerResult("front", (), None, None, (), (), None, None, None, (), facts=facts)
     rows = hydraulics_dict(scenario, [corner])["corners"]["front"]["pad_wear_by_stint"]
     # 2 calipers x 5057.96 mm^2 x 1.5 mm = 15173.9 mm^3 = 15.17 cm^3
     assert rows[0] == {"stint_end": "stop", "wear_mm": pytest.approx(1.5), "fluid_cm3": pytest.approx(15.1739, abs=1e-3)}

@@ -11,7 +11,7 @@ import numpy as np
 import pytest
 
 from thermo import CAUTION, __version__
-from thermo.results import CheckResult, CornerResult, EnergyBalance, LapSpan, PhaseSpan, Results
+from thermo.results import CheckResult, CornerFacts, CornerResult, EnergyBalance, LapSpan, PhaseSpan, Results, StintPadThickness
 
 AMBIENT_K = 303.15
 NODES = ("disc", "pad", "piston", "fluid", "caliper", "upright", "hub", "bearing")
@@ -28,6 +28,17 @@ LINKS = (  # name, group, energy over the run [J]
     ("pad_piston", "internal_conduction", 3.0e4),
 )
 STOP_S = 900.0
+
+
+def make_facts(**changes) -> CornerFacts:
+    """Facts of the invented corner: two stints, a 6 mm pad minimum, heat leaving by every link
+    but the two internal ones; ``changes`` replace any of them."""
+    facts = CornerFacts(
+        pad_thickness_m=(StintPadThickness("start", 0.025), StintPadThickness("end", 0.0195)),
+        pad_minimum_thickness_m=0.006,
+        link_to_boundary=tuple(not group.startswith("internal") for _, group, _ in LINKS),
+        heat_partition_disc=0.9, removed_with_pad_material_j=0.0, initial_temperature_k=AMBIENT_K, warnings=())
+    return dataclasses.replace(facts, **changes)
 
 
 def temperatures(time_s: np.ndarray, scale: float = 1.0) -> np.ndarray:
@@ -65,7 +76,7 @@ def _laps(time_s, temps, n_race_laps):
     return tuple(laps), tuple(spans)
 
 
-def make_corner(name="front_left", scale=1.0, stop=True, n_race_laps=8, dt=0.5, extras=None):
+def make_corner(name="front_left", scale=1.0, stop=True, n_race_laps=8, dt=0.5, facts=None):
     time_s = np.arange(0.0, 1200.0 + dt / 2, dt)
     temps = temperatures(time_s, scale)
     rng = np.random.default_rng(7)
@@ -85,7 +96,7 @@ def make_corner(name="front_left", scale=1.0, stop=True, n_race_laps=8, dt=0.5, 
         link_flows_w=flows, link_energy_j=np.array([e for _, _, e in LINKS]),
         energy=EnergyBalance(heat_in_j=1.2e6, stored_j=2.0e5, lost_j=1.0e6),
         checks=checks, laps=laps, phases=phases, stop_time_s=STOP_S if stop else None,
-        extras={"pad_thickness_m": {"start": 0.025, "end": 0.0195}} if extras is None else extras)
+        facts=make_facts() if facts is None else facts)
 
 
 def make_results(scale_rear=0.8, **corner_kwargs) -> Results:
@@ -127,8 +138,9 @@ def results() -> Results:
 
 @pytest.fixture
 def factory():
-    """The builders, for tests that need a variant (more laps, no stop, other extras)."""
+    """The builders, for tests that need a variant (more laps, no stop, other facts)."""
     return type("Factory", (), {"results": staticmethod(make_results), "corner": staticmethod(make_corner),
+                                "facts": staticmethod(make_facts),
                                 "temperatures": staticmethod(temperatures), "NODES": NODES,
                                 "BUMPS": BUMPS, "STOP_S": STOP_S, "LINKS": LINKS,
                                 "rising_fluid_corner": staticmethod(make_rising_fluid_corner),

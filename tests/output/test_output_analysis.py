@@ -50,20 +50,21 @@ def test_stop_after_the_run_raises(factory):
 def test_heat_path_with_net_inflow_counts_zero(factory):
     corner = dataclasses.replace(factory.corner(dt=30.0), link_names=("a", "b", "c", "d"),
                                  link_groups=("duct", "duct", "disc_radiation", "internal_contact"),
-                                 link_flows_w=np.zeros((41, 4)), link_energy_j=np.array([300.0, 100.0, -50.0, 9e9]))
+                                 link_flows_w=np.zeros((41, 4)), link_energy_j=np.array([300.0, 100.0, -50.0, 9e9]),
+                                 facts=factory.facts(link_to_boundary=(True, True, True, False)))
     assert heat_path_shares(corner) == {"duct": 1.0, "disc_radiation": 0.0}
 
 
-def test_link_to_boundary_flags_take_precedence(factory):
+def test_link_to_boundary_flags_decide_the_paths_out(factory):
     """A radiation group that holds both a disc-to-caliper link (inside) and disc-to-air (out)."""
     corner = dataclasses.replace(
         factory.corner(dt=30.0), link_names=("disc_to_caliper", "disc_to_air", "duct", "hub_path"),
         link_groups=("radiation", "radiation", "duct", "hub_path"), link_flows_w=np.zeros((41, 4)),
         link_energy_j=np.array([500.0, 300.0, 700.0, 4000.0]),
-        extras={"link_to_boundary": [False, True, True, False]})
+        facts=factory.facts(link_to_boundary=(False, True, True, False)))
     assert heat_path_shares(corner) == {"radiation": pytest.approx(0.3), "duct": pytest.approx(0.7)}
-    wrong = dataclasses.replace(corner, extras={"link_to_boundary": [True, False]})
-    with pytest.raises(OutputError, match="expected 4 true/false values"):
+    wrong = dataclasses.replace(corner, facts=factory.facts(link_to_boundary=(True, False)))
+    with pytest.raises(OutputError, match="link_to_boundary has 2 flags, expected 4, one per link"):
         heat_path_shares(wrong)
 
 

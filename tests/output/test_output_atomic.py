@@ -1,4 +1,5 @@
 """Atomic writes: a failed write never damages the file that was there."""
+import dataclasses
 import os
 import stat
 
@@ -71,8 +72,9 @@ def test_failed_hdf5_write_keeps_previous_results(results, factory, tmp_path):
     path = tmp_path / "run.h5"
     write_results_hdf5(results, path)
     before = path.read_bytes()
-    broken = factory.results(extras={"handle": object()})   # extras that cannot be stored
-    with pytest.raises(OutputError, match="extras"):
+    corner = factory.corner()
+    broken = dataclasses.replace(results, corners=(dataclasses.replace(corner, node_names=corner.node_names[:-1] + ("hub/bearing",)),))
+    with pytest.raises(OutputError, match="'hub/bearing' cannot name an HDF5 object"):
         write_results_hdf5(broken, path)
     assert path.read_bytes() == before
     assert read_results_hdf5(path).scenario_name == results.scenario_name
@@ -84,5 +86,5 @@ def test_failed_summary_write_keeps_previous(results, factory, tmp_path):
     write_summary_json(results, path)
     before = path.read_text()
     with pytest.raises(OutputError):
-        write_summary_json(factory.results(extras={"handle": object()}), path)
+        write_summary_json(factory.results(facts=factory.facts(link_to_boundary=(True,))), path)   # 1 flag, 7 links
     assert path.read_text() == before

@@ -55,16 +55,17 @@ def test_assert_same_detects_one_bit(results):
 
 
 def test_round_trip_variants(factory, tmp_path):
-    """No stop, float32 arrays, awkward extras, laps with different node sets, no links, no laps."""
-    corner = factory.corner(stop=False, dt=30.0, extras={
-        "pad_thickness_m": (0.025, 0.0195), "wear_per_lap_m": np.arange(3, dtype=np.float32) * 1e-5,
-        "flag": True, "none": None, "nan": float("nan"), "count": np.int64(7), "nested": [{"a": (1, 2)}]})
+    """No stop, float32 arrays, every fact given (one NaN), laps with different node sets, no links, no laps."""
+    from thermo.results import LapPadThickness
+    corner = factory.corner(stop=False, dt=30.0, facts=factory.facts(
+        pad_thickness_by_lap_m=(LapPadThickness(1, 0.0249), LapPadThickness(2, 0.0248)),
+        heat_partition_realised=float("nan"), warnings=("pad worn", "disc hot"), correlations_used=("a", "b")))
     laps = list(corner.laps)
     laps[1] = dataclasses.replace(laps[1], max_k={"disc": 500.0}, min_k={"disc": 400.0, "pad": 350.0})
     corner = dataclasses.replace(corner, laps=tuple(laps), time_s=corner.time_s.astype(np.float32))
     bare = dataclasses.replace(factory.corner("rear_left", dt=30.0), link_names=(), link_groups=(),
                                link_flows_w=np.zeros((41, 0)), link_energy_j=np.zeros(0), laps=(), phases=(),
-                               checks=(), extras={})
+                               checks=(), facts=factory.facts(pad_thickness_m=(), link_to_boundary=()))
     results = dataclasses.replace(factory.results(), corners=(corner, bare), warnings=(), references=(),
                                   scenario_text="")
     path = tmp_path / "variants.h5"
@@ -72,7 +73,65 @@ def test_round_trip_variants(factory, tmp_path):
     back = read_results_hdf5(path)
     assert_same(results, back)
     assert back.corners[0].stop_time_s is None
-    assert back.corners[0].extras["count"].dtype == np.int64
+    assert math.isnan(back.corners[0].facts.heat_partition_realised)
+    assert back.corners[0].facts.pad_thickness_by_lap_m[1].lap == 2
+
+
+def test_facts_are_stored_under_the_keys_users_read(results, tmp_path):
+    """``extras_json`` keeps the keys README documents for it and for ``run --json``'s ``extras``."""
+    import json
+    path = tmp_path / "run.h5"
+    write_results_hdf5(results, path)
+    with h5py.File(path, "r") as f:
+        block = json.loads(f["corners/front_left"].attrs["extras_json"])
+    assert block == {"pad_thickness_m": [{"when": "start", "thickness_m": 0.025}, {"when": "end", "thickness_m": 0.0195}],
+                     "pad_minimum_thickness_m": 0.006, "link_to_boundary": [True] * 5 + [False] * 2,
+                     "heat_partition_disc": 0.9, "removed_with_pad_material_j": 0.0, "initial_temperature_k": 303.15,
+                     "warnings": []}
+
+
+def test_files_from_before_the_later_facts_are_read(results, tmp_path):
+    """Files written before pad_thickness_by_lap_m, heat_partition_realised and correlations_used
+    existed read with those facts None, and write back as they were."""
+    import json
+    from thermo.results import LapPadThickness
+    corner = dataclasses.replace(results.corners[0], facts=dataclasses.replace(
+        results.corners[0].facts, pad_thickness_by_lap_m=(LapPadThickness(1, 0.02),), heat_partition_realised=0.93,
+        correlations_used=("air_density",)))
+    path = tmp_path / "old.h5"
+    write_results_hdf5(dataclasses.replace(results, corners=(corner,)), path)
+    with h5py.File(path, "r+") as f:
+        g = f["corners/front_left"]
+        block = json.loads(g.attrs["extras_json"])
+        for key in ("pad_thickness_by_lap_m", "heat_partition_realised", "correlations_used"):
+            del block[key]
+        g.attrs["extras_json"] = json.dumps(block)
+    facts = read_results_hdf5(path).corners[0].facts
+    assert facts.pad_thickness_by_lap_m is None and facts.heat_partition_realised is None and facts.correlations_used is None
+    assert facts.pad_thickness_m == results.corners[0].facts.pad_thickness_m
+    again = tmp_path / "again.h5"
+    write_results_hdf5(read_results_hdf5(path), again)
+    with h5py.File(path, "r") as f, h5py.File(again, "r") as g:
+        assert json.loads(g["corners/front_left"].attrs["extras_json"]) == json.loads(f["corners/front_left"].attrs["extras_json"])
+
+
+@pytest.mark.parametrize("change, message", [
+    (lambda b: {**b, "colour": "red"}, "unknown key 'colour'"),
+    (lambda b: {k: v for k, v in b.items() if k != "warnings"}, "key 'warnings' is missing"),
+    (lambda b: {**b, "heat_partition_disc": "high"}, "heat_partition_disc: expected a number"),
+    (lambda b: {**b, "link_to_boundary": [1, 0]}, "link_to_boundary: expected true or false"),
+    (lambda b: {**b, "pad_thickness_m": [{"when": "end"}]}, "pad_thickness_m: expected objects with key 'thickness_m'"),
+    (lambda b: [1, 2], "expected a JSON object of corner facts"),
+])
+def test_bad_facts_in_a_file_are_named(results, tmp_path, change, message):
+    import json
+    path = tmp_path / "run.h5"
+    write_results_hdf5(results, path)
+    with h5py.File(path, "r+") as f:
+        g = f["corners/rear_left"]
+        g.attrs["extras_json"] = json.dumps(change(json.loads(g.attrs["extras_json"])))
+    with pytest.raises(OutputError, match=f"run.h5: '/corners/rear_left' extras_json.*{message}"):
+        read_results_hdf5(path)
 
 
 def test_plain_h5py_reads_by_path(results, tmp_path, factory):

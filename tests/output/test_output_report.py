@@ -1,7 +1,6 @@
 """The terminal report: what it must say, and the soak marking."""
 import dataclasses
 
-import pytest
 
 from thermo import CAUTION
 from thermo.output import format_run_report
@@ -83,24 +82,18 @@ def test_long_run_shows_every_nth_plus_worst(factory):
 
 
 def test_pad_thickness_lines(factory):
-    assert "Pad thickness [mm]: start 25.0, end 19.5" in format_run_report(factory.results())
-    per_stint = format_run_report(factory.results(extras={"pad_thickness_m": [0.024, 0.021]}))
-    assert "Pad thickness [mm]: stint 1 24.0, stint 2 21.0" in per_stint
-    assert "Pad thickness" not in format_run_report(factory.results(extras={"other": 1}))
-    # the shape the run chain writes: a list of {"when", "thickness_mm"} and a minimum in mm
-    chain = format_run_report(factory.results(extras={
-        "pad_thickness_mm": [{"when": "race", "thickness_mm": 22.0}, {"when": "end of run", "thickness_mm": 18.25}],
-        "pad_minimum_thickness_mm": 6.0}))
-    assert "Pad thickness [mm]: race 22.0, end of run 18.2" in chain
-    assert "Pad minimum thickness [mm]: 6.0" in chain
-
-
-def test_bad_pad_thickness_raises(factory):
-    from thermo.output import OutputError
-    with pytest.raises(OutputError, match="pad_thickness_m"):
-        format_run_report(factory.results(extras={"pad_thickness_m": {"start": "thick"}}))
-    with pytest.raises(OutputError, match="pad_thickness_mm"):
-        format_run_report(factory.results(extras={"pad_thickness_mm": [{"when": "race", "mm": 22.0}]}))
+    from thermo.results import StintPadThickness
+    default = format_run_report(factory.results())
+    assert "Pad thickness [mm]: start 25.0, end 19.5" in default
+    assert "Pad minimum thickness [mm]: 6.0" in default
+    # the stints as the run chain names them: the pit stop that changed pads, then the end of the run
+    chain = format_run_report(factory.results(facts=factory.facts(
+        pad_thickness_m=(StintPadThickness("pit_stop 6", 0.022), StintPadThickness("end of run", 0.0183)),
+        pad_minimum_thickness_m=0.0045)))
+    assert "Pad thickness [mm]: pit_stop 6 22.0, end of run 18.3" in chain
+    assert "Pad minimum thickness [mm]: 4.5" in chain
+    none = format_run_report(factory.results(facts=factory.facts(pad_thickness_m=())))
+    assert "Pad thickness [mm]" not in none and "Pad minimum thickness [mm]: 6.0" in none
 
 
 def test_still_rising_soak_asks_for_a_longer_soak(results, factory):

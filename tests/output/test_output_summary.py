@@ -6,7 +6,7 @@ import math
 import numpy as np
 import pytest
 
-from thermo.output import OutputError, summary_dict, write_summary_json
+from thermo.output import summary_dict, write_summary_json
 from thermo.output.summary import summary_json
 
 TOP_KEYS = {"scenario", "version", "solver", "solver_status", "caution", "overrides", "warnings", "references", "corners"}
@@ -129,11 +129,13 @@ def test_laps_values(results):
         assert lap_out["braking_energy_j"] == pytest.approx(lap.braking_energy_j)
 
 
-def test_extras_made_json_ready_and_nan_never_emitted(factory):
+def test_extras_block_of_the_facts_and_nan_never_emitted(factory):
     from dataclasses import replace
-    extras = {"pad_thickness_m": np.array([0.025, 0.02]), "count": np.int64(3), "unknown": float("nan"),
-              "nested": {"t": (1.0, np.float32(2.5))}}
-    r = factory.results(extras=extras)
+
+    from thermo.results import LapPadThickness
+    facts = factory.facts(pad_thickness_by_lap_m=(LapPadThickness(1, 0.024),), heat_partition_realised=float("nan"),
+                          warnings=("pad worn",), correlations_used=("air_density",))
+    r = factory.results(facts=facts)
     bad_check = replace(r.corners[0].checks[0], peak_time_s=float("nan"))
     r = replace(r, corners=(replace(r.corners[0], checks=(bad_check,)),))
     text = summary_json(r)
@@ -142,14 +144,14 @@ def test_extras_made_json_ready_and_nan_never_emitted(factory):
         raise AssertionError(f"non-standard JSON constant {constant}")
     parsed = json.loads(text, parse_constant=refuse)
     extras_out = parsed["corners"][0]["extras"]
-    assert extras_out == {"pad_thickness_m": [0.025, 0.02], "count": 3, "unknown": None, "nested": {"t": [1.0, 2.5]}}
+    # the keys and their order are README's ("What a run produces"); a NaN share becomes null
+    assert list(extras_out) == ["pad_thickness_m", "pad_thickness_by_lap_m", "pad_minimum_thickness_m", "link_to_boundary",
+                                "heat_partition_disc", "heat_partition_realised", "removed_with_pad_material_j",
+                                "initial_temperature_k", "warnings", "correlations_used"]
+    assert extras_out["pad_thickness_m"] == [{"when": "start", "thickness_m": 0.025}, {"when": "end", "thickness_m": 0.0195}]
+    assert extras_out["pad_thickness_by_lap_m"] == [{"lap": 1, "thickness_m": 0.024}]
+    assert extras_out["heat_partition_realised"] is None and extras_out["warnings"] == ["pad worn"]
     assert parsed["corners"][0]["checks"][0]["peak_time_s"] is None
-
-
-def test_unserialisable_extras_raise(factory):
-    r = factory.results(extras={"solver_object": object()})
-    with pytest.raises(OutputError, match="front_left extras.solver_object"):
-        summary_dict(r)
 
 
 def test_write_summary_json(results, tmp_path):

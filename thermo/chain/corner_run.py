@@ -28,11 +28,10 @@ from thermo.materials import get_material
 from thermo.network.assemble import compile_network
 from thermo.network.schedule import Schedule
 from thermo.network.tabulate import ConductanceGrid
-from thermo.results import CornerResult, EnergyBalance, LapSpan, PhaseSpan
+from thermo.results import CornerFacts, CornerResult, EnergyBalance, LapPadThickness, LapSpan, PhaseSpan, StintPadThickness
 from thermo.scenario.model import Scenario
 from thermo.solver.kernel_arrays import kernel_network_like, release_kernel_network
 from thermo.solver.scipy_solve import solve_network
-from thermo.solver.settings import SolverSettings
 
 MIN_PAD_THICKNESS_M = 0.5e-3   # a pad worn this far is held here (and the run warns)
 VALIDITY_SAMPLE_EVERY = 10     # every n-th output sample is checked against the correlations' ranges
@@ -96,17 +95,20 @@ class CornerRun:
     physical range after each segment (``thermo.chain.guards``).
     """
 
-    def __init__(self, scenario: Scenario, design: CornerDesign, settings: SolverSettings, *,
+    def __init__(self, scenario: Scenario, setup, *,
                  interval_s: float | None = None, store: str = "standard", clock: WallClock | None = None):
+        """``setup``: the corner as ``thermo.chain.setup.corner_setup`` built it (design, model, compiled
+        network, conductance grid, solver settings); the run starts from its network."""
         if store not in STORE_CHOICES:
             raise ValueError(f"store must be one of {STORE_CHOICES}, got {store!r}")
-        self.scenario, self.design, self.settings = scenario, design, settings
+        design = setup.design
+        self.scenario, self.design, self.settings = scenario, design, setup.settings
         self.clock = WallClock(scenario.solver.wall_clock_limit_s) if clock is None else clock
-        self.grid = conductance_grid(scenario)
+        self.grid = setup.grid
         self.full = store == "full"
         self.interval_s = 0.0 if self.full else (output_interval_s(scenario) if interval_s is None else interval_s)
         self.pad_layer_count = len(pad_layers(design))   # kept as the pad wears, so the state maps node for node
-        self.model, self.compiled = self._with_pad(design.pad.thickness_m)
+        self.model, self.compiled = setup.model, setup.network
         names = self.model.network.node_names
         self.i_pads = [names.index(node) for node in self.model.pad_nodes]
         self.i_back = names.index("backing_plate")
@@ -240,16 +242,15 @@ class CornerRun:
                                          {n: float(temps_all[:, i].max()) for n, i in node_index.items() if n in node_materials})
         checks = tuple(evaluate_check(s, time_s, temps_all[:, node_index[s.node]]) for s in specs)
         stop = next((s.t_start_s for s in segments if s.phase.kind == "soak"), None)
-        extras = {"pad_thickness_m": [{"when": w, "thickness_m": th} for w, th in stint_thickness],
-                  "pad_thickness_by_lap_m": self.lap_thickness,
-                  "pad_minimum_thickness_m": design.pad.minimum_thickness_m,
-                  "link_to_boundary": [link.b in model.network.boundary_names for link in model.network.links],
-                  "heat_partition_disc": model.heat_partition,
-                  "heat_partition_realised": _realised_partition(model, self.heat_in, self.direct_to_disc, self.link_energy),
-                  "removed_with_pad_material_j": self.removed,
-                  "initial_temperature_k": float(self.T_initial[0]),
-                  "warnings": warns,
-                  "correlations_used": sorted(used)}
+        facts = CornerFacts(
+            pad_thickness_m=tuple(StintPadThickness(w, th) for w, th in stint_thickness),
+            pad_thickness_by_lap_m=tuple(LapPadThickness(row["lap"], row["thickness_m"]) for row in self.lap_thickness),
+            pad_minimum_thickness_m=design.pad.minimum_thickness_m,
+            link_to_boundary=tuple(link.b in model.network.boundary_names for link in model.network.links),
+            heat_partition_disc=model.heat_partition,
+            heat_partition_realised=_realised_partition(model, self.heat_in, self.direct_to_disc, self.link_energy),
+            removed_with_pad_material_j=self.removed, initial_temperature_k=float(self.T_initial[0]),
+            warnings=tuple(warns), correlations_used=tuple(sorted(used)))
         links = model.network.links
         release_kernel_network(self.compiled)
         return CornerResult(
@@ -257,7 +258,7 @@ class CornerRun:
             link_names=tuple(link.name for link in links), link_groups=tuple(link.group for link in links),
             link_flows_w=np.concatenate(self.flows) if self.full else None, link_energy_j=self.link_energy,
             energy=energy, checks=checks, laps=tuple(self.laps), phases=_phase_spans(segments, self.energy_by_phase),
-            stop_time_s=stop, extras=extras, speed_m_s=np.concatenate(self.speeds),
+            stop_time_s=stop, facts=facts, speed_m_s=np.concatenate(self.speeds),
             brake_power_w=np.concatenate(self.powers))
 
 

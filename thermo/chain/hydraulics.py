@@ -51,7 +51,7 @@ def hydraulics_dict(scenario: Scenario, corners=()) -> dict:
     else:
         p_front, p_rear = mc.line_pressure_pa_per_n()
         ratio = p_front / p_rear
-    wear = {c.name: c.extras.get("pad_thickness_m", []) for c in corners}
+    wear = {c.name: c.facts.pad_thickness_m for c in corners}
     design = {d.name: d for d in scenario.corners}
     out = {"bias": "fixed" if mc is None else "hydraulic", "front_share": share,
            "pressure_ratio_front_to_rear": ratio, "pedal_ratio": None if mc is None else mc.pedal_ratio,
@@ -83,12 +83,13 @@ def hydraulics_dict(scenario: Scenario, corners=()) -> dict:
 
 
 def _wear_by_stint(thickness_rows, new_thickness_m: float, caliper) -> list[dict]:
-    """Per stint (ended by a pad change or the end of the run): the pad worn and the fluid the
-    corner's calipers drew from the reservoir to follow it (both pads of a caliper wear alike, so
-    each side's pistons advance by one pad's wear: V = A_caliper x wear, for each caliper)."""
+    """Per stint (ended by a pad change or the end of the run; ``StintPadThickness`` rows): the pad
+    worn and the fluid the corner's calipers drew from the reservoir to follow it (both pads of a
+    caliper wear alike, so each side's pistons advance by one pad's wear: V = A_caliper x wear, for
+    each caliper)."""
     rows = []
     for row in thickness_rows:
-        worn = max(new_thickness_m - row["thickness_m"], 0.0)
-        rows.append({"stint_end": row["when"], "wear_mm": worn * 1e3,
+        worn = max(new_thickness_m - row.thickness_m, 0.0)
+        rows.append({"stint_end": row.when, "wear_mm": worn * 1e3,
                      "fluid_cm3": caliper.calipers * caliper.displacement_m3_per_m * worn * 1e6})
     return rows

@@ -1,4 +1,9 @@
-"""Run a scenario: heat per corner for each segment, the corner network solved across the plan."""
+"""Run a scenario: heat per corner for each segment, the corner network solved across the plan.
+
+Each corner is set up once (``thermo.chain.setup``: brake, network, settings) and carried across
+the plan by a ``CornerRun`` (``thermo.chain.corner_run``), which integrates each segment, applies
+the pad-wear policy (wear, pad changes) and assembles the ``CornerResult``.
+"""
 from __future__ import annotations
 
 import numpy as np
@@ -8,7 +13,8 @@ from thermo.chain.corner_run import CornerRun, SegmentDuty
 from thermo.chain.guards import WallClock
 from thermo.chain.hydraulics import hydraulics_dict
 from thermo.chain.plan import PlanSegment, expand_plan
-from thermo.corner.build import heat_partition, materials_used
+from thermo.chain.setup import corner_setup, corner_setups
+from thermo.corner.build import materials_used
 from thermo.corner.geometry import CornerDesign
 from thermo.correlations import correlation_reference
 from thermo.duty.corner_duty import CornerBrake, corner_heat_inputs
@@ -19,21 +25,9 @@ from thermo.scenario.toml_text import toml_value_text
 from thermo.solver.settings import SolverSettings
 
 
-def corner_brakes(scenario: Scenario) -> list[CornerBrake]:
-    """The duty step's view of each corner (an axle corner stands for its left wheel); the heat
-    partition comes from each design, without building its network."""
-    brakes = []
-    for design in scenario.corners:
-        side = design.name.split("_")[1] if "_" in design.name else "left"
-        brakes.append(CornerBrake(
-            name=design.name, axle=design.axle, side=side, partition=heat_partition(design),
-            piston_area_one_side_m2=design.piston.area_one_side_m2, pad_mu=design.pad_mu,
-            effective_radius_m=design.effective_radius_m, rolling_radius_m=design.rolling_radius_m))
-    return brakes
-
-
 def corner_duties(scenario: Scenario, segment: PlanSegment, brakes: list[CornerBrake]) -> dict[str, SegmentDuty]:
-    """Heat into each corner's disc and pad during one segment [W]."""
+    """Heat into each corner's disc and pad during one segment [W]; ``brakes``: every corner's
+    (``thermo.chain.setup.corner_brakes``, or each ``CornerSetup.brake``)."""
     trace = segment.trace
     if not segment.moving:
         zeros = np.zeros_like(trace.time_s)
@@ -49,15 +43,15 @@ def corner_duties(scenario: Scenario, segment: PlanSegment, brakes: list[CornerB
             for name, d in duties.items()}
 
 
-def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_segment, settings: SolverSettings,
-                 progress=None, output_hz: float | None = None, clock: WallClock | None = None,
-                 store: str = "standard") -> CornerResult:
-    """Solve one corner across all segments, carrying its state, with pad wear and pad changes
-    (``CornerRun``, one segment at a time). ``duties_by_segment`` holds each segment's
-    ``corner_duties``. ``output_hz``: rate of the stored series (None: the scenario's output
-    interval; 0: every row)."""
+def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_segment,
+                 settings: SolverSettings | None = None, progress=None, output_hz: float | None = None,
+                 clock: WallClock | None = None, store: str = "standard") -> CornerResult:
+    """Solve one corner across all segments, carrying its state, with pad wear and pad changes:
+    the corner set up (``corner_setup``; ``settings`` None: the scenario's), then ``CornerRun`` one
+    segment at a time. ``duties_by_segment`` holds each segment's ``corner_duties``.
+    ``output_hz``: rate of the stored series (None: the scenario's output interval; 0: every row)."""
     interval = None if output_hz is None else (1.0 / output_hz if output_hz > 0 else 0.0)
-    run = CornerRun(scenario, design, settings, interval_s=interval, store=store, clock=clock)
+    run = CornerRun(scenario, corner_setup(scenario, design, settings), interval_s=interval, store=store, clock=clock)
     for segment, duties in zip(segments, duties_by_segment):
         run.advance(segment, duties[design.name])
         if progress is not None:
@@ -83,21 +77,22 @@ def run_scenario(scenario: Scenario, *, progress=None, segments=None, store: str
     output interval, link energies per lap and phase) or "full" (every solver row, and the link
     flows at each)."""
     segments = expand_plan(scenario) if segments is None else segments
-    brakes = corner_brakes(scenario)
-    settings = scenario.solver.settings()
+    setups = corner_setups(scenario)
+    brakes = [setup.brake for setup in setups]
     clock = WallClock(scenario.solver.wall_clock_limit_s)
-    runs = [CornerRun(scenario, d, settings, store=store, clock=clock) for d in scenario.corners]
+    runs = [CornerRun(scenario, setup, store=store, clock=clock) for setup in setups]
     for segment in segments:        # each segment's heat input made once, for every corner, then let go
         duties = corner_duties(scenario, segment, brakes)
-        for design, run in zip(scenario.corners, runs):
-            run.advance(segment, duties[design.name])
+        for setup, run in zip(setups, runs):
+            run.advance(segment, duties[setup.name])
             if progress is not None:
-                progress(design.name, segment)
+                progress(setup.name, segment)
     corners = tuple(run.result(segments) for run in runs)
-    run_warnings = tuple(w for c in corners for w in c.extras.get("warnings", []))
+    run_warnings = tuple(w for c in corners for w in c.facts.warnings)
+    used = {name for c in corners for name in c.facts.correlations_used}
     return Results(
         scenario_name=scenario.name, scenario_text=scenario.text, version=thermo.__version__,
-        solver=settings.method, solver_status="success", references=references_for(scenario, {n for c in corners for n in c.extras["correlations_used"]}),
+        solver=scenario.solver.method, solver_status="success", references=references_for(scenario, used),
         corners=corners, caution=thermo.CAUTION, warnings=run_warnings, overrides=applied_overrides(scenario),
         hydraulics=hydraulics_dict(scenario, corners))
 

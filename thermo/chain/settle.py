@@ -22,17 +22,21 @@ Pad wear is left out: the pad keeps the design's thickness.
 from __future__ import annotations
 
 import time as _time
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
+from typing import NamedTuple
 
 import numpy as np
 
 from thermo.chain.guards import check_state_range
-from thermo.chain.plan import expand_plan
-from thermo.chain.corner_run import conductance_grid, corner_check_specs, segment_schedule
-from thermo.chain.run import corner_brakes, corner_duties
-from thermo.corner.build import build_corner
+from thermo.chain.plan import PlanSegment, expand_plan
+from thermo.chain.corner_run import corner_check_specs, segment_schedule
+from thermo.chain.run import corner_duties
+from thermo.chain.setup import corner_brakes, corner_setups
+from thermo.corner.build import CornerModel
+from thermo.corner.geometry import CornerDesign
 from thermo.errors import ScenarioError, SolveError
-from thermo.network.assemble import compile_network
+from thermo.network.assemble import CompiledNetwork
+from thermo.network.schedule import Schedule
 from thermo.solver import kernel
 from thermo.solver.batch import kernel_inputs, kernel_network, scaled, solve_batch
 from thermo.solver.grids import graded_grid
@@ -94,33 +98,56 @@ class SettledLap:
     check_specs: tuple = ()
 
 
-def lap_setup(scenario, corner_name=None, phase_name=None):
-    """(design, model, compiled network, lap schedule, segment) for one corner's repeated lap."""
-    designs = {d.name: d for d in scenario.corners}
+class LapSetup(NamedTuple):
+    """One corner's repeated lap, ready to solve (unpacks as ``design, model, net, schedule, segment``).
+
+    Attributes
+    ----------
+    design : CornerDesign
+        The corner [-]
+    model : CornerModel
+        Its network with the output nodes (``CornerSetup.model``) [-]
+    net : CompiledNetwork
+        The compiled network (``CornerSetup.network``) [-]
+    schedule : Schedule
+        The corner's inputs over the lap, on the run's time axis [s]
+    segment : PlanSegment
+        The plan's segment of that lap [-]
+    """
+
+    design: CornerDesign
+    model: CornerModel
+    net: CompiledNetwork
+    schedule: Schedule
+    segment: PlanSegment
+
+
+def lap_setup(scenario, corner_name=None, phase_name=None) -> LapSetup:
+    """``LapSetup`` of one corner (default the first) on the first lap of a "laps" phase (default the
+    first such phase); only that corner's network is built."""
     if corner_name is None:
         corner_name = scenario.corners[0].name
-    elif corner_name not in designs:
-        raise ScenarioError(f"settle: no corner named '{corner_name}' (corners: {', '.join(designs)})")
-    return lap_setups(scenario, phase_name)[corner_name]
+    return lap_setups(scenario, phase_name, corners=[corner_name])[corner_name]
 
 
-def lap_setups(scenario, phase_name=None) -> dict:
-    """``lap_setup`` of every corner, the corner models built once: corner name -> tuple."""
+def lap_setups(scenario, phase_name=None, corners=None) -> dict:
+    """``LapSetup`` of every corner (or of the named ones), each set up once
+    (``thermo.chain.setup.corner_setups``): corner name -> LapSetup. The lap's heat input is split
+    between all the scenario's corners, as in a run."""
+    designs = [d.name for d in scenario.corners]
+    for name in corners or ():
+        if name not in designs:
+            raise ScenarioError(f"settle: no corner named '{name}' (corners: {', '.join(designs)})")
     segments = expand_plan(scenario)
     laps = [s for s in segments if s.phase.kind == "laps" and (phase_name is None or s.phase.name == phase_name)]
     if not laps:
         what = f"phase '{phase_name}'" if phase_name else "a phase of type \"laps\""
         raise ScenarioError(f"settle: the plan has no {what} to repeat")
     segment = laps[0]
-    grid = conductance_grid(scenario)
-    models = {d.name: build_corner(d, scenario.ambient.pressure_pa, grid) for d in scenario.corners}
     duties = corner_duties(scenario, segment, corner_brakes(scenario))
-    out = {}
-    for design in scenario.corners:
-        model = models[design.name]
-        schedule = segment_schedule(scenario, design, segment, duties[design.name])
-        out[design.name] = (design, model, compile_network(model.network), schedule, segment)
-    return out
+    return {setup.name: LapSetup(setup.design, setup.model, setup.network,
+                                 segment_schedule(scenario, setup.design, segment, duties[setup.name]), segment)
+            for setup in corner_setups(scenario, corners)}
 
 
 def settled_lap(scenario, corner_name=None, *, phase_name=None, tolerance_k=0.01,
@@ -138,8 +165,9 @@ def settled_lap(scenario, corner_name=None, *, phase_name=None, tolerance_k=0.01
     tolerance_k : float
         Stop when no node's start and end of lap differ by more than this [K]
     settings : SolverSettings or None
-        rtol/atol_k of the 'fast' lap solves [-]
-    setup : tuple or None
+        rtol/atol_k of the 'fast' lap solves; None: the scenario's tolerances
+        (``scenario.solver.settings()``) on every sample with Newton steps [-]
+    setup : LapSetup or None
         ``lap_setup(scenario, corner_name, phase_name)`` already built (the model
         build and its convection tables, about 0.5 s on the demo, are then not paid again)
 
@@ -151,8 +179,8 @@ def settled_lap(scenario, corner_name=None, *, phase_name=None, tolerance_k=0.01
         No fixed point within MAX_ITERATIONS.
     """
     wall = _time.perf_counter()
-    settings = SolverSettings(method="fast", rtol=scenario.solver.rtol, atol_k=scenario.solver.atol_k) \
-        if settings is None else settings
+    if settings is None:
+        settings = replace(scenario.solver.settings(), method="fast", max_stride=1, linearised=False)
     design, model, net, schedule, segment = lap_setup(scenario, corner_name, phase_name) if setup is None else setup
     if corner_name is not None and design.name != corner_name:
         raise ScenarioError(f"settle: setup is for corner '{design.name}', not '{corner_name}'")

@@ -9,7 +9,8 @@ from lapdata.reader import read_trace_csv
 from lapdata.track import read_track_toml
 from lapdata.trace import LapTrace
 from thermo.chain.plan import PlanSegment, expand_plan
-from thermo.chain.run import corner_brakes, corner_duties, solve_corner
+from thermo.chain.run import corner_duties, solve_corner
+from thermo.chain.setup import corner_brakes
 from thermo.fit.errors import FitError
 from thermo.results import CornerResult
 from thermo.scenario.model import Phase, Scenario
@@ -92,7 +93,6 @@ class StintRunner:
         self.segments = tuple(segments)
         self.corners = tuple(corners)
         self.evaluations = 0
-        self.settings = scenario.solver.settings()
 
     @property
     def span_s(self) -> tuple[float, float]:
@@ -104,12 +104,14 @@ class StintRunner:
                                   overrides=list(base.overrides) + list(overrides))
 
     def run(self, overrides) -> Prediction:
+        """The fitted corners solved with ``overrides``, each set up once (``solve_corner``, with the
+        scenario's solver settings); the duty splits the car's braking between all its corners."""
         scenario = self.with_overrides(overrides)
         brakes = corner_brakes(scenario)
         duties = [corner_duties(scenario, seg, brakes) for seg in self.segments]
         designs = {d.name: d for d in scenario.corners}
         self.evaluations += 1
-        return Prediction({c: solve_corner(scenario, designs[c], self.segments, duties, self.settings, output_hz=0.0)
+        return Prediction({c: solve_corner(scenario, designs[c], self.segments, duties, output_hz=0.0)
                            for c in self.corners})
 
 

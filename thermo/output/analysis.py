@@ -9,7 +9,6 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from lapdata.echo import shown
 from thermo.output.errors import OutputError
 from thermo.results import CheckResult, CornerResult, LapSpan, Results
 
@@ -18,11 +17,6 @@ COMPARED_PEAK_NODES = ("disc", "disc_surface", "pad", "piston", "fluid_at_piston
                        "upright")
 # Nodes that keep heating after the car stops, listed first in soak tables.
 SOAK_NODES = ("fluid_at_piston", "fluid", "piston", "caliper", "hub", "upright", "bearing")
-# extras key: one bool per link, True when the link ends at a boundary (heat leaves the corner)
-LINK_TO_BOUNDARY_KEY = "link_to_boundary"
-# Without that key: a link group whose name starts with this prefix carries heat between nodes of
-# the corner (conduction, contact); every other named group is a path out of the corner.
-INTERNAL_GROUP_PREFIX = "internal"
 # A soak peak within this share of the soak's duration (or the last sample step) of its end, with
 # the temperature still climbing at the last sample, is "still rising": the true peak comes later.
 STILL_RISING_TAIL_SHARE = 0.02
@@ -125,18 +119,14 @@ def soak_rows(corner: CornerResult) -> list[SoakRow] | None:
 def outward_links(corner: CornerResult) -> list[bool]:
     """Which links carry heat out of the corner (to ambient air, duct air ...), one flag per link.
 
-    Taken from ``corner.extras[LINK_TO_BOUNDARY_KEY]`` (one bool per link: its second end is a
-    boundary) when the run gives it; otherwise every link whose group is non-empty and does not
-    start with ``INTERNAL_GROUP_PREFIX`` counts as a path out.
+    The corner's ``facts.link_to_boundary``: one flag per link, True where its second end is a
+    boundary (ambient or duct air).
     """
-    n = len(corner.link_names)
-    if LINK_TO_BOUNDARY_KEY in corner.extras:
-        flags = list(np.asarray(corner.extras[LINK_TO_BOUNDARY_KEY]).ravel())
-        if len(flags) != n or not all(isinstance(f, (bool, np.bool_)) for f in flags):
-            raise OutputError(f"corner {corner.name} extras '{LINK_TO_BOUNDARY_KEY}': expected {n} true/false "
-                              f"values, one per link, got {shown(corner.extras[LINK_TO_BOUNDARY_KEY])}")
-        return [bool(f) for f in flags]
-    return [bool(g) and not g.startswith(INTERNAL_GROUP_PREFIX) for g in corner.link_groups]
+    flags = corner.facts.link_to_boundary
+    if len(flags) != len(corner.link_names):
+        raise OutputError(f"corner {corner.name}: link_to_boundary has {len(flags)} flags, expected "
+                          f"{len(corner.link_names)}, one per link")
+    return list(flags)
 
 
 def heat_path_shares(corner: CornerResult) -> dict[str, float]:
@@ -236,34 +226,3 @@ def margin_gains(variants: list[tuple[str, Results]], nodes=("fluid_at_piston", 
             per_corner[base_corner.name] = per_node
         gains[name] = per_corner
     return gains
-
-
-# pad thickness entries of a corner's extras, and the factor from their unit to mm
-PAD_THICKNESS_KEYS = {"pad_thickness_m": 1.0e3, "pad_thickness_mm": 1.0}
-PAD_MINIMUM_KEYS = {"pad_minimum_thickness_m": 1.0e3, "pad_minimum_thickness_mm": 1.0}
-
-
-def thickness_items(corner: CornerResult, key: str, per_mm: float) -> list[tuple[str, float]]:
-    """(label, thickness [mm]) pairs from an extras entry in one of the accepted shapes."""
-    value = corner.extras[key]
-    bad = OutputError(f"corner {corner.name} extras '{key}': expected a number, a list of numbers, a dict "
-                      f"label: number, or a list of {{'when': label, 'thickness_{'mm' if per_mm == 1 else 'm'}': "
-                      f"number}}, got {shown(value)}")
-    if isinstance(value, dict):
-        items = list(value.items())
-    elif isinstance(value, (list, tuple)):
-        items = []
-        for i, item in enumerate(value):
-            if isinstance(item, dict):
-                unit_key = "thickness_mm" if per_mm == 1 else "thickness_m"
-                if unit_key not in item:
-                    raise bad
-                items.append((str(item.get("when", f"stint {i + 1}")), item[unit_key]))
-            else:
-                items.append((f"stint {i + 1}", item))
-    else:
-        items = [("", value)]
-    try:
-        return [(str(label), float(number) * per_mm) for label, number in items]
-    except (TypeError, ValueError):
-        raise bad from None

@@ -8,7 +8,8 @@ Layout (format "brakeheat-results", format_version 2; every array kept bit for b
   scenario_text; absent in files written before it), corners
   (string array: corner order), hydraulics_json (the hydraulics block as JSON; absent in files
   written before it)
-- ``/corners/<corner>/`` attrs name, nodes, stop_time_s (NaN: no stop), extras_json
+- ``/corners/<corner>/`` attrs name, nodes, stop_time_s (NaN: no stop), extras_json (the corner's
+  ``CornerFacts`` as ``thermo.output.facts.facts_dict`` makes them)
   - ``time_s`` (n_t) [s]; ``temperature_k`` (n_t x n_nodes) [K], attr nodes; ``speed_m_s`` (n_t)
     [m/s] and ``brake_power_w`` (n_t) [W], the car's speed and the friction heat into the corner
     at the stored rows (absent in files written before them)
@@ -37,6 +38,7 @@ import numpy as np
 from lapdata.echo import shown
 from thermo.output.atomic import atomic_path
 from thermo.output.errors import OutputError
+from thermo.output.facts import facts_dict, facts_from_dict
 from thermo.output.jsonable import decode_exact, encode_exact
 from thermo.results import CheckResult, CornerResult, EnergyBalance, LapSpan, PhaseSpan, Results
 
@@ -124,7 +126,7 @@ def _write_corner(group: h5py.Group, corner: CornerResult, where: str) -> None:
     group.attrs["name"] = corner.name
     group.attrs["nodes"] = _strings(corner.node_names)
     group.attrs["stop_time_s"] = math.nan if corner.stop_time_s is None else float(corner.stop_time_s)
-    group.attrs["extras_json"] = encode_exact(corner.extras, f"{where} extras")
+    group.attrs["extras_json"] = encode_exact(facts_dict(corner.facts), f"{where} extras")
     _dataset(group, "time_s", corner.time_s, units="s")
     _dataset(group, "temperature_k", corner.temperatures_k, units="K", nodes=_strings(corner.node_names))
     for key, values, units in (("speed_m_s", corner.speed_m_s, "m/s"), ("brake_power_w", corner.brake_power_w, "W")):
@@ -296,7 +298,7 @@ def _read_corner(r: _Reader, group) -> CornerResult:
         laps=_read_laps(r, r.obj(group, "laps")),
         phases=phases,
         stop_time_s=None if math.isnan(stop) else stop,
-        extras=decode_exact(r.text(group, "extras_json")),
+        facts=facts_from_dict(decode_exact(r.text(group, "extras_json")), f"{r.path}: '{group.name}' extras_json"),
         speed_m_s=r.array(group, "speed_m_s") if "speed_m_s" in group else None,
         brake_power_w=r.array(group, "brake_power_w") if "brake_power_w" in group else None,
     )

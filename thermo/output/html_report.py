@@ -12,7 +12,7 @@ import html
 
 from lapdata.units import kelvin_to_celsius
 from thermo import CAUTION
-from thermo.output.analysis import PAD_MINIMUM_KEYS, PAD_THICKNESS_KEYS, heat_path_shares, soak_rows, thickness_items
+from thermo.output.analysis import heat_path_shares, soak_rows
 from thermo.output.atomic import atomic_write
 from thermo.results import CornerResult, Results
 
@@ -94,7 +94,7 @@ def _laps(corner: CornerResult) -> str:
     if not corner.laps:
         return "<p>No laps recorded.</p>"
     nodes = [n for n in corner.node_names if n in corner.laps[0].max_k]
-    thickness = {row["lap"]: row["thickness_m"] for row in corner.extras.get("pad_thickness_by_lap_m", [])}
+    thickness = {row.lap: row.thickness_m for row in corner.facts.pad_thickness_by_lap_m or ()}
     rows = [[lap.index, lap.phase] + [_c(lap.max_k.get(n)) for n in nodes]
             + [f"{lap.braking_energy_j / 1e3:.0f}", "" if lap.index not in thickness else f"{thickness[lap.index] * 1e3:.2f}"]
             for lap in corner.laps]
@@ -115,13 +115,11 @@ def _soak(corner: CornerResult) -> str:
 
 
 def _pads(corner: CornerResult) -> str:
-    rows = [[label, f"{mm:.2f}"] for key, per_mm in PAD_THICKNESS_KEYS.items() if key in corner.extras
-            for label, mm in thickness_items(corner, key, per_mm)]
+    facts = corner.facts
+    rows = [[row.when, f"{row.thickness_m * 1e3:.2f}"] for row in facts.pad_thickness_m]
     if not rows:
         return "<p>No pad thickness recorded.</p>"
-    minimum = [mm for key, per_mm in PAD_MINIMUM_KEYS.items() if key in corner.extras
-               for _, mm in thickness_items(corner, key, per_mm)]
-    note = f"<p>Minimum thickness {minimum[0]:.1f} mm.</p>" if minimum else ""
+    note = f"<p>Minimum thickness {facts.pad_minimum_thickness_m * 1e3:.1f} mm.</p>"
     return html_table(["stint ends at", "pad thickness [mm]"], rows, numeric=(1,)) + note
 
 

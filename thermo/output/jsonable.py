@@ -1,4 +1,5 @@
-"""Turn the free-form ``extras`` of a corner into JSON: plain for the summary, exact for HDF5."""
+"""Nested blocks as JSON (a corner's ``extras`` block from ``thermo.output.facts``, the hydraulics block):
+plain for the summary, exact for HDF5."""
 from __future__ import annotations
 
 import json

@@ -8,19 +8,13 @@ from __future__ import annotations
 
 import math
 
-from lapdata.echo import shown
 from lapdata.units import kelvin_to_celsius
 from thermo import CAUTION
-from thermo.output.analysis import (
-    PAD_MINIMUM_KEYS, PAD_THICKNESS_KEYS, check_still_rising, heat_path_shares, laps_to_show, node_peaks, soak_rows, thickness_items, worst_lap,
-)
-from thermo.output.errors import OutputError
+from thermo.output.analysis import check_still_rising, heat_path_shares, laps_to_show, node_peaks, soak_rows, worst_lap
 from thermo.output.text_table import format_table
 from thermo.results import CornerResult, Results
 
 RULE = "-" * 78
-# extras keys with pad thickness, and the factor to mm: a number, a list per stint, a dict label: value,
-# or a list of {"when": label, "thickness_mm" (or "thickness_m"): value}
 STATUS_WORDS = {"ok": "ok", "caution": "CAUTION", "exceeded": "EXCEEDED"}
 AFTER_STOP_MARK = "<< worst of the run came AFTER the stop"
 STILL_RISING_MARK = "still rising at the end"
@@ -123,18 +117,13 @@ def _laps_section(corner: CornerResult, lap_rows: int | None = None) -> list[str
 
 
 def _pad_lines(corner: CornerResult) -> list[str]:
-    """Pad thickness lines from extras: ``pad_thickness_m`` / ``pad_thickness_mm`` and their minimum."""
+    """The pad thickness at the end of each stint, and the pad's minimum."""
+    facts = corner.facts
     lines = []
-    for key, per_mm in PAD_THICKNESS_KEYS.items():
-        if key in corner.extras:
-            text = ", ".join(f"{label} {mm:.1f}".strip() for label, mm in thickness_items(corner, key, per_mm))
-            lines.append(f"Pad thickness [mm]: {text}")
-    for key, per_mm in PAD_MINIMUM_KEYS.items():
-        if key in corner.extras:
-            items = thickness_items(corner, key, per_mm)
-            if len(items) != 1:
-                raise OutputError(f"corner {corner.name} extras '{key}': expected one number, got {shown(corner.extras[key])}")
-            lines.append(f"Pad minimum thickness [mm]: {items[0][1]:.1f}")
+    if facts.pad_thickness_m:
+        text = ", ".join(f"{row.when} {row.thickness_m * 1e3:.1f}".strip() for row in facts.pad_thickness_m)
+        lines.append(f"Pad thickness [mm]: {text}")
+    lines.append(f"Pad minimum thickness [mm]: {facts.pad_minimum_thickness_m * 1e3:.1f}")
     return lines
 
 

@@ -2,7 +2,7 @@
 
 Top level: scenario, version, solver, solver_status, caution, warnings, references, corners.
 Each corner: name, peak_c, peak_time_s, checks, energy, heat_paths, soak (only when the run
-has a stop), laps, extras. A check's ``still_rising`` and the soak's ``still_rising`` (nodes) say
+has a stop), laps, extras (the corner's ``CornerFacts``, ``thermo.output.facts``). A check's ``still_rising`` and the soak's ``still_rising`` (nodes) say
 where a peak came at the very end of the soak with the temperature still climbing. Temperatures in degC (keys end in ``_c``), margins in K, times in s,
 energies in J. Rounded to 0.01 degC / K / s, 0.1 J, 4 decimals for shares; a value that is not
 finite is written as null, never NaN.
@@ -16,6 +16,7 @@ from lapdata.units import kelvin_to_celsius
 from thermo import CAUTION
 from thermo.output.analysis import check_still_rising, heat_path_shares, node_peaks, soak_rows
 from thermo.output.atomic import atomic_write
+from thermo.output.facts import facts_dict
 from thermo.output.jsonable import json_ready
 from thermo.results import CheckResult, CornerResult, LapSpan, Results
 
@@ -102,7 +103,7 @@ def corner_summary(corner: CornerResult) -> dict:
     if soak is not None:
         out["soak"] = soak
     out["laps"] = [_lap_dict(lap) for lap in corner.laps]
-    out["extras"] = json_ready(corner.extras, f"corner {corner.name} extras")
+    out["extras"] = json_ready(facts_dict(corner.facts), f"corner {corner.name} extras")
     return out
 
 

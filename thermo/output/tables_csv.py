@@ -28,7 +28,7 @@ def laps_rows(results: Results) -> list[list]:
     header = ["corner", "lap", "phase", "t_start [s]", "t_end [s]", "braking_energy [kJ]", "pad_thickness [mm]"]
     rows = [header + [f"{node} max [degC]" for node in nodes]]
     for corner in results.corners:
-        thickness = {row["lap"]: row["thickness_m"] for row in corner.extras.get("pad_thickness_by_lap_m", [])}
+        thickness = {row.lap: row.thickness_m for row in corner.facts.pad_thickness_by_lap_m or ()}
         for lap in corner.laps:
             pad = thickness.get(lap.index)
             rows.append([corner.name, lap.index, lap.phase, f"{lap.t_start_s:.3f}", f"{lap.t_end_s:.3f}",

@@ -9,7 +9,7 @@ from lapdata.units import KMH, STANDARD_GRAVITY
 def lap_summary(trace, scenario) -> dict:
     """Zones, energy per lap and per-corner energy of one trace with a scenario's car (JSON-ready)."""
     from lapdata.zones import find_braking_zones
-    from thermo.chain.run import corner_brakes
+    from thermo.chain.setup import corner_brakes
     from thermo.duty.corner_duty import corner_heat_inputs_from_trace
     from thermo.duty.summary import lap_energy_summary
 

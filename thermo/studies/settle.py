@@ -5,7 +5,8 @@ from lapdata.units import kelvin_to_celsius
 
 
 def settle(scenario, *, corners=None, phase=None) -> list:
-    """The settled lap of each corner (all by default) of a scenario, with its own solver settings.
+    """The settled lap of each corner (all by default) of a scenario, with its own solver settings;
+    each corner asked for is set up once (``thermo.chain.settle.lap_setups``).
 
     Parameters
     ----------
@@ -22,11 +23,12 @@ def settle(scenario, *, corners=None, phase=None) -> list:
         One per corner (``thermo.chain.settle.SettledLap``: peaks, minima, laps to
         within 1 K from ambient) [-]
     """
-    from thermo.chain.settle import settled_lap
+    from thermo.chain.settle import lap_setups, settled_lap
 
-    settings = scenario.solver.settings()
     names = list(corners) if corners else [c.name for c in scenario.corners]
-    return [settled_lap(scenario, name, phase_name=phase, settings=settings) for name in names]
+    setups = lap_setups(scenario, phase, corners=names)
+    settings = scenario.solver.settings()
+    return [settled_lap(scenario, name, phase_name=phase, settings=settings, setup=setups[name]) for name in names]
 
 
 def settled_checks(scenario, result) -> list:
