@@ -56,8 +56,8 @@ def test_a_pad_worn_by_values_runs_as_a_pad_built_anew(monkeypatch):
     anew = run_scenario(scenario)
     assert len(built) > 10                                  # every wear step was built anew
     for a, b in zip(by_values.corners, anew.corners):
-        worn = [x["thickness_m"] for x in a.extras["pad_thickness_m"]]
+        worn = [x.thickness_m for x in a.facts.pad_thickness_m]
         assert worn[0] < 0.6 * scenario.corners[0].pad.thickness_m or a.name == "rear"
         np.testing.assert_allclose(a.temperatures_k, b.temperatures_k, rtol=0, atol=1e-9)
         assert [c.peak_k for c in a.checks] == pytest.approx([c.peak_k for c in b.checks], abs=1e-9)
-        assert a.extras["pad_thickness_m"] == b.extras["pad_thickness_m"]
+        assert a.facts.pad_thickness_m == b.facts.pad_thickness_m

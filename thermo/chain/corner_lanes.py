@@ -26,12 +26,12 @@ from thermo.chain.corner_run import (
 )
 from thermo.chain.guards import STATE_MAX_K, STATE_MIN_K
 from thermo.chain.plan import PlanSegment
+from thermo.chain.setup import corner_setup
 from thermo.corner import layers as layers_mod
 from thermo.corner.build import (
-    SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT, build_corner, corner_materials, disc_face_resistance, disc_layers, pad_layers,
+    SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT, corner_materials, disc_face_resistance, disc_layers, pad_layers,
 )
 from thermo.corner.pad_terms import PadTerms, pad_layer_link, pad_terms
-from thermo.network.assemble import compile_network
 from thermo.solver import kernel
 from thermo.solver.fast import step_grid
 from thermo.solver.kernel_arrays import ROW_FIELDS, _link_tables, configuration_rows, kernel_inputs, kernel_network
@@ -107,8 +107,9 @@ class CornerLanes:
         self.designs = [s.corners[corner] for s in self.scenarios]
         self.settings = settings
         grid = conductance_grid(first)
-        self.models = [build_corner(d, s.ambient.pressure_pa, grid) for d, s in zip(self.designs, self.scenarios)]
-        nets = [compile_network(m.network) for m in self.models]
+        setups = [corner_setup(s, d, settings, grid=grid) for d, s in zip(self.designs, self.scenarios)]
+        self.models = [setup.model for setup in setups]
+        nets = [setup.network for setup in setups]
         self.net = nets[0]
         self.failed: set[int] = set()
         template = kernel_network(self.net)

@@ -9,7 +9,7 @@
   path (a shared file system).
 
 Dask is optional (``pip install ".[cluster]"``); asking for it without it installed is a one-line
-error. Each chunk's points are run by ``thermo.studies.points.run_chunk``; ``run_points`` hands
+error. Each chunk's points are run by ``thermo.studies.lanes.run_chunk``; ``run_points`` hands
 every finished chunk to a callback (the study checkpoints it and moves its progress bar) in the
 order chunks finish, so the result never depends on which worker ran what.
 """
@@ -130,7 +130,7 @@ def run_points(job, todo, executor: Executor, chunk_size: int, on_chunk) -> None
     """Run ``todo`` (``[(index, values), ...]``) in chunks on ``executor``; ``on_chunk(results)``
     gets each finished chunk's ``[(index, point), ...]`` as it arrives. An exception (an interrupt
     included) cancels the chunks not yet started and is raised."""
-    from thermo.studies.points import run_chunk
+    from thermo.studies.lanes import run_chunk
     from concurrent.futures.process import BrokenProcessPool
     futures = [executor.submit(run_chunk, job, chunk) for chunk in chunks_of(list(todo), chunk_size)]
     try:

@@ -1,4 +1,5 @@
-"""A chunk of a study's points run side by side (``run_chunk_in_lanes``).
+"""A chunk of a study's points, the unit of work of a study's executor (``run_chunk``): side by
+side where they can be (``run_chunk_in_lanes``), else one by one.
 
 Points that share their drive (``drive_key``: the scenario file, car, brake balance, fuel, air,
 plan and solver settings, and each corner's view of the brakes and of its ducts' air) see the same
@@ -39,15 +40,36 @@ def fingerprint(value) -> object:
 
 def drive_key(scenario) -> object:
     """What points must share to run side by side: every input of each segment's heat and air."""
-    from thermo.chain.run import corner_brakes
+    from thermo.chain.setup import corner_brakes
     from thermo.corner.build import duct_air_signals
     corners = tuple((brake, tuple(duct_air_signals(design)))
                     for brake, design in zip(corner_brakes(scenario), scenario.corners))
     return fingerprint(tuple(getattr(scenario, name) for name in DRIVE_FIELDS) + (corners,))
 
 
+def run_chunk(job, chunk) -> list:
+    """A chunk of points, ``[(index, values), ...]``, run in this process: ``[(index, point), ...]``.
+    The unit of work sent to an executor. Side by side where they share their drive
+    (``run_chunk_in_lanes``), unless the job asks for each point alone (``job.lanes`` False) or
+    for their series (``job.keep_series``). The stacked convection tables are emptied after the
+    chunk (after each point when alone), and the tabulated conductances when more than about a
+    point's worth are cached, so that a worker's memory stays about that of one chunk while points
+    that share their airflow still share their tables."""
+    from thermo.chain.run import STUDY_TABULATED_KEPT, forget_cached_tables
+    from thermo.studies.points import run_point
+    if job.lanes and not job.keep_series:
+        out = run_chunk_in_lanes(job, chunk)
+        forget_cached_tables(keep_tabulated=STUDY_TABULATED_KEPT)
+        return out
+    out = []
+    for index, values in chunk:
+        out.append((index, run_point(job, values)))
+        forget_cached_tables(keep_tabulated=STUDY_TABULATED_KEPT)
+    return out
+
+
 def run_chunk_in_lanes(job, chunk) -> list:
-    """``points.run_chunk`` with the points that share their drive side by side: ``[(index, point)]``."""
+    """``run_chunk`` with the points that share their drive side by side: ``[(index, point)]``."""
     from thermo.studies.points import point_scenario, run_point
 
     done, groups = {}, {}
@@ -72,7 +94,8 @@ def _run_group(job, members) -> dict:
     from thermo.chain.corner_lanes import CornerLanes
     from thermo.chain.corner_run import corner_check_specs
     from thermo.chain.plan import expand_plan
-    from thermo.chain.run import corner_brakes, corner_duties
+    from thermo.chain.run import corner_duties
+    from thermo.chain.setup import corner_brakes
     from thermo.limits import evaluate_check
     from thermo.studies.points import _laps_to_settle, _plain, corner_entry, first_stints, run_point
 

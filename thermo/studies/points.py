@@ -144,25 +144,6 @@ def _laps_to_settle(scenario) -> dict:
     return {r.corner: r.laps_to_1k for r in settle(scenario)}
 
 
-def run_chunk(job: StudyJob, chunk) -> list:
-    """A chunk of points, ``[(index, values), ...]``, run one after another in this process:
-    ``[(index, point), ...]``. The unit of work sent to an executor. The stacked convection tables
-    are emptied after each point, and the tabulated conductances when more than about a point's
-    worth are cached, so that a worker's memory stays about that of one point while points that
-    share their airflow still share their tables."""
-    from thermo.chain.run import STUDY_TABULATED_KEPT, forget_cached_tables
-    if job.lanes and not job.keep_series:
-        from thermo.studies.lanes import run_chunk_in_lanes
-        out = run_chunk_in_lanes(job, chunk)
-        forget_cached_tables(keep_tabulated=STUDY_TABULATED_KEPT)
-        return out
-    out = []
-    for index, values in chunk:
-        out.append((index, run_point(job, values)))
-        forget_cached_tables(keep_tabulated=STUDY_TABULATED_KEPT)
-    return out
-
-
 def _plain(value):
     """A value as JSON has it (numpy scalars to Python numbers)."""
     if isinstance(value, np.generic):
