@@ -122,8 +122,12 @@ def chunks_of(todo: list, chunk_size: int) -> list[list]:
 
 def default_chunk_size(points: int, workers: int) -> int:
     """Points per chunk: about four chunks per worker (the work spreads evenly and checkpoints come
-    often), at most 16 points (a checkpoint at least every 16 points a worker finishes)."""
-    return int(max(1, min(16, -(-points // (4 * max(1, workers))))))
+    often), at most ``MAX_CHUNK`` points (a checkpoint at least every ``MAX_CHUNK`` points a worker
+    finishes; a chunk's points run side by side, wider lanes costing less a point)."""
+    return int(max(1, min(MAX_CHUNK, -(-points // (4 * max(1, workers))))))
+
+
+MAX_CHUNK = 32      # measured on the demo's samples, one core: 16 side by side 0.11 s a point, 32: 0.10 s
 
 
 def run_points(job, todo, executor: Executor, chunk_size: int, on_chunk) -> None:
