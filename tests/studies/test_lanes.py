@@ -113,3 +113,20 @@ def test_a_worn_pad_writes_the_rows_a_full_build_gives():
             np.testing.assert_array_equal(lanes.link_a[b], net.link_a)
             np.testing.assert_allclose(lanes.weights[b], worn.output_weights, rtol=1e-12, atol=1e-15)
             np.testing.assert_allclose(lanes.layers[b], pad_layers(worn.design), rtol=1e-12)
+
+
+def test_a_corner_of_another_shape_runs_alone_and_the_rest_side_by_side(monkeypatch):
+    """One point with another number of pad layers (another network) among four of one shape."""
+    job = StudyJob(DEMO, SHORT, KEYS + ("corners.front.pad.layers",), stints=1)
+    chunk = [(i, values + (layers,)) for (i, values), layers in zip(_chunk(5, seed=7), [0, 0, 2, 0, 0])]
+    ran_alone = []
+    real = run_point
+
+    def counted(job_, values):
+        ran_alone.append(values)
+        return real(job_, values)
+    import thermo.studies.points as points_module
+    monkeypatch.setattr(points_module, "run_point", counted)
+    lanes = run_chunk_in_lanes(job, chunk)
+    assert [v[-1] for v in ran_alone] == [2]
+    _assert_same_points(lanes, [(i, real(job, v)) for i, v in chunk])

@@ -124,18 +124,23 @@ class CornerLanes:
                 continue
             for s, fn in enumerate(fns):
                 self.tix[b, s] = tables.setdefault(id(fn.table), (len(tables), fn.table))[0]
+        if not tables:
+            raise ValueError("corner lanes: the network has no tabulated convection")
         stacked = np.ascontiguousarray(np.stack([t for _, t in sorted(tables.values(), key=lambda x: x[0])]))
         self.template = replace(template, tables=stacked, varies_b=None)     # worked out where needed
-        rows = [configuration_rows(net) for net in nets]
+        # a configuration of another shape keeps the first one's rows as stand-ins (it never runs here)
+        same = [self.net if b in self.failed else net for b, net in enumerate(nets)]
+        rows = [configuration_rows(net) for net in same]
         self.rows = {name: np.ascontiguousarray(np.concatenate([r[name] for r in rows])) for name in ROW_FIELDS}
-        self.link_a = np.array([net.link_a for net in nets], dtype=np.int64)
-        self.weights = np.array([m.output_weights for m in self.models])
+        self.link_a = np.array([net.link_a for net in same], dtype=np.int64)
+        self.weights = np.array([self.models[0 if b in self.failed else b].output_weights for b in range(len(nets))])
         self.pad_rows = _PadRows(self.net, self.models[0])
         self.pad_count = len(self.models[0].pad_nodes)
         self.materials = [corner_materials(d) for d in self.designs]
         self.disc_face_r = [disc_face_resistance(d, disc_layers(d), m["disc"]) for d, m in zip(self.designs, self.materials)]
         self.thickness = np.array([d.pad.thickness_m for d in self.designs])
-        self.layers = [pad_layers(d, count=self.pad_count) for d in self.designs]
+        self.layers = [pad_layers(d, count=self.pad_count if b not in self.failed else None)
+                       for b, d in enumerate(self.designs)]
         n_out = len(self.models[0].output_nodes)
         self.T = np.array([np.full(self.net.n_nodes, float(s.ambient.temperature_at(0.0))) for s in self.scenarios])
         self.peaks_k = np.full((len(nets), n_out), -np.inf)

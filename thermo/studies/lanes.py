@@ -113,11 +113,11 @@ def _run_group(job, members) -> dict:
     for c, design in enumerate(first.corners):
         try:
             lanes = CornerLanes(scenarios, c, settings)
-        except (BrakeheatError, ValueError):
+            for segment, duty in zip(segments, duties):
+                lanes.advance(segment, duty[design.name])
+        except (BrakeheatError, ValueError):        # all alone, where each says what is wrong
             alone.update(index for index, _, _ in members)
             break
-        for segment, duty in zip(segments, duties):
-            lanes.advance(segment, duty[design.name])
         for b, (index, _, scenario) in enumerate(members):
             if b in lanes.failed:
                 alone.add(index)
