@@ -23,7 +23,7 @@ Measured side by side in one run (medians over repeats):
   ``--json`` and with ``--out`` in a fresh interpreter each (CPU time, peak resident memory, the
   size of results.h5), and 2 hours on the demo's logged lap resampled to 1 kHz (--quick: 2 hours
   of the 24-hour plan and a quarter of an hour of the 1 kHz lap);
-- a study (``study``): ``brakeheat uncertainty scenarios/demo.toml --json`` with 1000 samples of
+- a study (``sweep``, as the issue that asked for it names it): ``brakeheat uncertainty scenarios/demo.toml --json`` with 1000 samples of
   the first stint (--quick: 48, scaled), the samples side by side in the lanes (the default), wall
   time and peak memory of the command and its workers; and the same with ``--one-by-one`` (each
   sample run alone as ``brakeheat run`` runs it; 200 samples, scaled), and the ratio.
@@ -298,7 +298,7 @@ def run(quick: bool = False) -> dict:
     result["peak_error_k"] = err
 
     result["run24h"] = run24h(quick)
-    result["study"] = study(quick)
+    result["sweep"] = study(quick)
 
     # settled lap against lap-by-lap simulation until within 1 K
     setup = lap_setup(scenario, design.name)
@@ -336,9 +336,9 @@ def _text(r: dict) -> str:
                  f"results.h5 {h['results_h5_mb']:.1f} MB (target < {t['results_h5_mb']:g}); "
                  f"{h['trace_1khz_hours']:g} h on a 1 kHz logged lap {h['trace_1khz_cpu_s']:.1f} s CPU, "
                  f"{h['trace_1khz_2h_peak_mb']:.0f} MB (target < {t['trace_1khz_2h_peak_mb']:g})")
-    u = r["study"]
+    u = r["sweep"]
     t = u["targets"]
-    lines.append(f"  study (brakeheat uncertainty demo.toml, {u['samples']} samples of the first stint, {u['workers']} "
+    lines.append(f"  sweep (brakeheat uncertainty demo.toml, {u['samples']} samples of the first stint, {u['workers']} "
                  f"workers): {u['wall_s']:.1f} s wall, {u['wall_s_per_1000']:.0f} s per 1000 samples (target < "
                  f"{t['wall_s']:g}), peak {u['peak_mb']:.0f} MB (target < {t['peak_mb']:g}); "
                  f"--one-by-one {u['one_by_one_wall_s_per_1000']:.0f} s per 1000, {u['one_by_one_peak_mb']:.0f} MB: "

@@ -61,10 +61,10 @@ def layers_of_count(total_m: float, first_m: float, count: int) -> np.ndarray:
         hi *= 2.0
     for _ in range(200):
         g = 0.5 * (lo + hi)
-        if g == 1.0 or first_m * (g ** count - 1) / (g - 1) < total_m:
-            lo = g
-        else:
-            hi = g
+        bracket = (g, hi) if g == 1.0 or first_m * (g ** count - 1) / (g - 1) < total_m else (lo, g)
+        if bracket == (lo, hi):
+            break                   # a fixed point in floating point: further halvings change nothing
+        lo, hi = bracket
     out = first_m * hi ** np.arange(count)
     return out * (total_m / out.sum())
 
