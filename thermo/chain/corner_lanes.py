@@ -27,11 +27,10 @@ from thermo.chain.corner_run import (
 from thermo.chain.guards import STATE_MAX_K, STATE_MIN_K
 from thermo.chain.plan import PlanSegment
 from thermo.chain.setup import corner_setup
-from thermo.corner import layers as layers_mod
 from thermo.corner.build import (
     SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT, corner_materials, disc_face_resistance, disc_layers, pad_layers,
 )
-from thermo.corner.pad_terms import PadTerms, pad_layer_link, pad_terms
+from thermo.corner.pad_terms import PadTerms, pad_layer_link, pad_output_weights, pad_terms
 from thermo.solver import kernel
 from thermo.solver.fast import step_grid
 from thermo.solver.kernel_arrays import ROW_FIELDS, _link_tables, configuration_rows, kernel_inputs, kernel_network
@@ -87,9 +86,10 @@ class _PadRows:
             src[b, self.face, [self.disc_signal, self.pad_signal]] = d
             src[b, self.pad_face, [self.disc_signal, self.pad_signal]] = 1.0 - d
         link_a[b, self.edges] = self.pads[terms.mid_layer]
-        weights[b, self.out_pad, self.pads] = terms.masses_kg / np.sum(terms.masses_kg)
+        mean, face = pad_output_weights(terms)
+        weights[b, self.out_pad, self.pads] = mean
         if self.out_pad_surface is not None:
-            weights[b, self.out_pad_surface, self.pads[:2]] = layers_mod.face_extrapolation(terms.layers_m)
+            weights[b, self.out_pad_surface, self.pads[:2]] = face
 
 
 class CornerLanes:

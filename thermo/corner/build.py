@@ -152,8 +152,8 @@ def worn_corner(model: CornerModel, thickness_m: float) -> CornerModel | None:
     design = replace(design, pad=replace(design.pad, thickness_m=thickness_m, layers=len(model.pad_nodes)))
     mat = corner_materials(design)
     dx_disc = disc_layers(design)
-    return with_pad_thickness(model, design, pad_layers(design), mat["pad"],
-                              disc_face_resistance(design, dx_disc, mat["disc"]), mat, (SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT))
+    return with_pad_thickness(model, design, pad_layers(design), disc_face_resistance(design, dx_disc, mat["disc"]), mat,
+                              (SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT))
 
 
 def heat_partition(design: CornerDesign) -> float:

@@ -133,8 +133,14 @@ def pad_sources(face_node: str, pad_face_node: str, terms: PadTerms, signals: tu
             HeatSource(pad_face_node, disc_signal, 1.0 - direct), HeatSource(pad_face_node, pad_signal, 1.0 - direct)]
 
 
-def with_pad_thickness(model, design, layers_m: np.ndarray, pad_material, disc_face_resistance_k_w: float,
-                       mat: dict, signals: tuple[str, str]):
+def pad_output_weights(terms: PadTerms) -> tuple[np.ndarray, tuple[float, float]]:
+    """Weights over the pad's layers of its two output nodes: "pad", the mass-weighted mean, and
+    "pad_surface", the face extrapolated through the first two layer centres [-]."""
+    return terms.masses_kg / np.sum(terms.masses_kg), layers_mod.face_extrapolation(terms.layers_m)
+
+
+def with_pad_thickness(model, design, layers_m: np.ndarray, disc_face_resistance_k_w: float, mat: dict,
+                       signals: tuple[str, str]):
     """The corner ``model`` with its pad at ``design``'s thickness, the same number of layers.
 
     Returns the ``CornerModel`` that ``build_corner(design)`` gives, made by putting the new
@@ -162,17 +168,17 @@ def with_pad_thickness(model, design, layers_m: np.ndarray, pad_material, disc_f
         link = links[pad_layer_link(pads, i)]
         new_links[link.name] = replace(link, scale=g) if isinstance(link, Convection) else replace(link, conductance_w_k=g)
     masses = dict(zip(pads, terms.masses_kg))
-    nodes = tuple(replace(node, heat_capacity=pad_material.heat_capacity(masses[node.name])) if node.name in masses
+    nodes = tuple(replace(node, heat_capacity=mat["pad"].heat_capacity(masses[node.name])) if node.name in masses
                   else node for node in network.nodes)
     sources = tuple(s for s in network.sources if s.node not in (model.disc_face_node, pads[0]))
     sources = tuple(pad_sources(model.disc_face_node, pads[0], terms, signals)) + sources
     weights = model.output_weights.copy()
     columns = [network.node_names.index(n) for n in pads]
     outputs = model.output_nodes
-    weights[outputs.index("pad"), columns] = terms.masses_kg / np.sum(terms.masses_kg)
+    mean, face = pad_output_weights(terms)
+    weights[outputs.index("pad"), columns] = mean
     if "pad_surface" in outputs:
-        w1, w2 = layers_mod.face_extrapolation(terms.layers_m)
-        weights[outputs.index("pad_surface"), columns[:2]] = (w1, w2)
+        weights[outputs.index("pad_surface"), columns[:2]] = face
     network = replace(network, nodes=nodes, links=tuple(new_links.get(link.name, link) for link in network.links),
                       sources=sources)
     return replace(model, design=design, network=network, output_weights=weights)
