@@ -113,6 +113,12 @@ def test_a_worn_pad_writes_the_rows_a_full_build_gives():
             np.testing.assert_array_equal(lanes.link_a[b], net.link_a)
             np.testing.assert_allclose(lanes.weights[b], worn.output_weights, rtol=1e-12, atol=1e-15)
             np.testing.assert_allclose(lanes.layers[b], pad_layers(worn.design), rtol=1e-12)
+        # a new pad at a stop: the design's own layers, as the first build (and the run) have them
+        lanes._set_pad(b, design.pad.thickness_m)
+        new = compile_network(lanes.models[b].network)
+        for name, row in configuration_rows(new).items():
+            np.testing.assert_allclose(lanes.rows[name][b], row[0], rtol=1e-12, atol=0, err_msg=name)
+        np.testing.assert_allclose(lanes.weights[b], lanes.models[b].output_weights, rtol=1e-12, atol=1e-15)
 
 
 def test_a_corner_of_another_shape_runs_alone_and_the_rest_side_by_side(monkeypatch):

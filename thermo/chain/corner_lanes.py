@@ -139,8 +139,7 @@ class CornerLanes:
         self.materials = [corner_materials(d) for d in self.designs]
         self.disc_face_r = [disc_face_resistance(d, disc_layers(d), m["disc"]) for d, m in zip(self.designs, self.materials)]
         self.thickness = np.array([d.pad.thickness_m for d in self.designs])
-        self.layers = [pad_layers(d, count=self.pad_count if b not in self.failed else None)
-                       for b, d in enumerate(self.designs)]
+        self.layers = [pad_layers(d) for d in self.designs]       # as each was built
         n_out = len(self.models[0].output_nodes)
         self.T = np.array([np.full(self.net.n_nodes, float(s.ambient.temperature_at(0.0))) for s in self.scenarios])
         self.peaks_k = np.full((len(nets), n_out), -np.inf)
@@ -153,9 +152,11 @@ class CornerLanes:
         return np.array([b for b in range(len(self.scenarios)) if b not in self.failed], dtype=np.int64)
 
     def _set_pad(self, b: int, thickness_m: float) -> None:
-        """Configuration ``b``'s pad at ``thickness_m``, the same number of layers (``pad_terms``)."""
+        """Configuration ``b``'s pad at ``thickness_m`` (``pad_terms``): a worn pad with the same number
+        of layers, a new one (the design's thickness) with the design's own layers, as ``CornerRun``."""
         design = self.designs[b]
-        self.layers[b] = pad_layers(design, thickness_m, self.pad_count)
+        renewed = thickness_m == design.pad.thickness_m
+        self.layers[b] = pad_layers(design) if renewed else pad_layers(design, thickness_m, self.pad_count)
         terms = pad_terms(design, self.layers[b], self.materials[b], self.disc_face_r[b], thickness_m)
         self.pad_rows.write(self.rows, self.link_a, self.weights, b, terms)
         self.thickness[b] = thickness_m

@@ -125,12 +125,13 @@ class CornerRun:
 
     def _with_pad(self, thickness_m: float):
         """The corner with another pad thickness (conduction path and pad mass): a new pad exactly
-        as ``build_corner(design)`` builds it, a worn one with the same number of layers. A corner
-        already built takes only the pad's new values (``worn_corner``; its kernel arrays keep
-        their tables, ``kernel_network_like``) unless the pad's edges move to another layer. The
+        as ``build_corner(design)`` builds it, a worn one with the same number of layers. A worn pad
+        takes only its new values into the corner already built (``worn_corner``; its kernel arrays
+        keep their tables, ``kernel_network_like``) unless the pad's edges move to another layer. The
         network it replaces lets go of its kernel arrays at once (``release_kernel_network``)."""
         previous = getattr(self, "compiled", None)
-        built = None if previous is None else worn_corner(self.model, thickness_m)
+        renewed = thickness_m == self.design.pad.thickness_m      # a new pad: the design's own layers
+        built = None if previous is None or renewed else worn_corner(self.model, thickness_m)
         if built is None:
             design = self.design
             pad = design.pad if thickness_m == design.pad.thickness_m else replace(
