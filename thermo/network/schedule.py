@@ -63,6 +63,7 @@ class Schedule:
         table.setflags(write=False)
         object.__setattr__(self, "_names", tuple(values))
         object.__setattr__(self, "_table", table)
+        object.__setattr__(self, "_cumulative", {})     # signal name -> its integral at each sample, made on first use
 
     # ------------------------------------------------------------------ construction helpers
     @classmethod
@@ -173,7 +174,9 @@ class Schedule:
 
     def _antiderivative(self, name: str, t: np.ndarray) -> np.ndarray:
         tt, v = self.time_s, self.signals[name]
-        cum = np.concatenate([[0.0], np.cumsum(0.5 * (v[1:] + v[:-1]) * np.diff(tt))])
+        cum = self._cumulative.get(name)
+        if cum is None:         # the signals never change after construction: worked out once a signal
+            cum = self._cumulative[name] = np.concatenate([[0.0], np.cumsum(0.5 * (v[1:] + v[:-1]) * np.diff(tt))])
         tc = np.clip(t, tt[0], tt[-1])
         k = np.clip(np.searchsorted(tt, tc, side="right") - 1, 0, tt.size - 2)
         vt = np.interp(tc, tt, v)
