@@ -21,7 +21,7 @@ VARY = [f"{DUCT}=[4000, 8000, 12000, 18000]"]
 def test_chunks_cover_every_point_once_in_order():
     todo = list(range(10))
     assert chunks_of(todo, 4) == [[0, 1, 2, 3], [4, 5, 6, 7], [8, 9]]
-    assert default_chunk_size(1000, 2) == 32 and default_chunk_size(8, 2) == 1 and default_chunk_size(40, 2) == 5
+    assert default_chunk_size(1000, 2) == 32 and default_chunk_size(8, 2) == 4 and default_chunk_size(9, 2) == 5
 
 
 def test_bad_workers_are_refused():
