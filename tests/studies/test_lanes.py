@@ -121,8 +121,9 @@ def test_a_worn_pad_writes_the_rows_a_full_build_gives():
         np.testing.assert_allclose(lanes.weights[b], lanes.models[b].output_weights, rtol=1e-12, atol=1e-15)
 
 
-def test_a_corner_of_another_shape_runs_alone_and_the_rest_side_by_side(monkeypatch):
-    """One point with another number of pad layers (another network) among four of one shape."""
+def test_a_corner_of_another_shape_runs_in_its_own_lanes(monkeypatch):
+    """One point with another number of pad layers (another network) among four of one shape: two
+    lane blocks, none alone."""
     job = StudyJob(DEMO, SHORT, KEYS + ("corners.front.pad.layers",), stints=1)
     chunk = [(i, values + (layers,)) for (i, values), layers in zip(_chunk(5, seed=7), [0, 0, 2, 0, 0])]
     ran_alone = []
@@ -134,5 +135,14 @@ def test_a_corner_of_another_shape_runs_alone_and_the_rest_side_by_side(monkeypa
     import thermo.studies.points as points_module
     monkeypatch.setattr(points_module, "run_point", counted)
     lanes = run_chunk_in_lanes(job, chunk)
-    assert [v[-1] for v in ran_alone] == [2]
+    assert ran_alone == []
     _assert_same_points(lanes, [(i, real(job, v)) for i, v in chunk])
+
+
+def test_a_points_numbers_do_not_depend_on_its_chunk(points):
+    """The lane kernel gives a configuration the same numbers, to the bit, whatever runs beside it,
+    so a study gives the same JSON whatever its chunk size or workers."""
+    job, chunk, lanes, _ = points
+    for size in (1, 3, 5):
+        rechunked = [item for k in range(0, len(chunk), size) for item in run_chunk_in_lanes(job, chunk[k:k + size])]
+        assert rechunked == lanes

@@ -11,9 +11,11 @@ kernel's arrays: nothing is rebuilt. The tables are stacked once for all configu
 shared where equal. A configuration keeps only each output node's peak and when it was reached.
 
 The linearised scheme keeps peaks within 0.005 K of the full-Newton run on the demo corner (see
-README, Speed). A configuration the lane kernel flags, whose state leaves a conductance table or
-the model's physical range, or whose network is of another shape, is dropped (``failed``): its
-caller runs it alone the ordinary way (``CornerRun``), which reports it as ``brakeheat run`` would.
+README, Speed). The lane kernel is used however few the configurations, so each one's numbers are
+the same, to the bit, whatever runs beside it. All configurations must have one ``corner_shape``
+(the caller groups them). A configuration whose state leaves a conductance table or the model's
+physical range, or that the kernel cannot solve, is dropped (``failed``): its caller runs it
+alone the ordinary way (``CornerRun``), which reports it as ``brakeheat run`` would.
 """
 from __future__ import annotations
 
@@ -39,7 +41,7 @@ from thermo.solver.settings import SolverSettings
 EDGE_LINKS = ("pad_edge_convection", "pad_edge_radiation")
 
 
-def _shape(net) -> tuple:
+def corner_shape(net) -> tuple:
     """What configurations side by side must share: nodes, links and their second ends, kinds,
     drivers, signals, capacity segments and the table grid (the edges' first end may differ)."""
     return (net.node_names, net.boundary_names, net.link_names, tuple(map(type, net.network.links)), tuple(net.link_b),
@@ -101,13 +103,14 @@ class CornerLanes:
     configuration's output peaks; ``failed`` the configurations to run alone.
     """
 
-    def __init__(self, scenarios, corner: int, settings: SolverSettings):
+    def __init__(self, scenarios, corner: int, settings: SolverSettings, setups=None):
         self.scenarios = list(scenarios)
         first = self.scenarios[0]
         self.designs = [s.corners[corner] for s in self.scenarios]
         self.settings = settings
-        grid = conductance_grid(first)
-        setups = [corner_setup(s, d, settings, grid=grid) for d, s in zip(self.designs, self.scenarios)]
+        if setups is None:
+            grid = conductance_grid(first)
+            setups = [corner_setup(s, d, settings, grid=grid) for d, s in zip(self.designs, self.scenarios)]
         self.models = [setup.model for setup in setups]
         nets = [setup.network for setup in setups]
         self.net = nets[0]
@@ -115,25 +118,23 @@ class CornerLanes:
         template = kernel_network(self.net)
         if template is None:
             raise ValueError("corner lanes: the network does not run compiled")
-        shape = _shape(self.net)
+        if any(corner_shape(net) != corner_shape(self.net) for net in nets):
+            raise ValueError("corner lanes: configurations of more than one shape (group them by corner_shape)")
         tables, self.tix = {}, np.zeros((len(nets), self.net.conv_idx.size), dtype=np.int64)
         for b, net in enumerate(nets):
             fns = _link_tables(net)
-            if fns is None or _shape(net) != shape:
-                self.failed.add(b)
-                continue
+            if fns is None:
+                raise ValueError("corner lanes: a network that does not run compiled")
             for s, fn in enumerate(fns):
                 self.tix[b, s] = tables.setdefault(id(fn.table), (len(tables), fn.table))[0]
         if not tables:
             raise ValueError("corner lanes: the network has no tabulated convection")
         stacked = np.ascontiguousarray(np.stack([t for _, t in sorted(tables.values(), key=lambda x: x[0])]))
         self.template = replace(template, tables=stacked, varies_b=None)     # worked out where needed
-        # a configuration of another shape keeps the first one's rows as stand-ins (it never runs here)
-        same = [self.net if b in self.failed else net for b, net in enumerate(nets)]
-        rows = [configuration_rows(net) for net in same]
+        rows = [configuration_rows(net) for net in nets]
         self.rows = {name: np.ascontiguousarray(np.concatenate([r[name] for r in rows])) for name in ROW_FIELDS}
-        self.link_a = np.array([net.link_a for net in same], dtype=np.int64)
-        self.weights = np.array([self.models[0 if b in self.failed else b].output_weights for b in range(len(nets))])
+        self.link_a = np.array([net.link_a for net in nets], dtype=np.int64)
+        self.weights = np.array([m.output_weights for m in self.models])
         self.pad_rows = _PadRows(self.net, self.models[0])
         self.pad_count = len(self.models[0].pad_nodes)
         self.materials = [corner_materials(d) for d in self.designs]
@@ -185,7 +186,7 @@ class CornerLanes:
             ix = np.array(members, dtype=np.int64)
             kn = replace(self.template, link_a=self.link_a[ix[0]].copy(), tix=np.ascontiguousarray(self.tix[ix]),
                          **{name: np.ascontiguousarray(self.rows[name][ix]) for name in ROW_FIELDS})
-            res, _ = kn.run_laps(inputs, self.T[ix], 1, None, record, width=len(ix))
+            res, _ = kn.run_laps(inputs, self.T[ix], 1, None, record, width=len(ix), always_lanes=True)
             for j, b in enumerate(members):
                 temps = res.temps[j]
                 if res.status[j] != kernel.STATUS_OK or not np.all((temps >= STATE_MIN_K) & (temps <= STATE_MAX_K)):

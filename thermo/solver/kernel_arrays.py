@@ -118,21 +118,24 @@ class KernelNetwork:
         return out
 
     def run_laps(self, inputs: KernelInputs, initial_k: np.ndarray, n_laps: int, output_weights,
-                 record: np.ndarray | None = None, width: int | None = None) -> tuple:
+                 record: np.ndarray | None = None, width: int | None = None, always_lanes: bool = False) -> tuple:
         """The linearised kernel over the grid ``n_laps`` times, carrying the state (one call).
 
         ``output_weights`` (n_nodes, n_outputs) or None: the outputs whose peak in every lap is
         kept. Returns (KernelResult, lap_peaks (B, n_laps, n_outputs) [K]); ``record`` applies to
         the last lap and ``peak_step`` counts steps over all laps. ``width``: configurations per
         block of the lane kernel (None: ``lane_width(B)``, the blocks spread over the cores; a
-        process that is itself one of several workers gives ``min(B, LANES)``, one block)."""
+        process that is itself one of several workers gives ``min(B, LANES)``, one block).
+        ``always_lanes``: the lane kernel even for blocks narrower than ``MIN_LANES``; a
+        configuration then gets the same numbers, to the bit, whatever the width and whatever
+        else runs beside it (a study's result never depends on how its points were chunked)."""
         B = self.size
         record = np.zeros(inputs.grid.size, dtype=bool) if record is None else record
         record = np.ascontiguousarray(record, dtype=np.bool_)
         w_ptr, w_node, w_val = _sparse_weights(output_weights)
         T0 = np.ascontiguousarray(initial_k, dtype=float)
         width = lane_width(B) if width is None else int(min(width, kernel_lanes.LANES))
-        if width >= MIN_LANES:
+        if width >= MIN_LANES or always_lanes:
             return self._run_lanes(inputs, T0, int(n_laps), (w_ptr, w_node, w_val), record, width)
         return self._run_each(inputs, T0, int(n_laps), (w_ptr, w_node, w_val), record)
 

@@ -4,10 +4,12 @@ side where they can be (``run_chunk_in_lanes``), else one by one.
 Points that share their drive (``drive_key``: the scenario file, car, brake balance, fuel, air,
 plan and solver settings, and each corner's view of the brakes and of its ducts' air) see the same
 heat and air in every segment; they differ only in their corners' own build, pad wear rates and
-limits. Each group of at least ``MIN_LANE_POINTS`` such points runs corner by corner in
-``thermo.chain.corner_lanes.CornerLanes``; a smaller group, a point whose solver is not 'fast', and
-any point the lanes drop (see there) runs alone through ``run_point``, exactly as ``brakeheat
-run`` would run it. A point's result has the same form either way (``points.corner_entry``).
+limits. Each group runs corner by corner in ``thermo.chain.corner_lanes.CornerLanes``, one lane
+block for each network shape among its corners (another number of pad or disc layers is another
+shape). A point whose solver is not 'fast', and any point the lanes drop (see there), runs alone
+through ``run_point``, exactly as ``brakeheat run`` would run it. None of this depends on which
+points share a chunk, so a study's numbers do not depend on the chunk size or the workers (tested).
+A point's result has the same form either way (``points.corner_entry``).
 """
 from __future__ import annotations
 
@@ -17,7 +19,6 @@ import numpy as np
 
 from thermo.errors import BrakeheatError
 
-MIN_LANE_POINTS = 4      # fewer points of one drive run one by one (``kernel_arrays.MIN_LANES``)
 DRIVE_FIELDS = ("path", "vehicle", "envelope", "bias", "power_method", "left_share_front", "left_share_rear",
                 "fuel_consumption_kg_per_lap", "fuel_capacity_kg", "ambient", "plan", "solver")
 
@@ -82,17 +83,15 @@ def run_chunk_in_lanes(job, chunk) -> list:
         key = drive_key(scenario) if scenario.solver.method == "fast" else ("alone", index)
         groups.setdefault(key, []).append((index, values, scenario))
     for members in groups.values():
-        if len(members) < MIN_LANE_POINTS:
-            done.update((index, run_point(job, values)) for index, values, _ in members)
-        else:
-            done.update(_run_group(job, members))
+        done.update(_run_group(job, members))
     return [(index, done[index]) for index, _ in chunk]
 
 
 def _run_group(job, members) -> dict:
     """Points of one drive: each corner's configurations side by side, the dropped ones alone."""
-    from thermo.chain.corner_lanes import CornerLanes
-    from thermo.chain.corner_run import corner_check_specs
+    from thermo.chain.corner_lanes import CornerLanes, corner_shape
+    from thermo.chain.corner_run import conductance_grid, corner_check_specs
+    from thermo.chain.setup import corner_setup
     from thermo.chain.plan import expand_plan
     from thermo.chain.run import corner_duties
     from thermo.chain.setup import corner_brakes
@@ -110,24 +109,35 @@ def _run_group(job, members) -> dict:
     settings = first.solver.settings()
     corners = {index: [] for index, _, _ in members}
     alone: set[int] = set()
+    grid = conductance_grid(first)
     for c, design in enumerate(first.corners):
         try:
-            lanes = CornerLanes(scenarios, c, settings)
-            for segment, duty in zip(segments, duties):
-                lanes.advance(segment, duty[design.name])
+            setups = [corner_setup(s, s.corners[c], settings, grid=grid) for s in scenarios]
         except (BrakeheatError, ValueError):        # all alone, where each says what is wrong
             alone.update(index for index, _, _ in members)
             break
-        for b, (index, _, scenario) in enumerate(members):
-            if b in lanes.failed:
-                alone.add(index)
+        shapes: dict = {}
+        for b, setup in enumerate(setups):
+            shapes.setdefault(corner_shape(setup.network), []).append(b)
+        for group in shapes.values():
+            try:
+                lanes = CornerLanes([scenarios[b] for b in group], c, settings, [setups[b] for b in group])
+                for segment, duty in zip(segments, duties):
+                    lanes.advance(segment, duty[design.name])
+            except (BrakeheatError, ValueError):    # alone, where each says what is wrong
+                alone.update(members[b][0] for b in group)
                 continue
-            model = lanes.models[b]
-            peaks, when = lanes.peaks_k[b], lanes.peak_time_s[b]
-            where = {node: i for i, node in enumerate(model.output_nodes)}
-            checks = [evaluate_check(spec, np.array([when[where[spec.node]]]), np.array([peaks[where[spec.node]]]))
-                      for spec in corner_check_specs(scenario, lanes.designs[b], model)]
-            corners[index].append((design.name, model.output_nodes, peaks, checks))
+            for j, b in enumerate(group):
+                index, _, scenario = members[b]
+                if j in lanes.failed:
+                    alone.add(index)
+                    continue
+                model = lanes.models[j]
+                peaks, when = lanes.peaks_k[j], lanes.peak_time_s[j]
+                where = {node: i for i, node in enumerate(model.output_nodes)}
+                checks = [evaluate_check(spec, np.array([when[where[spec.node]]]), np.array([peaks[where[spec.node]]]))
+                          for spec in corner_check_specs(scenario, lanes.designs[j], model)]
+                corners[index].append((design.name, model.output_nodes, peaks, checks))
     out = {}
     for index, values, scenario in members:
         if index in alone:
