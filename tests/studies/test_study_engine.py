@@ -11,7 +11,7 @@ import pytest
 from study_cases import DUCT, SHRINK, SMALL
 from thermo.output.errors import OutputError
 from thermo.output.study_file import read_study_hdf5
-from thermo.studies import points as points_module
+from thermo.studies import lanes as lanes_module
 from thermo.studies.engine import StudyError, chunks_of, default_chunk_size, study_executor
 from thermo.studies.sweep import sweep
 
@@ -66,8 +66,8 @@ def test_an_interrupted_study_leaves_a_valid_file_and_resume_finishes_it(full, t
         assert f.attrs["points_done"] == 1 and f.attrs["points_total"] == 4 and not f.attrs["complete"]
 
     ran = []
-    original = points_module.run_point
-    monkeypatch.setattr(points_module, "run_point", lambda job, values: ran.append(values) or original(job, values))
+    original = lanes_module.run_chunk_in_lanes
+    monkeypatch.setattr(lanes_module, "run_chunk_in_lanes", lambda job, chunk: ran.extend(chunk) or original(job, chunk))
     record = sweep(SMALL, VARY, overrides=SHRINK, stints=1, workers=1, chunk_size=1, checkpoint=path, resume=True)
     assert len(ran) == 3                                  # the finished point is not run again
     assert record.points == reference.points
