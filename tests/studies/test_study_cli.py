@@ -92,6 +92,7 @@ def test_uncertainty_report_json_and_files(tmp_path, capsys):
     (["sweep", "{s}", "--vary", "corners.front.ducts.main.inlet_area=[1]"], "did you mean"),
     (["sweep", "{s}", "--vary", f"{DUCT}=[5000]", "--resume"], "--resume needs --out"),
     (["sweep", "{s}", "--vary", f"{DUCT}=[5000]", "--workers", "0"], "--workers 0"),
+    (["sweep", "{s}", "--vary", f"{DUCT}=[5000]", "--chunk-size", "0"], "--chunk-size 0"),
     (["sweep", "{s}", "--vary", f"{DUCT}=[5000]", "--stints", "-1"], "--stints -1"),
     (["uncertainty", "{s}"], r"no \[uncertainty\] table"),
     (["uncertainty", "{t}", "--samples", "1"], "samples must be a whole number from 2"),

@@ -162,6 +162,8 @@ def run_study(kind: str, path, job, values: list, definition: dict, *, scheduler
 
     from thermo.output.study_file import StudyRecord, resumable, write_study_hdf5
     from thermo.scenario import load_scenario
+    if chunk_size is not None and (isinstance(chunk_size, bool) or not isinstance(chunk_size, int) or chunk_size < 1):
+        raise StudyError(f"--chunk-size {chunk_size}: expected a whole number of at least 1")
     base = load_scenario(path, job.overrides)
     record = StudyRecord(kind, base.name, base.text, json.loads(json.dumps(definition)), tuple(job.keys),
                          json.loads(json.dumps(values)))
@@ -173,7 +175,7 @@ def run_study(kind: str, path, job, values: list, definition: dict, *, scheduler
         record = resumable(Path(checkpoint), record)
     todo = [(i, v) for i, (v, p) in enumerate(zip(record.values, record.points)) if p is None]
     total = len(record.values)
-    size = chunk_size or default_chunk_size(len(todo), workers or default_workers())
+    size = chunk_size if chunk_size is not None else default_chunk_size(len(todo), workers or default_workers())
 
     def on_chunk(results) -> None:
         for index, point in results:
