@@ -91,10 +91,9 @@ def _run_group(job, members) -> dict:
     """Points of one drive: each corner's configurations side by side, the dropped ones alone."""
     from thermo.chain.corner_lanes import CornerLanes, corner_shape
     from thermo.chain.corner_run import conductance_grid, corner_check_specs
-    from thermo.chain.setup import corner_setup
     from thermo.chain.plan import expand_plan
     from thermo.chain.run import corner_duties
-    from thermo.chain.setup import corner_brakes
+    from thermo.chain.setup import corner_brakes, corner_setup
     from thermo.limits import evaluate_check
     from thermo.studies.points import _laps_to_settle, _plain, corner_entry, first_stints, run_point
 
@@ -111,14 +110,14 @@ def _run_group(job, members) -> dict:
     alone: set[int] = set()
     grid = conductance_grid(first)
     for c, design in enumerate(first.corners):
-        try:
-            setups = [corner_setup(s, s.corners[c], settings, grid=grid) for s in scenarios]
-        except (BrakeheatError, ValueError):        # all alone, where each says what is wrong
-            alone.update(index for index, _, _ in members)
-            break
-        shapes: dict = {}
-        for b, setup in enumerate(setups):
-            shapes.setdefault(corner_shape(setup.network), []).append(b)
+        setups, shapes = {}, {}
+        for b, scenario in enumerate(scenarios):
+            try:
+                setups[b] = corner_setup(scenario, scenario.corners[c], settings, grid=grid)
+            except (BrakeheatError, ValueError):    # alone, where it says what is wrong
+                alone.add(members[b][0])
+                continue
+            shapes.setdefault(corner_shape(setups[b].network), []).append(b)
         for group in shapes.values():
             try:
                 lanes = CornerLanes([scenarios[b] for b in group], c, settings, [setups[b] for b in group])
