@@ -24,9 +24,10 @@ Measured side by side in one run (medians over repeats):
   size of results.h5), and 2 hours on the demo's logged lap resampled to 1 kHz (--quick: 2 hours
   of the 24-hour plan and a quarter of an hour of the 1 kHz lap);
 - a study (``sweep``, as the issue that asked for it names it): ``brakeheat uncertainty scenarios/demo.toml --json`` with 1000 samples of
-  the first stint (--quick: 48, scaled), the samples side by side in the lanes (the default), wall
-  time and peak memory of the command and its workers; and the same with ``--one-by-one`` (each
-  sample run alone as ``brakeheat run`` runs it; 200 samples, scaled), and the ratio.
+  the first stint (--quick: 48, scaled), the samples side by side (the default, full Newton), wall
+  time and peak memory of the command and its workers; the same with the linearised scheme in the
+  lane kernel (``--set solver.linearised=true``); and ``--one-by-one`` (each sample run alone as
+  ``brakeheat run`` runs it; 200 samples, scaled), and the ratio.
 """
 from __future__ import annotations
 
@@ -215,19 +216,22 @@ def study(quick: bool = False) -> dict:
     """`brakeheat uncertainty scenarios/demo.toml --json` (the demo's [uncertainty] table: convection
     multipliers, front duct inlet area, front pad thickness, fluid water content; the first stint)
     with the default workers (one process per core): wall time scaled to 1000 samples and peak
-    memory, the samples side by side in the lanes; then the same ``--one-by-one`` (each sample
-    alone, full Newton, as ``brakeheat run``), measured in the same run. --quick: 48 samples each;
-    else 1000, and 200 one by one."""
+    memory, the samples side by side (full Newton, the scheme of ``brakeheat run``); the same with
+    ``--set solver.linearised=true`` (the linearised scheme in the lane kernel); and
+    ``--one-by-one`` (each sample alone), all measured in the same run. --quick: 48 samples each;
+    else 1000, 1000 linearised and 200 one by one."""
     from thermo.studies.engine import default_workers
     samples = 48 if quick else STUDY_TARGETS["samples"]
     alone_samples = 48 if quick else 200
-    wall, peak = _study_run(samples)
-    wall_alone, peak_alone = _study_run(alone_samples, ("--one-by-one",))
     per = STUDY_TARGETS["samples"]
-    lanes_per_1000, alone_per_1000 = wall * per / samples, wall_alone * per / alone_samples
-    return {"samples": samples, "workers": default_workers(), "wall_s": wall, "wall_s_per_1000": lanes_per_1000,
-            "peak_mb": peak, "one_by_one_samples": alone_samples, "one_by_one_wall_s_per_1000": alone_per_1000,
-            "one_by_one_peak_mb": peak_alone, "lanes_speedup": alone_per_1000 / lanes_per_1000, "targets": STUDY_TARGETS}
+    wall, peak = _study_run(samples)
+    wall_lin, peak_lin = _study_run(samples, ("--set", "solver.linearised=true"))
+    wall_alone, peak_alone = _study_run(alone_samples, ("--one-by-one",))
+    newton, linearised, alone = wall * per / samples, wall_lin * per / samples, wall_alone * per / alone_samples
+    return {"samples": samples, "workers": default_workers(), "wall_s": wall, "wall_s_per_1000": newton,
+            "peak_mb": peak, "linearised_wall_s_per_1000": linearised, "linearised_peak_mb": peak_lin,
+            "one_by_one_samples": alone_samples, "one_by_one_wall_s_per_1000": alone,
+            "one_by_one_peak_mb": peak_alone, "lanes_speedup": alone / newton, "targets": STUDY_TARGETS}
 
 
 def run(quick: bool = False) -> dict:
@@ -340,9 +344,10 @@ def _text(r: dict) -> str:
     t = u["targets"]
     lines.append(f"  sweep (brakeheat uncertainty demo.toml, {u['samples']} samples of the first stint, {u['workers']} "
                  f"workers): {u['wall_s']:.1f} s wall, {u['wall_s_per_1000']:.0f} s per 1000 samples (target < "
-                 f"{t['wall_s']:g}), peak {u['peak_mb']:.0f} MB (target < {t['peak_mb']:g}); "
-                 f"--one-by-one {u['one_by_one_wall_s_per_1000']:.0f} s per 1000, {u['one_by_one_peak_mb']:.0f} MB: "
-                 f"the lanes {u['lanes_speedup']:.1f}x faster")
+                 f"{t['wall_s']:g}), peak {u['peak_mb']:.0f} MB (target < {t['peak_mb']:g}), side by side in full Newton; "
+                 f"--set solver.linearised=true {u['linearised_wall_s_per_1000']:.0f} s per 1000, "
+                 f"{u['linearised_peak_mb']:.0f} MB; --one-by-one {u['one_by_one_wall_s_per_1000']:.0f} s per 1000, "
+                 f"{u['one_by_one_peak_mb']:.0f} MB (side by side {u['lanes_speedup']:.1f}x faster)")
     s = r["settle"]
     lines.append(f"  settled lap {s['settled_lap_s']:.3f} s vs simulating {s['laps_to_1k']} laps to within 1 K "
                  f"{s['simulate_to_1k_s']:.3f} s (model build {s['model_build_s']:.2f} s not included)")

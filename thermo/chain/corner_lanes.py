@@ -2,17 +2,17 @@
 
 A study's points often differ only in the corner's own build (duct size, convection multipliers,
 pad thickness, pistons) and limits, while the car, the plan and so each segment's heat input and
-air are the same. Those configurations run here together: each segment is one call of the lane
-kernel (``KernelNetwork.run_laps``, the linearised TR-BDF2 of ``thermo.solver.kernel_linearised``,
-side by side in ``thermo.solver.kernel_lanes``) for all of them, from each one's carried state.
+air are the same. Those configurations run here together: each segment is one call of the
+compiled kernel for all of them, from each one's carried state, in the scheme of ``brakeheat
+run`` (full Newton, ``thermo.solver.kernel``), or with ``[solver] linearised = true`` in the
+linearised scheme side by side in the lane kernel (``thermo.solver.kernel_lanes``).
 Between segments each configuration's pad wears and is changed at stops exactly as ``CornerRun``
 does it, by writing the worn pad's values (``thermo.corner.pad_terms``) into its rows of the
 kernel's arrays: nothing is rebuilt. The tables are stacked once for all configurations and
 shared where equal. A configuration keeps only each output node's peak and when it was reached.
 
-The linearised scheme keeps peaks within 0.005 K of the full-Newton run on the demo corner (see
-README, Speed). The lane kernel is used however few the configurations, so each one's numbers are
-the same, to the bit, whatever runs beside it. All configurations must have one ``corner_shape``
+Each configuration's numbers are the same, to the bit, whatever runs beside it, and in the
+default scheme they are those of the configuration run alone. All configurations must have one ``corner_shape``
 (the caller groups them). A configuration whose state leaves a conductance table or the model's
 physical range, or that the kernel cannot solve, is dropped (``failed``): its caller runs it
 alone the ordinary way (``CornerRun``), which reports it as ``brakeheat run`` would.
@@ -21,6 +21,7 @@ from __future__ import annotations
 
 from dataclasses import replace
 
+import numba
 import numpy as np
 
 from thermo.chain.corner_run import (
@@ -186,7 +187,7 @@ class CornerLanes:
             ix = np.array(members, dtype=np.int64)
             kn = replace(self.template, link_a=self.link_a[ix[0]].copy(), tix=np.ascontiguousarray(self.tix[ix]),
                          **{name: np.ascontiguousarray(self.rows[name][ix]) for name in ROW_FIELDS})
-            res, _ = kn.run_laps(inputs, self.T[ix], 1, None, record, width=len(ix), always_lanes=True)
+            res = self._solve(kn, inputs, self.T[ix], record)
             for j, b in enumerate(members):
                 temps = res.temps[j]
                 if res.status[j] != kernel.STATUS_OK or not np.all((temps >= STATE_MIN_K) & (temps <= STATE_MAX_K)):
@@ -199,6 +200,21 @@ class CornerLanes:
                 self.peak_time_s[b, higher] = out_t[top[higher]]
                 self.T[b] = res.final[j]
                 self._wear(b, segment, out, weight, energy)
+
+    def _solve(self, kn, inputs, T0: np.ndarray, record: np.ndarray):
+        """One segment for the configurations of ``kn``, in the scheme the scenario asks for: full
+        Newton (the default, ``brakeheat run``'s own scheme) one configuration after another in
+        one call, or with ``[solver] linearised = true`` the linearised scheme side by side in the
+        lane kernel. Either way a configuration gets the same numbers, to the bit, whatever runs
+        beside it. One process, one thread: a study's parallelism is its worker processes."""
+        threads = numba.get_num_threads()
+        numba.set_num_threads(1)
+        try:
+            if self.settings.linearised:
+                return kn.run_laps(inputs, T0, 1, None, record, width=T0.shape[0], always_lanes=True)[0]
+            return kn.run(inputs, T0, self.settings.rtol, self.settings.atol_k, record, False)
+        finally:
+            numba.set_num_threads(threads)
 
     def _wear(self, b: int, segment: PlanSegment, out: np.ndarray, weight: np.ndarray, energy_lap: float) -> None:
         """``CornerRun._wear`` for configuration ``b``: the pad-heat weighted pad temperature sets the wear."""

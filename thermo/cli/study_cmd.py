@@ -32,8 +32,8 @@ def _common(p) -> None:
                         "e.g. tcp://10.0.0.5:8786 (needs pip install \".[cluster]\")")
     p.add_argument("--chunk-size", type=int, metavar="N", help="points per unit of work sent to a worker (default: automatic)")
     p.add_argument("--one-by-one", action="store_true",
-                   help="run every point alone as 'brakeheat run' runs it, instead of side by side in the kernel's "
-                        "lanes (the linearised scheme, within 0.005 K); slower")
+                   help="run every point alone as 'brakeheat run' runs it, instead of side by side in one kernel "
+                        "call per segment (the same numbers; slower; a check)")
 
 
 def add_parsers(sub) -> None:

@@ -360,7 +360,7 @@ class CornerDesign:
     ducts: tuple[DuctGeometry, ...]
     airflow: AirflowSettings
     fluid_material: str = "brake_fluid_glycol"
-    pad_mu: float = key("pad_mu", 0.5, minimum=0.05, maximum=1.5, doc="pad-disc friction coefficient")
+    pad_mu: float = key("pad_mu", 0.5, minimum=0.05, maximum=1.0, doc="pad-disc friction coefficient")
     rolling_radius_m: float = 0.33
 
     def __post_init__(self):
