@@ -52,3 +52,22 @@ def test_values_out_of_range_are_one_line_errors(key, value):
         load_scenario(SMALL, [(key, value)])
     message = str(info.value)
     assert "\n" not in message and key.split(".")[-1] in message and ("at most" in message or "at least" in message)
+
+
+@pytest.mark.parametrize("key, value, fragment", [
+    # a grey surface has an emissivity above 0 (the radiation exchange is undefined at 0)
+    ("corners.front.caliper.emissivity", 0.0, "emissivity must be more than 0"),
+    ("corners.front.disc.emissivity", 0.0, "emissivity must be more than 0"),
+    # reciprocity of view factors (Incropera et al., Fundamentals of Heat and Mass Transfer, ch. 13;
+    # the equation number 13.3 is from memory): A_disc F_disc->caliper = A_caliper F_caliper->disc,
+    # with F_caliper->disc <= 1
+    ("corners.front.caliper.area_m2", 0.001, "smaller than the disc area it sees"),
+    ("corners.front.pad_mu", 1.2, "pad_mu must be at most 1"),
+])
+def test_values_the_model_cannot_take_are_refused_by_the_scenario(key, value, fragment):
+    """Values that once passed the key's range and then stopped the run with a message naming no
+    key (found by the studies' fuzz campaign)."""
+    with pytest.raises(ScenarioError) as info:
+        load_scenario(SMALL, [(key, value)])
+    message = str(info.value)
+    assert "\n" not in message and str(SMALL) in message and fragment in message, message

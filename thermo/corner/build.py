@@ -356,7 +356,7 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
     # backing plate and pad edges out
     eps_disc = d.emissivity_override if d.emissivity_override is not None else mat["disc"].emissivity
     eps_cal = cal.emissivity_override if cal.emissivity_override is not None else mat["caliper"].emissivity
-    disc_rad_area = disc_face_area + math.pi * d.outer_diameter_m * d.thickness_m
+    disc_rad_area = d.radiating_area_m2
     view = cal.view_factor_from_disc
     links += [
         Radiation("disc_to_caliper_radiation", surface, "caliper", radiation_coefficient_grey_two_surface(

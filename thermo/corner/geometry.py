@@ -23,6 +23,11 @@ MAX_PISTON_DIAMETER_M = 0.1       # sanity bound, not a design rule: no car cali
 PISTON_OVERHANG_ALLOWED = 1.5     # sanity bound, not a design rule: a piston may overhang the ring a little
 
 
+def disc_radiating_area_m2(outer_diameter_m: float, inner_diameter_m: float, thickness_m: float) -> float:
+    """Both faces of a friction ring and its outer rim [m^2]."""
+    return 2 * math.pi / 4 * (outer_diameter_m ** 2 - inner_diameter_m ** 2) + math.pi * outer_diameter_m * thickness_m
+
+
 @dataclass(frozen=True)
 class DiscGeometry:
     """Friction ring of the disc (the bell is separate).
@@ -52,7 +57,7 @@ class DiscGeometry:
     bell_mass_kg: float = key("bell_mass_kg", 0.8, above=0.0, maximum=20.0)
     bell_material: str = key("bell_material", "aluminium_7075_t6", kind=str)
     bell_area_m2: float = key("bell_area_m2", 0.04, above=0.0, maximum=1.0)
-    emissivity_override: float | None = key("emissivity", None, minimum=0.0, maximum=1.0, doc="omit: the material's")
+    emissivity_override: float | None = key("emissivity", None, above=0.0, maximum=1.0, doc="omit: the material's")
     face_correlation: str = key("face_correlation", "rotating", kind=str, choices=FACE_CORRELATIONS,
                                 doc="rotating: Cobb & Saunders on the wheel speed, or the cross-flow where larger; "
                                     "limpert: Limpert's disc form on the local air speed (about three times more cooling)")
@@ -78,6 +83,11 @@ class DiscGeometry:
     def ring_area_m2(self) -> float:
         """One face of the swept ring [m^2]."""
         return math.pi / 4 * (self.outer_diameter_m ** 2 - self.inner_diameter_m ** 2)
+
+    @property
+    def radiating_area_m2(self) -> float:
+        """Both faces of the ring and its outer rim, the area the disc radiates from [m^2]."""
+        return disc_radiating_area_m2(self.outer_diameter_m, self.inner_diameter_m, self.thickness_m)
 
     @property
     def vane_height_m(self) -> float:
@@ -258,7 +268,7 @@ class CaliperGeometry:
                                     doc="fluid between each piston and its bore bottom: the fluid_at_piston node", maximum=20.0)
     mount_conductance_w_k: float = key("mount_conductance_w_k", 2.0, minimum=0.0, maximum=1000.0)
     view_factor_from_disc: float = key("view_factor_from_disc", 0.08, minimum=0.0, maximum=1.0)
-    emissivity_override: float | None = key("emissivity", None, minimum=0.0, maximum=1.0, doc="omit: the material's")
+    emissivity_override: float | None = key("emissivity", None, above=0.0, maximum=1.0, doc="omit: the material's")
     section: str = "caliper"
 
     def __post_init__(self):

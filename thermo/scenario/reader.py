@@ -10,7 +10,7 @@ from lapdata.files import read_toml_file
 from lapdata.track import CarEnvelope
 from thermo.corner.geometry import (
     AirflowSettings, CaliperGeometry, CornerDesign, DiscGeometry, DuctGeometry, HubGeometry, PadGeometry,
-    PistonGeometry,
+    PistonGeometry, disc_radiating_area_m2,
 )
 from thermo.correlations.air import air_density, pressure_at_altitude
 from thermo.duty.bias import FixedBias, HydraulicBias
@@ -212,6 +212,7 @@ def _corner(name: str, axle: str, t: dict, vehicle: VehicleParameters, fluid_mat
             raise ScenarioError(f"[{where}.pad] thickness_mm must be more than minimum_thickness_mm")
         piston = dict(parts["piston"])
         piston["diameters_m"] = tuple(piston["diameters_m"])
+        _check_caliper_view(where, parts["disc"], parts["caliper"])
         return CornerDesign(
             name=name, axle=axle,
             disc=DiscGeometry(**parts["disc"], section=f"{where}.disc"),
@@ -225,6 +226,18 @@ def _corner(name: str, axle: str, t: dict, vehicle: VehicleParameters, fluid_mat
     except ScenarioError as error:
         message = str(error)  # convert_table's messages already start with the file
         raise ScenarioError(message if message.startswith(f"{source}: ") else f"{source}: {message}") from None
+
+
+def _check_caliper_view(where: str, disc: dict, caliper: dict) -> None:
+    """The caliper must be at least as large as the disc area it sees (reciprocity of view
+    factors: A_disc F_disc->caliper = A_caliper F_caliper->disc, and F_caliper->disc <= 1)."""
+    seen = caliper["view_factor_from_disc"] * disc_radiating_area_m2(
+        disc["outer_diameter_m"], disc["inner_diameter_m"], disc["thickness_m"])
+    if caliper["area_m2"] < seen:
+        raise ScenarioError(
+            f"[{where}.caliper] area_m2 = {caliper['area_m2']:g} is smaller than the disc area it sees "
+            f"(view_factor_from_disc {caliper['view_factor_from_disc']:g} x the disc's {seen / caliper['view_factor_from_disc']:.4g} m^2 "
+            f"radiating area = {seen:.4g} m^2); expected area_m2 >= {seen:.4g} or a smaller view_factor_from_disc")
 
 
 def _bias(b: dict, corners, source: str):
