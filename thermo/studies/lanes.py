@@ -48,10 +48,6 @@ def drive_key(scenario) -> object:
     return fingerprint(tuple(getattr(scenario, name) for name in DRIVE_FIELDS) + (corners,))
 
 
-class _Alone(Exception):
-    """A point that runs alone: its solver is not the compiled 'fast' one."""
-
-
 def run_chunk(job, chunk) -> list:
     """A chunk of points, ``[(index, values), ...]``, run in this process: ``[(index, point), ...]``.
     The unit of work sent to an executor. Side by side where they share their drive
@@ -81,11 +77,11 @@ def run_chunk_in_lanes(job, chunk) -> list:
     for index, values in chunk:
         try:
             scenario = point_scenario(job, values)
-            if scenario.solver.method != "fast":
-                raise _Alone
-            key = drive_key(scenario)
-        except (BrakeheatError, _Alone):
-            done[index] = run_point(job, values)         # as it asks, or it says why, as a point alone would
+            key = drive_key(scenario) if scenario.solver.method == "fast" else None
+        except BrakeheatError:
+            key = None
+        if key is None:          # another solver, run as it asks; or a point that says why it cannot run
+            done[index] = run_point(job, values)
             continue
         groups.setdefault(key, []).append((index, values, scenario))
     for members in groups.values():
