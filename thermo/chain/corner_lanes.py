@@ -3,9 +3,9 @@
 A study's points often differ only in the corner's own build (duct size, convection multipliers,
 pad thickness, pistons) and limits, while the car, the plan and so each segment's heat input and
 air are the same. Those configurations run here together: each segment is one call of the
-compiled kernel for all of them, from each one's carried state, in the scheme of ``brakeheat
-run`` (full Newton, ``thermo.solver.kernel``), or with ``[solver] linearised = true`` in the
-linearised scheme side by side in the lane kernel (``thermo.solver.kernel_lanes``).
+compiled kernel for all of them side by side in lanes, from each one's carried state, in the
+scheme of ``brakeheat run`` (full Newton, ``thermo.solver.kernel_newton_lanes``), or with
+``[solver] linearised = true`` in the linearised scheme (``thermo.solver.kernel_lanes``).
 Between segments each configuration's pad wears and is changed at stops exactly as ``CornerRun``
 does it, by writing the worn pad's values (``thermo.corner.pad_terms``) into its rows of the
 kernel's arrays: nothing is rebuilt. The tables are stacked once for all configurations and
@@ -202,17 +202,19 @@ class CornerLanes:
                 self._wear(b, segment, out, weight, energy)
 
     def _solve(self, kn, inputs, T0: np.ndarray, record: np.ndarray):
-        """One segment for the configurations of ``kn``, in the scheme the scenario asks for: full
-        Newton (the default, ``brakeheat run``'s own scheme) one configuration after another in
-        one call, or with ``[solver] linearised = true`` the linearised scheme side by side in the
-        lane kernel. Either way a configuration gets the same numbers, to the bit, whatever runs
-        beside it. One process, one thread: a study's parallelism is its worker processes."""
+        """One segment for the configurations of ``kn`` side by side in lanes, in the scheme the
+        scenario asks for: full Newton (the default, ``brakeheat run``'s own scheme,
+        ``thermo.solver.kernel_newton_lanes``), or with ``[solver] linearised = true`` the
+        linearised scheme (``thermo.solver.kernel_lanes``). Either way a configuration gets the
+        same numbers, to the bit, whatever runs beside it, and in full Newton those of
+        ``kernel.advance`` on it alone. One process, one thread: a study's parallelism is its
+        worker processes."""
         threads = numba.get_num_threads()
         numba.set_num_threads(1)
         try:
             if self.settings.linearised:
                 return kn.run_laps(inputs, T0, 1, None, record, width=T0.shape[0], always_lanes=True)[0]
-            return kn.run(inputs, T0, self.settings.rtol, self.settings.atol_k, record, False)
+            return kn.run(inputs, T0, self.settings.rtol, self.settings.atol_k, record, lanes=True)
         finally:
             numba.set_num_threads(threads)
 

@@ -33,7 +33,7 @@ from thermo.network.elements import REFERENCE_TEMPERATURE_K
 from thermo.network.laws import capacity_segment
 from thermo.network.schedule import Schedule
 from thermo.network.tabulate import TabulatedConductance
-from thermo.solver import kernel, kernel_lanes, kernel_linearised
+from thermo.solver import kernel, kernel_lanes, kernel_linearised, kernel_newton_lanes
 from thermo.solver.elimination import EliminationPlan, elimination_plan
 
 
@@ -104,12 +104,18 @@ class KernelNetwork:
                             counts=np.zeros((B, 2), dtype=np.int64))
 
     def run(self, inputs: KernelInputs, initial_k: np.ndarray, rtol: float, atol_k: float,
-            record: np.ndarray, linearised: bool = False) -> KernelResult:
+            record: np.ndarray, linearised: bool = False, lanes: bool = False) -> KernelResult:
         """Call the kernel: ``initial_k`` (B, n) [K]; ``record`` (N+1,) grid points to keep;
         ``rtol``, ``atol_k`` the Newton tolerances; ``linearised`` the linearised mode
-        (``thermo.solver.kernel_linearised``: no iteration, so the tolerances do not apply)."""
+        (``thermo.solver.kernel_linearised``: no iteration, so the tolerances do not apply).
+        ``lanes``: full Newton with the configurations side by side in lanes
+        (``thermo.solver.kernel_newton_lanes``): each configuration's numbers are
+        those of the one-configuration kernel, to the bit, whatever runs beside it."""
         if linearised:
             return self.run_laps(inputs, initial_k, 1, None, record)[0]
+        if lanes:
+            return self._run_newton_lanes(inputs, np.ascontiguousarray(initial_k, dtype=float), float(rtol),
+                                          float(atol_k), np.ascontiguousarray(record, dtype=np.bool_))
         B = self.size
         out = self._result(B, int(np.count_nonzero(record)))
         fn = kernel.advance_parallel if B > 1 else kernel.advance
@@ -161,13 +167,8 @@ class KernelNetwork:
             peak=np.empty((K, n, Wd)), peak_step=np.zeros((K, n, Wd), dtype=np.int64),
             lap_peaks=np.empty((K, n_laps, n_out, Wd)), link_energy=np.zeros((K, L, Wd)), heat_in=np.zeros((K, Wd)),
             lane_flag=np.zeros((K, Wd), dtype=np.bool_), counts=np.zeros((K, Wd), dtype=np.int64))
-        threads = numba.get_num_threads()
-        if K == 1:
-            numba.set_num_threads(1)     # one block: no threads to wake (each would spin on a core another process may use)
-        try:
-            kernel_lanes.advance_lanes(lanes(T0), inputs, self.arrays(inputs, lanes), n_laps, weights, record, lane_out)
-        finally:
-            numba.set_num_threads(threads)
+        _call_blocks(kernel_lanes.advance_lanes, K, lanes(T0), inputs, self.arrays(inputs, lanes), n_laps, weights,
+                     record, lane_out)
         temps, flows, final, peak, peak_step, lap_peaks, link_energy, heat_in, flag, _ = lane_out
         back = lambda y: _from_lanes(y, B)
         out = KernelResult(back(temps), back(flows), back(final), back(peak), back(peak_step), back(link_energy),
@@ -178,11 +179,35 @@ class KernelNetwork:
         if redo.size:        # never back into the lanes: the one-configuration kernel decides
             one, one_peaks = self.subset(redo)._run_each(inputs, np.ascontiguousarray(T0[redo]), n_laps, weights,
                                                          record)
-            for field in ("temps", "flows", "final", "peak", "peak_step", "link_energy", "heat_in", "status",
-                          "fail_step", "counts"):
-                getattr(out, field)[redo] = getattr(one, field)
+            _take_rows(out, one, redo)
             lap_peaks[redo] = one_peaks
         return out, lap_peaks
+
+    def _run_newton_lanes(self, inputs, T0, rtol, atol_k, record) -> KernelResult:
+        """``run`` in full Newton with the configurations side by side in blocks of up to
+        ``kernel_lanes.LANES`` (``kernel_newton_lanes``); a flagged lane is rerun alone in
+        ``kernel.advance`` (dense fallback, exact status)."""
+        B, n, L, N = self.size, self.n_nodes, self.link_a.size, inputs.h.size
+        Wd = min(B, kernel_lanes.LANES)
+        K = -(-B // Wd)
+        lanes = lambda x: _to_lanes(x, K, Wd)
+        n_rec = int(np.count_nonzero(record))
+        lane_out = kernel_newton_lanes.NewtonLaneOutputs(
+            temps=np.empty((K, n_rec, n, Wd)), flows=np.empty((K, n_rec, L, Wd)), final=np.empty((K, n, Wd)),
+            peak=np.empty((K, n, Wd)), peak_step=np.zeros((K, n, Wd), dtype=np.int64),
+            link_energy=np.zeros((K, L, Wd)), heat_in=np.zeros((K, Wd)), lane_flag=np.zeros((K, Wd), dtype=np.bool_),
+            counts=np.zeros((K, 2, Wd), dtype=np.int64))
+        _call_blocks(kernel_newton_lanes.advance_newton_lanes, K, lanes(T0), inputs, self.arrays(inputs, lanes), rtol,
+                     atol_k, kernel.MAX_NEWTON, record, lane_out)
+        temps, flows, final, peak, peak_step, link_energy, heat_in, flag, counts = lane_out
+        back = lambda y: _from_lanes(y, B)
+        out = KernelResult(back(temps), back(flows), back(final), back(peak), back(peak_step), back(link_energy),
+                           back(heat_in), np.zeros(B, dtype=np.int64), np.full(B, N, dtype=np.int64), back(counts))
+        redo = np.flatnonzero(back(flag))
+        if redo.size:        # the one-configuration kernel decides (dense fallback, exact failure report)
+            one = self.subset(redo).run(inputs, np.ascontiguousarray(T0[redo]), rtol, atol_k, record)
+            _take_rows(out, one, redo)
+        return out
 
     def boundary_slices(self, inputs: KernelInputs) -> tuple:
         """Convection tables interpolated along the boundary axis for every slot whose boundary
@@ -267,6 +292,24 @@ _SLICES_KEPT = 8        # a run's corners each reuse theirs lap after lap
 def forget_slices() -> None:
     """Empty ``boundary_slices``' store (a study's worker does so after each point)."""
     _SLICES.clear()
+
+
+def _call_blocks(fn, blocks: int, *args) -> None:
+    """Call a lane kernel; with one block on one thread (no threads to wake: each would spin on a
+    core another process may use)."""
+    threads = numba.get_num_threads()
+    if blocks == 1:
+        numba.set_num_threads(1)
+    try:
+        fn(*args)
+    finally:
+        numba.set_num_threads(threads)
+
+
+def _take_rows(out: KernelResult, alone: KernelResult, rows: np.ndarray) -> None:
+    """Put the results of configurations ``rows``, rerun alone, into a batch's ``out``."""
+    for field in KernelResult._fields:
+        getattr(out, field)[rows] = getattr(alone, field)
 
 
 MIN_LANES = 4    # narrower blocks are no cheaper per configuration than the one-configuration kernel
