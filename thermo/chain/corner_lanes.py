@@ -36,7 +36,10 @@ from thermo.corner.build import (
 from thermo.corner.pad_terms import PadTerms, pad_layer_link, pad_output_weights, pad_terms
 from thermo.solver import kernel
 from thermo.solver.fast import step_grid
-from thermo.solver.kernel_arrays import ROW_FIELDS, _link_tables, configuration_rows, kernel_inputs, kernel_network
+from thermo.solver.kernel_arrays import (
+    ROW_FIELDS, _link_tables, configuration_rows, kernel_inputs, kernel_network, node_link_tables,
+    varies_along_boundary,
+)
 from thermo.solver.settings import SolverSettings
 
 EDGE_LINKS = ("pad_edge_convection", "pad_edge_radiation")
@@ -131,7 +134,8 @@ class CornerLanes:
         if not tables:
             raise ValueError("corner lanes: the network has no tabulated convection")
         stacked = np.ascontiguousarray(np.stack([t for _, t in sorted(tables.values(), key=lambda x: x[0])]))
-        self.template = replace(template, tables=stacked, varies_b=None)     # worked out where needed
+        self.template = replace(template, tables=stacked,
+                                varies_b=varies_along_boundary(stacked, node_link_tables(template, self.tix)))
         rows = [configuration_rows(net) for net in nets]
         self.rows = {name: np.ascontiguousarray(np.concatenate([r[name] for r in rows])) for name in ROW_FIELDS}
         self.link_a = np.array([net.link_a for net in nets], dtype=np.int64)

@@ -260,14 +260,14 @@ class KernelNetwork:
                     continue                             # off the table: the kernel flags it as usual
             slot_sliced[s] = True
             used, which = np.unique(self.tix[:, s], return_inverse=True)
-            for u, table in enumerate(used):
-                key = (int(table), q)
-                if key not in index:
-                    t = self.tables[key[0]]
-                    index[key] = len(slices)
-                    slices.append(t[:, :, k] + fk * (t[:, :, k + 1] - t[:, :, k]))
-                six[which.reshape(-1) == u, s] = index[key]
-        sliced = np.ascontiguousarray(np.stack(slices)).reshape(-1) if slices else np.zeros(1)
+            new = [int(t) for t in used if (int(t), q) not in index]
+            if new:         # the new tables' slices in one operation (the same arithmetic element by element)
+                t = self.tables[new]
+                slices.append(t[..., k] + fk * (t[..., k + 1] - t[..., k]))
+                for table in new:
+                    index[(table, q)] = len(index)
+            six[:, s] = np.array([index[(int(t), q)] for t in used], dtype=np.int64)[which.reshape(-1)]
+        sliced = np.ascontiguousarray(np.concatenate(slices)).reshape(-1) if slices else np.zeros(1)
         return sliced, slot_sliced, six
 
     def _varies_along_boundary(self, table: int) -> bool:
@@ -275,6 +275,28 @@ class KernelNetwork:
         if self.varies_b is not None:
             return bool(self.varies_b[table])
         return bool(np.ptp(self.tables[table], axis=2).max() != 0.0)
+
+
+def varies_along_boundary(tables: np.ndarray, only: np.ndarray | None = None) -> np.ndarray:
+    """(U,) bool: whether each of the stacked tables (U, n_driver, n_node, n_boundary) changes
+    along its boundary-temperature axis (``KernelNetwork.varies_b``). With ``only`` (table numbers)
+    just those are examined and the rest are taken as varying (so never read pre-sliced): the
+    question is asked only of tables that node-to-node links read (``node_link_tables``)."""
+    if only is None:
+        return np.ptp(tables, axis=3).max(axis=(1, 2)) != 0.0
+    varies = np.ones(tables.shape[0], dtype=bool)
+    only = np.asarray(only, dtype=np.int64)
+    if only.size:
+        varies[only] = np.ptp(tables[only], axis=3).max(axis=(1, 2)) != 0.0
+    return varies
+
+
+def node_link_tables(kn: KernelNetwork, tix: np.ndarray) -> np.ndarray:
+    """The table numbers that convection links between two nodes read, in configurations ``tix``
+    (B, n_conv)."""
+    conv = kn.kind == kernel.KIND_CONVECTION
+    slots = np.unique(kn.conv_slot[conv & (kn.link_b < kn.n_nodes)])
+    return np.unique(tix[:, slots]) if slots.size else np.zeros(0, dtype=np.int64)
 
     def subset(self, index) -> "KernelNetwork":
         """The configurations ``index`` (array of ints) of this batch."""
@@ -456,7 +478,7 @@ def _unique_stack(functions: tuple) -> np.ndarray:
     for fn in functions:
         unique.setdefault(id(fn.table), fn.table)
     tables = np.ascontiguousarray(np.stack(list(unique.values())))
-    return tables, np.ptp(tables, axis=3).max(axis=(1, 2)) != 0.0
+    return tables, varies_along_boundary(tables)
 
 
 def kernel_network(net: CompiledNetwork) -> KernelNetwork | None:
