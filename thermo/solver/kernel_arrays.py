@@ -276,6 +276,14 @@ class KernelNetwork:
             return bool(self.varies_b[table])
         return bool(np.ptp(self.tables[table], axis=2).max() != 0.0)
 
+    def subset(self, index) -> "KernelNetwork":
+        """The configurations ``index`` (array of ints) of this batch."""
+        ix = np.asarray(index, dtype=np.int64)
+        pick = lambda a: np.ascontiguousarray(a[ix])
+        return replace(self, par=pick(self.par), tix=pick(self.tix), mass=pick(self.mass), base=pick(self.base),
+                       seg_lo=pick(self.seg_lo), seg_hi=pick(self.seg_hi), seg_slope=pick(self.seg_slope),
+                       src=pick(self.src))
+
 
 def varies_along_boundary(tables: np.ndarray, only: np.ndarray | None = None) -> np.ndarray:
     """(U,) bool: whether each of the stacked tables (U, n_driver, n_node, n_boundary) changes
@@ -297,14 +305,6 @@ def node_link_tables(kn: KernelNetwork, tix: np.ndarray) -> np.ndarray:
     conv = kn.kind == kernel.KIND_CONVECTION
     slots = np.unique(kn.conv_slot[conv & (kn.link_b < kn.n_nodes)])
     return np.unique(tix[:, slots]) if slots.size else np.zeros(0, dtype=np.int64)
-
-    def subset(self, index) -> "KernelNetwork":
-        """The configurations ``index`` (array of ints) of this batch."""
-        ix = np.asarray(index, dtype=np.int64)
-        pick = lambda a: np.ascontiguousarray(a[ix])
-        return replace(self, par=pick(self.par), tix=pick(self.tix), mass=pick(self.mass), base=pick(self.base),
-                       seg_lo=pick(self.seg_lo), seg_hi=pick(self.seg_hi), seg_slope=pick(self.seg_slope),
-                       src=pick(self.src))
 
 
 _SLICES: dict = {}      # boundary_slices' results, by tables, table choice and boundary temperatures
