@@ -1,9 +1,10 @@
 """Points side by side in the kernel's lanes give what each point run alone gives.
 
 The reference is each point run alone through the chain of ``brakeheat run`` (``run_point``: full
-Newton, the pad rebuilt as it wears); the lanes use the linearised scheme, which keeps peaks
-within 0.005 K of it on the demo corner (README, Speed), so the rounded peaks and margins agree to
-0.01 K. The pads' rows are checked against a full build of the worn corner."""
+Newton, the pad rebuilt as it wears). Side by side the points run in full Newton too, in the lane
+kernel (``thermo.solver.kernel_newton_lanes``), so each corner's peaks are those of the run alone
+to the bit (tested at full precision below); the points' rounded peaks and margins are compared
+to 0.01 K. The pads' rows are checked against a full build of the worn corner."""
 from __future__ import annotations
 
 from dataclasses import replace
@@ -12,14 +13,17 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from thermo.chain import corner_lanes
+from thermo.chain import corner_lanes, run_scenario
 from thermo.chain.corner_lanes import CornerLanes
+from thermo.chain.plan import expand_plan
+from thermo.chain.run import corner_duties
+from thermo.chain.setup import corner_brakes
 from thermo.corner.build import build_corner, pad_layers
 from thermo.network.assemble import compile_network
 from thermo.scenario import load_scenario
 from thermo.solver.kernel_arrays import configuration_rows
 from thermo.studies.lanes import drive_key, run_chunk_in_lanes
-from thermo.studies.points import StudyJob, run_point
+from thermo.studies.points import StudyJob, first_stints, point_scenario, run_point
 
 DEMO = str(Path(__file__).resolve().parents[2] / "scenarios" / "demo.toml")
 # the demo's first stint shortened to an out-lap, 2 + 1 + 1 laps, the in-lap and the stop; pads
@@ -67,6 +71,26 @@ def test_points_side_by_side_equal_each_point_alone(points):
                                                            if k["name"] == "fluid_boiling_at_water_content")
               for _, p in lanes}
     assert len(set(limits.values())) == len(limits)
+
+
+def test_side_by_side_peaks_are_the_run_alone_to_the_bit():
+    # the corners of eight points carried side by side (full Newton, pads worn by values) against
+    # `brakeheat run`'s chain on each alone (pads rebuilt), unrounded
+    job = StudyJob(DEMO, SHORT, KEYS, stints=1)
+    scenarios = [point_scenario(job, values) for _, values in _chunk(8)]
+    segments = first_stints(expand_plan(scenarios[0]), 1)
+    brakes = corner_brakes(scenarios[0])
+    duties = [corner_duties(scenarios[0], segment, brakes) for segment in segments]
+    alone = [run_scenario(s, segments=first_stints(expand_plan(s), 1)) for s in scenarios]
+    for c, design in enumerate(scenarios[0].corners):
+        lanes = CornerLanes(scenarios, c, scenarios[0].solver.settings())
+        for segment, duty in zip(segments, duties):
+            lanes.advance(segment, duty[design.name])
+        assert lanes.failed == set()
+        for b, result in enumerate(alone):
+            np.testing.assert_array_equal(lanes.peaks_k[b], np.max(result.corners[c].temperatures_k, axis=0),
+                                          err_msg=f"corner {design.name}, point {b}")
+        assert np.ptp(lanes.peaks_k, axis=0).max() > 1.0, "the points differ"
 
 
 def test_a_point_the_lanes_drop_runs_alone(points, monkeypatch):
