@@ -187,9 +187,13 @@ class CornerLanes:
         shapes: dict[bytes, list[int]] = {}
         for b in live:
             shapes.setdefault(self.link_a[b].tobytes(), []).append(int(b))
+        # the tables pre-interpolated at this segment's constant boundary temperatures, once for all
+        # configurations (the groups below change as pads wear; these depend only on the tables)
+        sliced, slot_sliced, six = replace(self.template, tix=self.tix, par=self.rows["par"]).boundary_slices(inputs)
         for members in shapes.values():
             ix = np.array(members, dtype=np.int64)
             kn = replace(self.template, link_a=self.link_a[ix[0]].copy(), tix=np.ascontiguousarray(self.tix[ix]),
+                         slices=(sliced, slot_sliced, np.ascontiguousarray(six[ix])),
                          **{name: np.ascontiguousarray(self.rows[name][ix]) for name in ROW_FIELDS})
             res = self._solve(kn, inputs, self.T[ix], record)
             for j, b in enumerate(members):

@@ -73,6 +73,9 @@ class KernelNetwork:
     src: np.ndarray
     plan: EliminationPlan
     varies_b: np.ndarray = None     # (P,) bool: table p changes along its boundary axis (None: work it out)
+    # ``boundary_slices`` already worked out by the caller for a larger batch of the same tables and
+    # these inputs (``CornerLanes``: once for all its configurations), six holding this batch's rows
+    slices: tuple = None
 
     @property
     def size(self) -> int:
@@ -86,7 +89,7 @@ class KernelNetwork:
     def arrays(self, inputs: KernelInputs, lanes=None) -> kernel.NetworkArrays:
         """The arrays the kernels read, for a run on ``inputs``; ``lanes`` (a function (B, ...) ->
         (K, ..., W)) lays the per-configuration rows out in blocks for the lane kernel."""
-        sliced, slot_sliced, six = self.boundary_slices(inputs)
+        sliced, slot_sliced, six = self.slices if self.slices is not None else self.boundary_slices(inputs)
         rows = (lambda x: x) if lanes is None else lanes
         return kernel.NetworkArrays(
             link_a=self.link_a, link_b=self.link_b, kind=self.kind, par=rows(self.par), conv_slot=self.conv_slot,
@@ -262,8 +265,8 @@ class KernelNetwork:
             used, which = np.unique(self.tix[:, s], return_inverse=True)
             new = [int(t) for t in used if (int(t), q) not in index]
             if new:         # the new tables' slices in one operation (the same arithmetic element by element)
-                t = self.tables[new]
-                slices.append(t[..., k] + fk * (t[..., k + 1] - t[..., k]))
+                lo, hi = self.tables[new, :, :, k], self.tables[new, :, :, k + 1]
+                slices.append(lo + fk * (hi - lo))
                 for table in new:
                     index[(table, q)] = len(index)
             six[:, s] = np.array([index[(int(t), q)] for t in used], dtype=np.int64)[which.reshape(-1)]
@@ -280,9 +283,10 @@ class KernelNetwork:
         """The configurations ``index`` (array of ints) of this batch."""
         ix = np.asarray(index, dtype=np.int64)
         pick = lambda a: np.ascontiguousarray(a[ix])
+        slices = None if self.slices is None else (self.slices[0], self.slices[1], pick(self.slices[2]))
         return replace(self, par=pick(self.par), tix=pick(self.tix), mass=pick(self.mass), base=pick(self.base),
                        seg_lo=pick(self.seg_lo), seg_hi=pick(self.seg_hi), seg_slope=pick(self.seg_slope),
-                       src=pick(self.src))
+                       src=pick(self.src), slices=slices)
 
 
 def varies_along_boundary(tables: np.ndarray, only: np.ndarray | None = None) -> np.ndarray:
