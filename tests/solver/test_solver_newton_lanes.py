@@ -119,6 +119,25 @@ def test_a_lane_off_the_table_is_rerun_and_reports_its_own_status(lap, reruns):
     assert reruns == [[hot]], "exactly the hot configuration goes back to the one-configuration kernel"
     for b in range(kb.size):
         assert_as_alone(res, b, own[b], "hot lane", record)
+    # the same with the boundary slices given, worked out for a larger batch (as CornerLanes gives
+    # them): odd configurations read tables of their own (10 % more convection), so each
+    # configuration's rows of the slices differ, and the rerun must take its own
+    U = kb.tables.shape[0]
+    tix = kb.tix.copy()
+    tix[1::2] += U
+    kb = replace(kb, tables=np.ascontiguousarray(np.concatenate([kb.tables, 1.1 * kb.tables])), tix=tix, varies_b=None)
+    wider = replace(kb, tix=np.concatenate([kb.tix, kb.tix[:3]]), par=np.concatenate([kb.par, kb.par[:3]]))
+    sliced, slot_sliced, six = wider.boundary_slices(inputs)
+    order = np.array([3, 0, hot, 7])       # the hot one even: its tables are not those of the first row
+    assert slot_sliced.any() and np.any(six[3] != six[0])
+    given = replace(kb.subset(order), slices=(sliced, slot_sliced, np.ascontiguousarray(six[order])))
+    del reruns[:]
+    res = given.run(inputs, T0[order], RTOL, ATOL_K, record, lanes=True)
+    assert reruns == [[2]]
+    for j, b in enumerate(order):
+        ref = alone(kb, inputs, T0, b, record)
+        assert_as_alone(res, j, ref, "hot lane, slices given", record)
+    assert ref.final[0].max() != own[7].final[0].max(), "the own tables change the numbers"
 
 
 def test_lanes_that_newton_cannot_converge_are_each_reported_as_alone(lap, reruns, monkeypatch):
