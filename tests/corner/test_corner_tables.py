@@ -12,7 +12,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from thermo.corner import paths
+from thermo.corner import build, paths
 from thermo.corner.build import build_corner
 from thermo.network import Convection
 from thermo.network.tabulate import ConductanceGrid, TabulatedConductance
@@ -79,3 +79,72 @@ def test_a_function_that_is_not_element_wise_is_refused():
     from thermo.errors import ModelError
     with pytest.raises(ModelError, match="one G per grid point"):
         TabulatedConductance.build(lambda v, a, b: np.ones(3), GRID)
+
+
+def _front_tables(overrides):
+    scenario = load_scenario(DEMO, overrides=overrides)
+    design = next(d for d in scenario.corners if d.name == "front")
+    model = build_corner(design, scenario.ambient.pressure_pa, GRID)
+    return {link.name: link.conductance for link in model.network.links if isinstance(link, Convection)}
+
+
+def _assert_exact(tabulated):
+    assert np.array_equal(tabulated.table, _mesh_reference(tabulated.function, GRID))
+
+
+def test_cache_gives_designs_differing_in_duct_inlet_area_their_own_duct_table():
+    build.forget_tables()
+    small = _front_tables([("corners.front.ducts.main.inlet_area_mm2", 8000.0)])
+    large = _front_tables([("corners.front.ducts.main.inlet_area_mm2", 11000.0)])
+    duct_small, duct_large = small["duct_1_disc_eye"], large["duct_1_disc_eye"]
+    assert duct_small.function != duct_large.function
+    assert not np.array_equal(duct_small.table, duct_large.table)
+    assert np.all(duct_large.table >= duct_small.table)        # more duct air never cools less
+    for tabulated in (duct_small, duct_large):
+        _assert_exact(tabulated)
+    # paths that hold no duct are the same object for both (the inlet area is not theirs)
+    for name in ("disc_face_convection", "caliper_convection", "hub_convection"):
+        assert small[name] is large[name]
+
+
+def test_vane_table_shared_only_while_the_duct_leaves_the_same_pumped_flow():
+    build.forget_tables()
+    # demo: the duct supplies more air than the vanes pump at every speed, so none is pumped with
+    # either inlet area; the two paths differ (their duct) but their tables hold the same numbers
+    a = _front_tables([("corners.front.ducts.main.inlet_area_mm2", 8000.0)])["disc_vane_convection"]
+    b = _front_tables([("corners.front.ducts.main.inlet_area_mm2", 11000.0)])["disc_vane_convection"]
+    speed, air_k = GRID.axis("driver")[:, None], GRID.axis("boundary")[None, :]
+    assert np.all(a.function.pumped_mass_flow(speed, air_k) == 0.0)
+    assert np.all(b.function.pumped_mass_flow(speed, air_k) == 0.0)
+    assert a.function != b.function and a.function.ducted != b.function.ducted
+    assert a.table is b.table
+    _assert_exact(a)
+    _assert_exact(b)
+    # small inlets leave the vanes part of their pumped flow, a different part for each area
+    c = _front_tables([("corners.front.ducts.main.inlet_area_mm2", 100.0)])["disc_vane_convection"]
+    d = _front_tables([("corners.front.ducts.main.inlet_area_mm2", 200.0)])["disc_vane_convection"]
+    assert np.any(c.function.pumped_mass_flow(speed, air_k) > 0.0)
+    assert c.table is not d.table and not np.array_equal(c.table, d.table)
+    assert not np.array_equal(c.table, a.table)
+    _assert_exact(c)
+    _assert_exact(d)
+
+
+def test_duct_air_rise_changes_no_table():
+    build.forget_tables()
+    base = _front_tables([])
+    warmer = _front_tables([("corners.front.ducts.main.air_rise_k", 12.0)])
+    assert base["duct_1_disc_eye"].function != warmer["duct_1_disc_eye"].function
+    for name in base:
+        assert warmer[name].table is base[name].table, name
+
+
+def test_forget_tables_empties_both_levels():
+    build.forget_tables()
+    first = _front_tables([])["duct_1_disc_eye"]
+    assert build.tables_cached() > 0
+    build.forget_tables()
+    assert build.tables_cached() == 0
+    again = _front_tables([])["duct_1_disc_eye"]
+    assert again is not first and again.table is not first.table
+    assert np.array_equal(again.table, first.table)
