@@ -84,9 +84,9 @@ class TabulatedConductance:
             full = False
         if not full:
             raise ModelError("conductance table: the function must give one G per grid point (element-wise on its arguments)")
-        table = np.array(np.broadcast_to(table, shape), dtype=float, order="C")
-        if not np.all(np.isfinite(table)) or np.any(table < 0):
+        if not np.all(np.isfinite(table)) or np.any(table < 0):     # checked before broadcasting: the same values
             raise ModelError("conductance table: the function must give finite G >= 0 on the whole grid")
+        table = np.ascontiguousarray(table) if table.shape == shape else np.array(np.broadcast_to(table, shape), order="C")
         table.flags.writeable = False
         return cls(function, grid, table)
 
