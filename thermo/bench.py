@@ -27,7 +27,11 @@ Measured side by side in one run (medians over repeats):
   the first stint (--quick: 48, scaled), the samples side by side (the default, full Newton), wall
   time and peak memory of the command and its workers; the same with the linearised scheme in the
   lane kernel (``--set solver.linearised=true``); and ``--one-by-one`` (each sample run alone as
-  ``brakeheat run`` runs it; 200 samples, scaled), and the ratio.
+  ``brakeheat run`` runs it; 200 samples, scaled), and the ratio;
+- the corner build (``corner_build``): the demo's corners set up with every conductance table built
+  anew (``corner_setups``, the start-up of ``brakeheat run``), and 100 front corners drawn like
+  the demo's ``[uncertainty]`` inputs (duct inlet area, convection multipliers, pad thickness)
+  built one after another with the tables cached as a study's worker caches them.
 """
 from __future__ import annotations
 
@@ -234,6 +238,44 @@ def study(quick: bool = False) -> dict:
             "one_by_one_peak_mb": peak_alone, "lanes_speedup": alone / newton, "targets": STUDY_TARGETS}
 
 
+def corner_build(quick: bool = False) -> dict:
+    """Wall time of building corners [s]: the demo's corners with every table built anew (median),
+    and 100 study-like front corners one after another (30 with --quick), the tables cached as a
+    study's worker caches them (``forget_cached_tables`` after every 32, as after a chunk)."""
+    from thermo.chain.corner_run import conductance_grid
+    from thermo.chain.run import STUDY_TABULATED_KEPT, forget_cached_tables
+    from thermo.chain.setup import corner_setups
+    from thermo.corner.build import build_corner
+    scenario = load_scenario(_demo_path())
+    corner_setups(scenario)                                     # imports and the first compile out of the timing
+
+    def cold():
+        forget_cached_tables()
+        corner_setups(scenario)
+    cold_s, _ = _timed(cold, 3 if quick else 7)
+    rng = np.random.default_rng(2026)
+    count = 30 if quick else 100
+    multipliers = ("disc_convection_multiplier", "caliper_convection_multiplier", "hub_convection_multiplier")
+    designs = []
+    for _ in range(count):
+        overrides = [("corners.front.ducts.main.inlet_area_mm2", float(rng.triangular(8000.0, 10000.0, 11000.0))),
+                     ("corners.front.pad.thickness_mm", float(rng.uniform(18.0, 24.0)))]
+        overrides += [(f"corners.front.airflow.{m}", float(np.clip(rng.normal(1.0, 0.15), 0.5, 1.5))) for m in multipliers]
+        designs.append(next(d for d in load_scenario(_demo_path(), overrides).corners if d.name == "front"))
+    grid, pressure = conductance_grid(scenario), scenario.ambient.pressure_pa
+
+    def study_like():
+        forget_cached_tables()
+        for i, design in enumerate(designs):
+            build_corner(design, pressure, grid)
+            if i % 32 == 31:
+                forget_cached_tables(keep_tabulated=STUDY_TABULATED_KEPT)
+    study_s, _ = _timed(study_like, 1 if quick else 3)
+    forget_cached_tables()
+    return {"cold_corner_setups_s": cold_s, "corners": len(scenario.corners), "study_like_builds": count,
+            "study_like_s": study_s, "study_like_s_per_build": study_s / count}
+
+
 def run(quick: bool = False) -> dict:
     scenario = load_scenario(_demo_path())
     repeats = 1 if quick else 3
@@ -301,6 +343,7 @@ def run(quick: bool = False) -> dict:
     result["speedup_vs_rk45_race_path"] = wall["rk45_baseline"] / wall["race_path"]
     result["peak_error_k"] = err
 
+    result["corner_build"] = corner_build(quick)
     result["run24h"] = run24h(quick)
     result["sweep"] = study(quick)
 
@@ -332,6 +375,10 @@ def _text(r: dict) -> str:
     st = r["startup"]
     lines.append(f"  start-up: brakeheat --help {st['help_s']:.2f} s (target < {st['target_help_s']:g} s), "
                  f"import thermo {st['import_thermo_s']:.2f} s, bare python {st['bare_python_s']:.2f} s")
+    b = r["corner_build"]
+    lines.append(f"  corner build: the demo's {b['corners']} corners with every table anew {b['cold_corner_setups_s']:.3f} s; "
+                 f"{b['study_like_builds']} study-like front corners {b['study_like_s']:.2f} s "
+                 f"({b['study_like_s_per_build'] * 1e3:.1f} ms each)")
     h = r["run24h"]
     t = h["targets"]
     lines.append(f"  run24h ({h['hours']:g} h, brakeheat run demo_24h.toml): --json {h['json_cpu_s']:.1f} s CPU "

@@ -117,8 +117,8 @@ def forget_cached_tables(keep_tabulated: int = 0) -> None:
     from thermo.corner import build
     from thermo.network import assemble
     from thermo.solver import kernel_arrays
-    if build._tabulated.cache_info().currsize > keep_tabulated:
-        build._tabulated.cache_clear()
+    if build.tables_cached() > keep_tabulated:
+        build.forget_tables()
     assemble._stacked_tables.cache_clear()
     kernel_arrays._unique_stack.cache_clear()
     kernel_arrays.forget_slices()

@@ -17,7 +17,9 @@ from __future__ import annotations
 
 import functools
 import math
+import threading
 import warnings
+import weakref
 from dataclasses import dataclass, replace
 
 import numpy as np
@@ -178,13 +180,54 @@ def _series(*resistances_k_w):
     return 1.0 / sum(resistances_k_w)
 
 
-@functools.lru_cache(maxsize=512)
+TABLES_CACHED = 512     # tabulated conductances a process keeps cached at most (each table about 2 MB)
+# table key -> a table some TabulatedConductance still holds; weak, so it keeps no table alive itself
+_tables_by_value: weakref.WeakValueDictionary = weakref.WeakValueDictionary()
+_tables_lock = threading.Lock()
+
+
+@functools.lru_cache(maxsize=TABLES_CACHED)
 def _tabulated(path, grid: ConductanceGrid) -> TabulatedConductance:
+    """``path`` tabulated on ``grid``, cached per process at two levels, both by value.
+
+    1. By the path itself (a frozen dataclass: equal by the values of its fields) and the grid, the
+       ``TABLES_CACHED`` most recently used: an equal path gives the same ``TabulatedConductance``
+       (a chain rebuilding a worn corner reuses it; a compiled network's stack of tables too).
+    2. By the values the table depends on (``path.table_key(grid)`` where the path has one, else the
+       path) and the grid: a path that differs only in what its table does not depend on (a duct's
+       air temperature rise; another inlet area that leaves the vane passages the same pumped flow)
+       gets a ``TabulatedConductance`` of its own (its exact function, for points off the grid and
+       the validity check) holding the table already built: the same numbers, and the lanes of a
+       study stack it once. This level refers to its tables weakly: it holds a table only while a
+       tabulated conductance (cached above, or in a live network) does, so it adds no memory.
+
+    ``forget_tables`` empties both.
+    """
     with warnings.catch_warnings():
         # the grid spans corners of (speed, temperature) that a run may never reach; validity is
         # checked on the run's own states afterwards (thermo.chain.validity)
         warnings.simplefilter("ignore")
-        return TabulatedConductance.build(path, grid)
+        key = (path.table_key(grid) if hasattr(path, "table_key") else (path,), grid)
+        with _tables_lock:
+            table = _tables_by_value.get(key)
+        if table is not None:
+            return TabulatedConductance(path, grid, table)
+        built = TabulatedConductance.build(path, grid)
+    with _tables_lock:
+        _tables_by_value[key] = built.table
+    return built
+
+
+def tables_cached() -> int:
+    """How many tabulated conductances this process keeps cached [-]."""
+    return _tabulated.cache_info().currsize
+
+
+def forget_tables() -> None:
+    """Empty both caches of tabulated conductances (``_tabulated``)."""
+    _tabulated.cache_clear()
+    with _tables_lock:
+        _tables_by_value.clear()
 
 
 def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,

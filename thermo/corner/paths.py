@@ -8,11 +8,16 @@ Paths that carry a finite air mass flow (vane passages, ducts, piston vent holes
 exchangers in the effectiveness-NTU form G = eps m_dot c_p, eps = 1 - exp(-hA / (m_dot c_p))
 (Kays & London, Compact Heat Exchangers, 3rd ed., 1984), so their heat removal never exceeds
 m_dot c_p (T_surface - T_air).
+
+A path fed by a duct also has ``table_key(grid)``: the values its table on a ``ConductanceGrid``
+depends on, the duct's air mass flow at every (driver, boundary) point of the grid in place of the
+duct itself (``thermo.corner.build`` caches tables by it: a duct's air temperature rise, or another
+inlet area that leaves the passages the same pumped flow, changes no table).
 """
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import numpy as np
 
@@ -149,6 +154,14 @@ class VanePassages:
             flow = np.maximum(flow - self.ducted.mass_flow_kg_s(np.abs(speed_m_s), rho), 0.0)
         return flow
 
+    def table_key(self, grid) -> tuple:
+        """What this path's table on ``grid`` depends on: the passages without their duct, and the
+        pumped mass flow at every (driver, boundary) point of the grid, to the bit [-]."""
+        if self.ducted is None:
+            return (self,)
+        flow = self.pumped_mass_flow(*_driver_boundary(grid))
+        return (replace(self, ducted=None), flow.tobytes())
+
     def __call__(self, speed_m_s, surface_k, air_k):
         film = _film(surface_k, air_k)
         mass_flow = self.pumped_mass_flow(speed_m_s, air_k)
@@ -187,6 +200,17 @@ def _duct_flow(duct, speed_m_s, air_k, pressure_pa):
     return rho, duct.mass_flow_kg_s(np.abs(np.asarray(speed_m_s, float)), rho)
 
 
+def _driver_boundary(grid):
+    """The grid's driver axis as a column and its boundary axis as a row: an air mass flow on them
+    holds, element for element, the values a path computes on the whole grid."""
+    return grid.axis("driver")[:, None], grid.axis("boundary")[None, :]
+
+
+def _duct_flow_key(duct, grid, pressure_pa) -> bytes:
+    """The duct's air mass flow at every (driver, boundary) point of ``grid``, as bytes [-]."""
+    return _duct_flow(duct, *_driver_boundary(grid), pressure_pa)[1].tobytes()
+
+
 @dataclass(frozen=True)
 class DuctToDiscEye:
     """Duct air fed into the disc eye and carried through the vane passages (effectiveness-NTU)."""
@@ -195,6 +219,12 @@ class DuctToDiscEye:
     passages: VanePassages
     multiplier: float
     pressure_pa: float
+
+    def table_key(self, grid) -> tuple:
+        """What this path's table on ``grid`` depends on: the passages' geometry, the multiplier,
+        the pressure and the duct's mass flow at every (driver, boundary) point of the grid [-]."""
+        return (replace(self, duct=None, passages=replace(self.passages, ducted=None)),
+                _duct_flow_key(self.duct, grid, self.pressure_pa))
 
     def __call__(self, speed_m_s, surface_k, air_k):
         film = _film(surface_k, air_k)
@@ -212,6 +242,11 @@ class DuctJetOnSurface:
     length_m: float
     multiplier: float
     pressure_pa: float
+
+    def table_key(self, grid) -> tuple:
+        """What this path's table on ``grid`` depends on: the jet's area, length and multiplier, the
+        pressure, the duct's outlet area and its mass flow at every (driver, boundary) point [-]."""
+        return (replace(self, duct=None), self.duct.outlet_area_m2, _duct_flow_key(self.duct, grid, self.pressure_pa))
 
     def __call__(self, speed_m_s, surface_k, air_k):
         film = _film(surface_k, air_k)

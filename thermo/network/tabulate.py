@@ -62,10 +62,31 @@ class TabulatedConductance:
 
     @classmethod
     def build(cls, function: Callable, grid: ConductanceGrid) -> "TabulatedConductance":
-        d, n, b = np.meshgrid(grid.axis("driver"), grid.axis("node"), grid.axis("boundary"), indexing="ij")
+        """Tabulate ``function`` on ``grid``.
+
+        The function is called once on the open grid: the driver axis shaped (n_driver, 1, 1), the
+        node axis (1, n_node, 1) and the boundary axis (1, 1, n_boundary). A function written
+        with numpy's element-wise operations (every convection path is) then works out each
+        intermediate only on the axes it depends on (air properties at the film temperature on
+        node x boundary, an air mass flow on driver x boundary) and the full grid only where
+        all three meet. Each point's value is the same, bit for bit, as on the full mesh grid
+        (tests/corner/test_corner_tables.py checks every convection path of the corner); the
+        result is broadcast to the full grid.
+        """
+        shape = grid.shape
+        d = grid.axis("driver")[:, None, None]
+        n = grid.axis("node")[None, :, None]
+        b = grid.axis("boundary")[None, None, :]
         table = np.asarray(function(d, n, b), dtype=float)
-        if table.shape != d.shape or not np.all(np.isfinite(table)) or np.any(table < 0):
+        try:
+            full = np.broadcast_shapes(table.shape, shape) == shape
+        except ValueError:
+            full = False
+        if not full:
+            raise ModelError("conductance table: the function must give one G per grid point (element-wise on its arguments)")
+        if not np.all(np.isfinite(table)) or np.any(table < 0):     # checked before broadcasting: the same values
             raise ModelError("conductance table: the function must give finite G >= 0 on the whole grid")
+        table = np.ascontiguousarray(table) if table.shape == shape else np.array(np.broadcast_to(table, shape), order="C")
         table.flags.writeable = False
         return cls(function, grid, table)
 
