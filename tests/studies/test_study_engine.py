@@ -12,7 +12,7 @@ from study_cases import DUCT, SHRINK, SMALL
 from thermo.output.errors import OutputError
 from thermo.output.study_file import read_study_hdf5
 from thermo.studies import lanes as lanes_module
-from thermo.studies.engine import StudyError, chunks_of, default_chunk_size, study_executor
+from thermo.studies.engine import MAX_CHUNK, StudyError, chunks_of, default_chunk_size, study_executor
 from thermo.studies.sweep import sweep
 
 VARY = [f"{DUCT}=[4000, 8000, 12000, 18000]"]
@@ -21,7 +21,8 @@ VARY = [f"{DUCT}=[4000, 8000, 12000, 18000]"]
 def test_chunks_cover_every_point_once_in_order():
     todo = list(range(10))
     assert chunks_of(todo, 4) == [[0, 1, 2, 3], [4, 5, 6, 7], [8, 9]]
-    assert default_chunk_size(1000, 2) == 32 and default_chunk_size(8, 2) == 4 and default_chunk_size(9, 2) == 5
+    assert default_chunk_size(1000, 2) == MAX_CHUNK == 64 and default_chunk_size(100, 2) == 50
+    assert default_chunk_size(8, 2) == 4 and default_chunk_size(9, 2) == 5
 
 
 def test_bad_workers_are_refused():
