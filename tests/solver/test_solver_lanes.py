@@ -26,7 +26,7 @@ from thermo.network import Schedule
 from thermo.scenario import load_scenario
 from thermo.solver import kernel, kernel_arrays, kernel_lanes
 from thermo.solver.batch import solve_batch
-from thermo.solver.kernel_arrays import (MIN_LANES, KernelNetwork, kernel_inputs, kernel_network, lane_width,
+from thermo.solver.kernel_arrays import (MIN_LANES, kernel_inputs, kernel_network, lane_width,
                                          scaled)
 from thermo.solver.grids import graded_grid
 
@@ -76,18 +76,6 @@ def varied(lap):
     record[::7] = True
     record[[0, N]] = True
     return dict(kb=kb, T0=T0, record=record, source=source)
-
-
-@pytest.fixture
-def reruns(monkeypatch):
-    """The configuration indices ``_run_lanes`` hands back to the one-configuration kernel (spy on subset)."""
-    calls, original = [], KernelNetwork.subset
-
-    def spy(self, index):
-        calls.append(np.asarray(index, dtype=np.int64).tolist())
-        return original(self, index)
-    monkeypatch.setattr(KernelNetwork, "subset", spy)
-    return calls
 
 
 @pytest.fixture

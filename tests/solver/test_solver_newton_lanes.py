@@ -14,7 +14,7 @@ import numpy as np
 import pytest
 
 from thermo.solver import kernel
-from thermo.solver.kernel_arrays import KernelNetwork, kernel_inputs, scaled
+from thermo.solver.kernel_arrays import kernel_inputs, scaled
 from thermo.solver.kernel_lanes import LANES
 
 from test_solver_lanes import SMALL, _demo_path, corner_lap, falling_table, hot_batch
@@ -25,18 +25,6 @@ RTOL, ATOL_K = 1e-6, 1e-3         # the 'fast' method's defaults (thermo.solver.
 @pytest.fixture(scope="module", params=["small", "demo"])
 def lap(request):
     return dict(corner_lap(SMALL if request.param == "small" else _demo_path()), name=request.param)
-
-
-@pytest.fixture
-def reruns(monkeypatch):
-    """The configurations handed back to the one-configuration kernel (spy on ``subset``)."""
-    calls, original = [], KernelNetwork.subset
-
-    def spy(self, index):
-        calls.append(np.asarray(index, dtype=np.int64).tolist())
-        return original(self, index)
-    monkeypatch.setattr(KernelNetwork, "subset", spy)
-    return calls
 
 
 def varied(lap, B, seed):

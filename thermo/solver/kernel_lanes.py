@@ -248,9 +248,10 @@ def _solve_lanes(A, pos, pinv, order, ptr, nbr, x):
 
 
 @njit(cache=True, error_model="numpy")
-def _chord_lanes(Y, H, tgt, coef, fx, dfa, dfb, R, A, pos, pinv, order, ptr, nbr, n, link_a, link_b):
-    """One chord correction of a stage in every lane (``kernel._linear_stage``)."""
-    W = Y.shape[1]
+def _residual_lanes(H, tgt, coef, fx, n, link_a, link_b, R):
+    """R = -(H(Y) - coef D f(Y) - target) [J] in every lane (``kernel._residual`` negated: IEEE
+    rounding is symmetric, so each entry is the exact negative of the one-configuration value)."""
+    W = R.shape[1]
     for i in range(n):
         for c in range(W):
             R[i, c] = tgt[i, c] - H[i, c]
@@ -262,6 +263,37 @@ def _chord_lanes(Y, H, tgt, coef, fx, dfa, dfb, R, A, pos, pinv, order, ptr, nbr
         if b < n:
             for c in range(W):
                 R[b, c] += coef * fx[l, c]
+
+
+@njit(cache=True, error_model="numpy")
+def _sources_lanes(sb, step, qs_mid, qs_full, q2, q3, e_in, total):
+    """Heat into each node over the first stage and the whole step [J] in every lane (``sb`` (n,
+    n_signals, W)); each lane's step total is added to ``e_in`` as ``kernel._sources`` adds it
+    (``total`` (W,) scratch)."""
+    n, n_sig, W = sb.shape
+    for c in range(W):
+        total[c] = 0.0
+    for i in range(n):
+        for c in range(W):
+            q2[i, c] = 0.0
+            q3[i, c] = 0.0
+        for k in range(n_sig):
+            qm = qs_mid[step, k]
+            qf = qs_full[step, k]
+            for c in range(W):
+                q2[i, c] += sb[i, k, c] * qm
+                q3[i, c] += sb[i, k, c] * qf
+        for c in range(W):
+            total[c] += q3[i, c]
+    for c in range(W):
+        e_in[c] += total[c]
+
+
+@njit(cache=True, error_model="numpy")
+def _chord_lanes(Y, H, tgt, coef, fx, dfa, dfb, R, A, pos, pinv, order, ptr, nbr, n, link_a, link_b):
+    """One chord correction of a stage in every lane (``kernel._linear_stage``)."""
+    W = Y.shape[1]
+    _residual_lanes(H, tgt, coef, fx, n, link_a, link_b, R)
     _solve_lanes(A, pos, pinv, order, ptr, nbr, R)
     for i in range(n):
         for c in range(W):
@@ -304,6 +336,36 @@ def _outputs_lanes(T, w_ptr, w_node, w_val, lp):
 
 
 @njit(cache=True, error_model="numpy")
+def _lane_scratch(n, L, W):
+    """Work arrays of a block run: node arrays (n, W) Y, C, H, H0, R, r1, r2, tgt, q2, q3, pinv;
+    link arrays (L, W) f1, f2, f3, dfa, dfb; and (W,) scratch m, total."""
+    e = lambda: np.empty((n, W))
+    k = lambda: np.empty((L, W))
+    return (e(), e(), e(), e(), e(), e(), e(), e(), np.zeros((n, W)), np.zeros((n, W)), e(),
+            k(), k(), k(), k(), k(), np.empty(W), np.empty(W))
+
+
+@njit(cache=True, error_model="numpy")
+def _accept_step_lanes(hn, f1, f2, f3, le, Y, T, pk, pks, flag, index):
+    """A step's end in every lane: link energies by the scheme's weights, f1 = f3, T = Y (a
+    non-finite state flags its lane), and each node's peak raised, reached at grid step ``index``."""
+    L, W = f1.shape
+    for l in range(L):
+        for c in range(W):
+            le[l, c] += hn * (W_WEIGHT * (f1[l, c] + f2[l, c]) + D_WEIGHT * f3[l, c])
+            f1[l, c] = f3[l, c]
+    for i in range(T.shape[0]):
+        for c in range(W):
+            y = Y[i, c]
+            if not math.isfinite(y):
+                flag[c] = True
+            T[i, c] = y
+            if y > pk[i, c]:
+                pk[i, c] = y
+                pks[i, c] = index
+
+
+@njit(cache=True, error_model="numpy")
 def _advance_block(blk, T0, inputs, net, n_laps, weights, record, out):
     """Block ``blk`` of LANES configurations over the grid ``n_laps`` times (linearised mode)."""
     _, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full = inputs
@@ -315,28 +377,11 @@ def _advance_block(blk, T0, inputs, net, n_laps, weights, record, out):
     W = T0.shape[2]
     L = link_a.size
     N = h.size
-    n_sig = qs_full.shape[1]
     n_out = w_ptr.size - 1
     T = T0[blk].copy()
-    Y = np.empty((n, W))
-    C = np.empty((n, W))
-    H = np.empty((n, W))
-    H0 = np.empty((n, W))
-    R = np.empty((n, W))
-    r1 = np.empty((n, W))
-    r2 = np.empty((n, W))
-    tgt = np.empty((n, W))
+    Y, C, H, H0, R, r1, r2, tgt, q2, q3, pinv, f1, f2, f3, dfa, dfb, m, total = _lane_scratch(n, L, W)
     pos = np.empty((n, n), dtype=np.int64)
     A = np.empty((_pattern(n, order, ptr, nbr, pos), W))
-    pinv = np.empty((n, W))
-    m = np.empty(W)
-    f1 = np.empty((L, W))
-    f2 = np.empty((L, W))
-    f3 = np.empty((L, W))
-    dfa = np.empty((L, W))
-    dfb = np.empty((L, W))
-    q2 = np.zeros((n, W))
-    q3 = np.zeros((n, W))
     lp = np.empty((max(n_out, 1), W))
     flag = lane_flag[blk]
     sb = net.src[blk]
@@ -363,18 +408,7 @@ def _advance_block(blk, T0, inputs, net, n_laps, weights, record, out):
             hw = hn * W_WEIGHT
             _capacity_lanes(T, cap, href, C, H0, True)
             _net_inflow_lanes(f1, n, link_a, link_b, r1)
-            for i in range(n):
-                for c in range(W):
-                    q2[i, c] = 0.0
-                    q3[i, c] = 0.0
-                for k in range(n_sig):
-                    qm = qs_mid[step, k]
-                    qf = qs_full[step, k]
-                    for c in range(W):
-                        q2[i, c] += sb[i, k, c] * qm
-                        q3[i, c] += sb[i, k, c] * qf
-                for c in range(W):
-                    e_in[c] += q3[i, c]
+            _sources_lanes(sb, step, qs_mid, qs_full, q2, q3, e_in, total)
             _factor_lanes(A, pos, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, pinv, m, flag)
             # stage 1 (TR) from Y = T_n, whose enthalpy is H0
             for i in range(n):
@@ -393,19 +427,7 @@ def _advance_block(blk, T0, inputs, net, n_laps, weights, record, out):
             _chord_lanes(Y, H, tgt, coef, f3, dfa, dfb, R, A, pos, pinv, order, ptr, nbr, n, link_a, link_b)
             _capacity_lanes(Y, cap, href, C, H, False)
             _chord_lanes(Y, H, tgt, coef, f3, dfa, dfb, R, A, pos, pinv, order, ptr, nbr, n, link_a, link_b)
-            for l in range(L):
-                for c in range(W):
-                    le[l, c] += hn * (W_WEIGHT * (f1[l, c] + f2[l, c]) + D_WEIGHT * f3[l, c])
-                    f1[l, c] = f3[l, c]
-            for i in range(n):
-                for c in range(W):
-                    y = Y[i, c]
-                    if not math.isfinite(y):
-                        flag[c] = True
-                    T[i, c] = y
-                    if y > pk[i, c]:
-                        pk[i, c] = y
-                        pks[i, c] = done + step + 1
+            _accept_step_lanes(hn, f1, f2, f3, le, Y, T, pk, pks, flag, done + step + 1)
             _outputs_lanes(T, w_ptr, w_node, w_val, lp)
             if last and record[step + 1]:
                 temps_out[blk, rec] = T

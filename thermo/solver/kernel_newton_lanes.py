@@ -36,8 +36,9 @@ import numpy as np
 from numba import njit, prange
 
 from thermo.solver.kernel import D_WEIGHT, NEWTON_TOLERANCE, REFACTOR_AFTER, W_WEIGHT, _configuration
-from thermo.solver.kernel_lanes import (_capacity_lanes, _factor_lanes, _flows_lanes, _net_inflow_lanes, _pattern,
-                                        _reference_ramps, _solve_lanes)
+from thermo.solver.kernel_lanes import (_capacity_lanes, _factor_lanes, _flows_lanes, _net_inflow_lanes, _lane_scratch,
+                                        _pattern, _reference_ramps, _residual_lanes, _solve_lanes, _sources_lanes,
+                                        _accept_step_lanes)
 
 # what a block run writes (shapes in the module notes)
 NewtonLaneOutputs = namedtuple("NewtonLaneOutputs", ("temps", "flows", "final", "peak", "peak_step", "link_energy",
@@ -53,24 +54,6 @@ def _keep_iterating(fs, dfas, dfbs, fx, dfa, dfb, active):
                 fx[l, c] = fs[l, c]
                 dfa[l, c] = dfas[l, c]
                 dfb[l, c] = dfbs[l, c]
-
-
-@njit(cache=True, error_model="numpy")
-def _newton_residual(H, tgt, coef, fx, n, link_a, link_b, R):
-    """R = -(H(Y) - coef D f(Y) - target) [J] in every lane (``kernel._residual`` negated: IEEE
-    rounding is symmetric, so each entry is the exact negative of the one-configuration value)."""
-    W = R.shape[1]
-    for i in range(n):
-        for c in range(W):
-            R[i, c] = tgt[i, c] - H[i, c]
-    for l in range(link_a.size):
-        a = link_a[l]
-        b = link_b[l]
-        for c in range(W):
-            R[a, c] -= coef * fx[l, c]
-        if b < n:
-            for c in range(W):
-                R[b, c] += coef * fx[l, c]
 
 
 @njit(cache=True, error_model="numpy")
@@ -94,30 +77,13 @@ def _advance_block(blk, T0, inputs, net, rtol, atol, max_newton, record, out):
     W = T0.shape[2]
     L = link_a.size
     N = h.size
-    n_sig = qs_full.shape[1]
     T = T0[blk].copy()
-    Y = np.empty((n, W))
-    C = np.empty((n, W))
-    H = np.empty((n, W))
-    H0 = np.empty((n, W))
-    R = np.empty((n, W))
-    r1 = np.empty((n, W))
-    r2 = np.empty((n, W))
-    tgt = np.empty((n, W))
-    q2 = np.zeros((n, W))
-    q3 = np.zeros((n, W))
+    Y, C, H, H0, R, r1, r2, tgt, q2, q3, pinv, f1, f2, f3, dfa, dfb, m, total = _lane_scratch(n, L, W)
     pos = np.empty((n, n), dtype=np.int64)
     slots = _pattern(n, order, ptr, nbr, pos)
     A = np.empty((slots, W))
     A_new = np.empty((slots, W))
-    pinv = np.empty((n, W))
     pinv_new = np.empty((n, W))
-    m = np.empty(W)
-    f1 = np.empty((L, W))
-    f2 = np.empty((L, W))
-    f3 = np.empty((L, W))
-    dfa = np.empty((L, W))
-    dfb = np.empty((L, W))
     fs = np.empty((L, W))
     dfas = np.empty((L, W))
     dfbs = np.empty((L, W))
@@ -127,7 +93,6 @@ def _advance_block(blk, T0, inputs, net, rtol, atol, max_newton, record, out):
     active = np.zeros(W, dtype=np.bool_)         # still iterating this stage
     refactor = np.zeros(W, dtype=np.bool_)       # the stage matrix is due to be refactored
     worst = np.empty(W)
-    total = np.empty(W)
     nf = np.ones(W, dtype=np.int64)
     nj = np.zeros(W, dtype=np.int64)
     e_in = np.zeros(W)
@@ -150,21 +115,7 @@ def _advance_block(blk, T0, inputs, net, rtol, atol, max_newton, record, out):
         coef = hn * D_WEIGHT
         _capacity_lanes(T, cap, href, C, H0, True)
         _net_inflow_lanes(f1, n, link_a, link_b, r1)
-        total[:] = 0.0
-        for i in range(n):
-            for c in range(W):
-                q2[i, c] = 0.0
-                q3[i, c] = 0.0
-            for k in range(n_sig):
-                qm = qs_mid[step, k]
-                qf = qs_full[step, k]
-                for c in range(W):
-                    q2[i, c] += sb[i, k, c] * qm
-                    q3[i, c] += sb[i, k, c] * qf
-            for c in range(W):
-                total[c] += q3[i, c]
-        for c in range(W):
-            e_in[c] += total[c]
+        _sources_lanes(sb, step, qs_mid, qs_full, q2, q3, e_in, total)
         # the stage matrix at T_n (its slopes are those of each lane's last flow evaluation)
         _factor_lanes(A, pos, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, pinv, m, flag)
         for c in range(W):
@@ -209,7 +160,7 @@ def _advance_block(blk, T0, inputs, net, rtol, atol, max_newton, record, out):
                     _keep_iterating(fs, dfas, dfbs, fx, dfa, dfb, active)
                 # C only where a matrix is refactored (the one-configuration kernel's C is read only there)
                 _capacity_lanes(Y, cap, href, C, H, due)
-                _newton_residual(H, tgt, coef, fx, n, link_a, link_b, R)
+                _residual_lanes(H, tgt, coef, fx, n, link_a, link_b, R)
                 if due:
                     weak[:] = False
                     _factor_lanes(A_new, pos, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, pinv_new, m,
@@ -251,19 +202,7 @@ def _advance_block(blk, T0, inputs, net, rtol, atol, max_newton, record, out):
             for c in range(W):
                 if active[c]:
                     flag[c] = True        # Newton did not converge: the one-configuration kernel reports it
-        for l in range(L):
-            for c in range(W):
-                le[l, c] += hn * (W_WEIGHT * (f1[l, c] + f2[l, c]) + D_WEIGHT * f3[l, c])
-                f1[l, c] = f3[l, c]
-        for i in range(n):
-            for c in range(W):
-                y = Y[i, c]
-                if not math.isfinite(y):
-                    flag[c] = True
-                T[i, c] = y
-                if y > pk[i, c]:
-                    pk[i, c] = y
-                    pks[i, c] = step + 1
+        _accept_step_lanes(hn, f1, f2, f3, le, Y, T, pk, pks, flag, step + 1)
         if record[step + 1]:
             temps_out[blk, rec] = T
             flows_out[blk, rec] = f1
