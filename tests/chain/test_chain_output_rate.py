@@ -18,6 +18,20 @@ def test_stored_rows_keep_the_ends_the_extremes_and_one_row_a_step():
     assert np.array_equal(stored_rows(t, out, 0.0), np.arange(t.size))
 
 
+def test_a_segment_that_continues_keeps_the_extremes_of_the_rows_after_its_first():
+    # the first row repeats the last one stored, or (after a pad change or wear) holds the pad's new
+    # state at that instant: it is not stored, and the extremes kept are those of the rows after it,
+    # so a node cooling from a reset keeps its highest later value however thin the series
+    t = np.arange(0.0, 10.0, 0.05)
+    falling = np.column_stack([10.0 - t, t])                # its maximum at the first row
+    rows = stored_rows(t, falling, 4.0, continues=True)
+    assert rows[0] == 1 and rows[-1] == t.size - 1
+    assert falling[rows, 0].max() == falling[1:, 0].max()
+    assert falling[rows, 1].min() == falling[1:, 1].min()
+    assert 0 not in stored_rows(t, falling, 0.0, continues=True)
+    assert np.array_equal(stored_rows(t[:2], falling[:2], 4.0, continues=True), [1])
+
+
 def test_a_thinned_run_has_the_same_peaks_checks_and_laps():
     short_run = solve_one(small_scenario(SHORT_PLAN, NO_WEAR), method="LSODA")
     thin = solve_one(small_scenario(SHORT_PLAN, NO_WEAR + [("solver.output_hz", 0.5)]), method="LSODA")

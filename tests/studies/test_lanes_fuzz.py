@@ -8,7 +8,6 @@ from __future__ import annotations
 from pathlib import Path
 
 import numpy as np
-import pytest
 from test_lanes import _assert_same_points
 
 import thermo.studies.points as points_module
@@ -138,15 +137,15 @@ def _assert_bit_exact(job, chunk):
     return dropped
 
 
-@pytest.mark.xfail(strict=True, reason="after a pad change the lanes count the segment's first row (the new pad at "
-                                       "ambient) in the peaks, the run alone drops it")
 def test_a_new_pad_at_a_risen_ambient_side_by_side_equals_it_alone():
     """Found by the full-precision campaign: the ambient rising along a profile (0.5 to 30 degC over
     0.2 h) and a 60 mm pad that keeps the backing plate below the air; at the stint's pit stop the
     pad is changed and the new pad and backing plate start at the ambient (278.0 K). Side by side
     the backing plate's peak is that state, 277.9708 K at the stop's first instant; alone
     (``CornerRun``) the segment's first row is dropped as a repeat of the previous end (276.69 K),
-    so its peak is 277.9208 K a step later: 0.05 K apart, and the rounded points differ too."""
+    so its peak is 277.9208 K a step later: 0.05 K apart, and the rounded points differed too. The
+    lanes now count a segment's rows as the run stores them (its first row only in the first
+    segment)."""
     short = (("plan.phases.1.count", 1), ("plan.phases.4.count", 1), ("plan.phases.5.duration_s", 60.0),
              ("ambient.temperature_profile_h_c", [[0.0, 0.5], [0.2, 30.0], [2.0, 44.0]]),
              ("corners.front.pad.minimum_thickness_mm", 0.0))

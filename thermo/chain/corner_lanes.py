@@ -150,6 +150,7 @@ class CornerLanes:
         self.T = np.array([np.full(self.net.n_nodes, float(s.ambient.temperature_at(0.0))) for s in self.scenarios])
         self.peaks_k = np.full((len(nets), n_out), -np.inf)
         self.peak_time_s = np.zeros((len(nets), n_out))
+        self.segments_done = 0
         self.back = self.net.node_names.index("backing_plate")
 
     @property
@@ -184,6 +185,7 @@ class CornerLanes:
         energy = float(np.trapezoid(duty.disc_heat_w + duty.pad_heat_w, duty.time_s))
         weight = np.interp(out_t, schedule.time_s, duty.pad_heat_w)
         live = self.live
+        first = 1 if self.segments_done else 0
         shapes: dict[bytes, list[int]] = {}
         for b in live:
             shapes.setdefault(self.link_a[b].tobytes(), []).append(int(b))
@@ -202,12 +204,17 @@ class CornerLanes:
                     self.failed.add(b)
                     continue
                 out = temps @ self.weights[b].T
-                top = np.argmax(out, axis=0)
-                higher = out[top, np.arange(out.shape[1])] > self.peaks_k[b]
-                self.peaks_k[b, higher] = out[top[higher], np.flatnonzero(higher)]
-                self.peak_time_s[b, higher] = out_t[top[higher]]
+                # as ``CornerRun`` stores them: a segment after the first starts at the row the last
+                # one ended on, so its first row is not counted (after a pad change or wear it holds
+                # the pad's new state at the same instant, which the run's series do not keep either)
+                kept = out[first:]
+                top = np.argmax(kept, axis=0)
+                higher = kept[top, np.arange(kept.shape[1])] > self.peaks_k[b]
+                self.peaks_k[b, higher] = kept[top[higher], np.flatnonzero(higher)]
+                self.peak_time_s[b, higher] = out_t[first:][top[higher]]
                 self.T[b] = res.final[j]
                 self._wear(b, segment, out, weight, energy)
+        self.segments_done += 1
 
     def _solve(self, kn, inputs, T0: np.ndarray, record: np.ndarray):
         """One segment for the configurations of ``kn`` side by side in lanes, in the scheme the

@@ -176,7 +176,7 @@ class CornerRun:
         self.clock.check(f"corner {design.name}, {phase_name}")
         model = self.model
         out = model.outputs(sol.temperatures_k)
-        keep = stored_rows(sol.time_s, out, self.interval_s)[1 if self.times else 0:]
+        keep = stored_rows(sol.time_s, out, self.interval_s, continues=bool(self.times))
         self.times.append(sol.time_s[keep])
         self.temps.append(out[keep])
         local = sol.time_s[keep] - segment.t_start_s
@@ -263,21 +263,27 @@ class CornerRun:
             brake_power_w=np.concatenate(self.powers))
 
 
-def stored_rows(time_s: np.ndarray, outputs: np.ndarray, interval_s: float) -> np.ndarray:
+def stored_rows(time_s: np.ndarray, outputs: np.ndarray, interval_s: float, continues: bool = False) -> np.ndarray:
     """Indices of the rows of one segment to store: all of them (``interval_s`` 0), else the first
     row at or after each ``interval_s`` step, the segment's ends, and every row where an output
     node reaches its maximum or minimum in the segment, so that thinning the stored series never
-    moves a peak, a margin or a lap's extremes."""
+    moves a peak, a margin or a lap's extremes.
+
+    ``continues``: the segment follows one already stored, whose last row is at this one's first
+    instant, so the first row is not stored again, and the extremes are those of the rows after it
+    (after a pad change or wear the first row holds the pad's new state at that same instant,
+    which the series do not keep; the peak of what follows must not be thinned away)."""
     n = len(time_s)
+    skip = 1 if continues else 0
     if interval_s <= 0 or n <= 2:
-        return np.arange(n)
+        return np.arange(skip, n)
     slot = np.floor(np.asarray(time_s) / interval_s + 1e-9)
     keep = np.zeros(n, dtype=bool)
     keep[0] = keep[-1] = True
     keep[1:] |= slot[1:] != slot[:-1]
-    keep[np.argmax(outputs, axis=0)] = True
-    keep[np.argmin(outputs, axis=0)] = True
-    return np.flatnonzero(keep)
+    keep[skip + np.argmax(outputs[skip:], axis=0)] = True
+    keep[skip + np.argmin(outputs[skip:], axis=0)] = True
+    return np.flatnonzero(keep[skip:]) + skip
 
 
 def worn_pad_profile(old_dx_m: np.ndarray, old_t_k: np.ndarray, new_dx_m: np.ndarray) -> np.ndarray:
