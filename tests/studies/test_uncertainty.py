@@ -159,6 +159,30 @@ def test_the_uncertainty_json_contract(known):
     bearing = next(s for s in data["sensitivity"] if s["corner"] == "front" and s["check"] == "bearing_grease")
     # the margin is limit - peak with the peak fixed: its ranks are the limit's ranks (rho = 1)
     assert bearing["inputs"][0]["rank_correlation"] == pytest.approx(1.0)
+    assert bearing["inputs"][0]["p_value"] < 1e-6 and bearing["inputs"][0]["within_noise"] is False
     fluid = next(s for s in data["sensitivity"] if s["corner"] == "front" and s["check"] == "fluid_boiling_dry")
     assert fluid["inputs"][0]["rank_correlation"] is None            # the bearing limit does not move it
+    assert fluid["inputs"][0]["p_value"] is None and fluid["inputs"][0]["within_noise"] is None
     assert not math.isnan(data["checks"][0]["p_exceed"])
+
+
+def test_a_rank_correlation_within_sampling_noise_is_marked():
+    from thermo.studies.uncertainty import _rank_correlation
+    rng = np.random.default_rng(11)
+    x = rng.uniform(0.0, 1.0, 48)
+    moved = 3.0 * x + rng.normal(0.0, 0.3, 48)                  # the margin follows the input
+    unmoved = rng.normal(0.0, 1.0, 48)                           # the margin ignores it
+    for y in (moved, unmoved):
+        got = _rank_correlation(x, y)
+        # the p-value of Spearman's rho from the t distribution with n - 2 degrees of freedom,
+        # t = r sqrt((n - 2) / (1 - r^2)) (J. H. Zar, Biostatistical Analysis, 5th ed., 2010, sec. 19.9;
+        # from memory), the rho itself from the ranks' Pearson correlation
+        r = stats.pearsonr(stats.rankdata(x), stats.rankdata(y)).statistic
+        t = r * math.sqrt((x.size - 2) / (1.0 - r * r))
+        p = 2.0 * stats.t.sf(abs(t), x.size - 2)
+        assert got["rank_correlation"] == pytest.approx(r, abs=1e-4)
+        assert got["p_value"] == pytest.approx(p, rel=1e-2)
+        assert got["within_noise"] is bool(p >= 0.05)
+    assert _rank_correlation(x, moved)["within_noise"] is False
+    assert _rank_correlation(x, unmoved)["within_noise"] is True
+    assert abs(_rank_correlation(x, unmoved)["rank_correlation"]) > 0.0

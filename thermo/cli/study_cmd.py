@@ -273,10 +273,11 @@ def format_uncertainty(data: dict) -> str:
     for inp in data["inputs"]:
         params = ", ".join(f"{k} {inp[k]:g}" for k in ("mean", "std", "low", "mode", "high", "median", "sigma") if k in inp)
         lines.append(f"  {printable(inp['name'])}: {inp['distribution']} ({params}) -> {', '.join(inp['keys'])}")
-    lines += ["", "What drives each margin (Spearman rank correlation with the margin; above 0: more of the input, more margin):"]
+    lines += ["", "What drives each margin (Spearman rank correlation with the margin; above 0: more of the input, "
+              "more margin; '~' within sampling noise, p >= 0.05):"]
     for s in data["sensitivity"]:
-        top = ", ".join(f"{printable(d['input'])} {d['rank_correlation']:+.2f}" for d in s["inputs"][:3]
-                        if d["rank_correlation"] is not None)
+        top = ", ".join(f"{printable(d['input'])} {d['rank_correlation']:+.2f}{' ~' if d.get('within_noise') else ''}"
+                        for d in s["inputs"][:3] if d["rank_correlation"] is not None)
         lines.append(f"  {s['corner']} {s['check']}: {top or 'no input moves it'}")
     if data["samples_failed"]:
         lines += ["", f"{data['samples_failed']} sample(s) failed (their scenario could not be run) and are left out."]

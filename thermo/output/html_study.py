@@ -67,11 +67,13 @@ def uncertainty_html(data: dict, record, *, generated=None, plots: bool = True) 
             for i in data["inputs"]]
     parts += ["<h2>Inputs</h2>", html_table(["input", "distribution", "parameters", "truncated to", "keys"], rows)]
     rows = [[s["corner"], s["check"], *(
-        "; ".join(f"{d['input']} {d['rank_correlation']:+.2f}" for d in s["inputs"] if d["rank_correlation"] is not None)
+        "; ".join(f"{d['input']} {d['rank_correlation']:+.2f}{' (within noise)' if d.get('within_noise') else ''}"
+                  for d in s["inputs"] if d["rank_correlation"] is not None)
         or "no input moves it",)] for s in data["sensitivity"]]
     parts += ["<h2>What drives each margin</h2>",
               "<p>Spearman's rank correlation of each input with the margin, largest first (above 0: more of the "
-              "input, more margin).</p>", html_table(["corner", "check", "inputs"], rows)]
+              "input, more margin); within noise: its p-value against no correlation is 0.05 or more, so the "
+              "samples do not show that the input moves the margin.</p>", html_table(["corner", "check", "inputs"], rows)]
     if plots and data["checks"]:
         from thermo.output.plots import svg_text
         from thermo.output.study_outputs import uncertainty_peaks_figure, uncertainty_tornado_figure

@@ -227,14 +227,18 @@ def uncertainty_tornado_figure(stats: dict, corner: str):
     for s, axes in zip(entries, panels):
         inputs = list(reversed(s["inputs"]))
         rho = [d["rank_correlation"] or 0.0 for d in inputs]
-        bars = axes.barh(range(len(inputs)), rho, color=["#0072B2" if r >= 0 else "#D55E00" for r in rho])
-        axes.bar_label(bars, labels=[f"{r:+.2f}" for r in rho], fontsize="xx-small", padding=2)
+        noise = [bool(d.get("within_noise")) for d in inputs]
+        colours = ["#BBBBBB" if q else "#0072B2" if r >= 0 else "#D55E00" for r, q in zip(rho, noise)]
+        bars = axes.barh(range(len(inputs)), rho, color=colours)
+        axes.bar_label(bars, labels=[f"{r:+.2f}" + (" ~" if q else "") for r, q in zip(rho, noise)],
+                       fontsize="xx-small", padding=2)
         axes.set_yticks(range(len(inputs)), [d["input"] for d in inputs], fontsize="x-small")
         axes.set_xlim(-1.15, 1.15)
         axes.axvline(0.0, color="black", linewidth=0.8)
         axes.set_title(s["check"].replace("_", " "), fontsize="small")
         axes.set_xlabel("rank correlation with the margin [-] (above 0: more margin)", fontsize="x-small")
-    figure.suptitle(f"{corner}: what drives each margin (Spearman rank correlation over the samples)")
+    figure.suptitle(f"{corner}: what drives each margin (Spearman rank correlation over the samples; "
+                    "grey, ~: within sampling noise, p >= 0.05)")
     return figure
 
 

@@ -29,7 +29,9 @@ The statistics
   Sobol samples are not (they are spread more evenly), so for a smooth margin it errs wide.
 - ``margin_k_percentiles`` and ``peak_c_percentiles`` at 5, 50 and 95 %; a histogram of each peak.
 - ``sensitivity``: Spearman's rank correlation of each input with each check's margin (which
-  inputs drive the margin, and in which direction), shown as a tornado plot.
+  inputs drive the margin, and in which direction), shown as a tornado plot, with its p-value
+  against no correlation; a correlation with p >= 0.05 is marked as within sampling noise (with
+  few samples an input that moves nothing still shows a correlation of a few tenths).
 """
 from __future__ import annotations
 
@@ -283,12 +285,21 @@ def _input_columns(plan: UncertaintyPlan, points: list) -> np.ndarray:
     return np.array([[p["values"][inp.keys[0]] for inp in plan.inputs] for p in points], dtype=float)
 
 
-def _rank_correlation(x: np.ndarray, y: np.ndarray) -> float | None:
-    """Spearman's rho of x and y (scipy.stats.spearmanr); None where either does not vary."""
+NOISE_P = 0.05      # a rank correlation whose p-value is at least this is within sampling noise
+
+
+def _rank_correlation(x: np.ndarray, y: np.ndarray) -> dict:
+    """Spearman's rho of x and y and its two-sided p-value against no correlation
+    (scipy.stats.spearmanr: the t distribution with n - 2 degrees of freedom, which treats the
+    samples as independent draws), and whether it is within sampling noise (p >= ``NOISE_P``);
+    None for all three where either does not vary."""
     from scipy.stats import spearmanr
     if np.ptp(x) == 0 or np.ptp(y) == 0:
-        return None
-    return round(float(spearmanr(x, y).statistic), 4)
+        return {"rank_correlation": None, "p_value": None, "within_noise": None}
+    result = spearmanr(x, y)
+    p = float(result.pvalue)
+    return {"rank_correlation": round(float(result.statistic), 4), "p_value": float(f"{p:.3g}"),
+            "within_noise": bool(p >= NOISE_P)}
 
 
 def check_samples(points: list) -> dict:
@@ -309,7 +320,8 @@ def uncertainty_dict(plan: UncertaintyPlan, record) -> dict:
     """JSON-ready, as ``uncertainty --json`` prints it: scenario, caution, samples, seed, inputs,
     headline (each corner's probability that the fluid boils), checks (per corner and check:
     p_exceed, p_exceed_ci, p_caution, p_caution_ci, margin and peak percentiles, peak histogram),
-    sensitivity (per corner and check, each input's rank correlation with the margin)."""
+    sensitivity (per corner and check, each input's rank correlation with the margin, its p-value
+    and whether it is within sampling noise)."""
     import thermo
     done = [p for p in record.points if p is not None and "error" not in p]
     failed = sum(1 for p in record.points if p is not None and "error" in p)
@@ -338,8 +350,7 @@ def uncertainty_dict(plan: UncertaintyPlan, record) -> dict:
         if check == HEADLINE_CHECK:
             out["headline"].append({"corner": corner, "check": check, "p_exceed": entry["p_exceed"],
                                     "p_exceed_ci": entry["p_exceed_ci"], "p_caution": entry["p_caution"]})
-        drivers = [{"input": inp.name, "rank_correlation": _rank_correlation(x[:, j], margin)}
-                   for j, inp in enumerate(plan.inputs)]
+        drivers = [{"input": inp.name, **_rank_correlation(x[:, j], margin)} for j, inp in enumerate(plan.inputs)]
         drivers.sort(key=lambda d: -abs(d["rank_correlation"] or 0.0))
         out["sensitivity"].append({"corner": corner, "check": check, "inputs": drivers})
     return out
