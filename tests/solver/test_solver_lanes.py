@@ -328,17 +328,18 @@ def falling_table(kn, slot, g_hi, g_lo, t_drop_k):
     return np.broadcast_to(g[None, :, None], (nd, nn, nb)).copy()
 
 
-def test_a_weak_pivot_lane_is_rerun_and_equals_its_own_run(lap, reruns):
-    inputs, W, N, net = lap["inputs"], lap["W"], lap["grid"].size - 1, lap["net"]
-    kn = lap["kn"]
+def weak_pivot_batch(lap, count, weak):
+    """``count`` configurations of the lap's corner, configuration ``weak`` with a thin backing plate
+    whose convection falls as it heats, started inside the falling cell: (batch, start state, the
+    plate's node, its convection link, that link's slot)."""
+    net, kn = lap["net"], lap["kn"]
     node, link = net.node_names.index("backing_plate"), net.link_names.index("backing_plate_convection")
     slot = int(kn.conv_slot[link])
     assert slot >= 0 and kn.link_a[link] == node and kn.link_b[link] >= net.n_nodes
     rng = np.random.default_rng(3)
-    cs = np.ones((8, kn.n_nodes))
-    weak = 3
+    cs = np.ones((count, kn.n_nodes))
     cs[weak, node] = 0.02                       # a thin plate: its heat capacity no longer dominates the pivot
-    ls = rng.uniform(0.8, 1.2, (8, kn.link_a.size))
+    ls = rng.uniform(0.8, 1.2, (count, kn.link_a.size))
     ls[weak] = 1.0
     kb = scaled(kn, link_scale=ls, capacity_scale=cs)
     # G from 100 to 60 W/K over 400-410 K: with the thin plate the pivot stays positive but under half of C
@@ -346,8 +347,15 @@ def test_a_weak_pivot_lane_is_rerun_and_equals_its_own_run(lap, reruns):
     tix = kb.tix.copy()
     tix[weak, slot] = tables.shape[0] - 1
     kb = replace(kb, tables=tables, tix=tix)
-    T0 = np.full((8, kn.n_nodes), lap["ambient"]) + rng.uniform(0.0, 20.0, (8, 1))
+    T0 = np.full((count, kn.n_nodes), lap["ambient"]) + rng.uniform(0.0, 20.0, (count, 1))
     T0[weak, node] = 405.0                      # inside the falling cell: G + dG/dT (T - T_air) < 0
+    return kb, T0, node, link, slot
+
+
+def test_a_weak_pivot_lane_is_rerun_and_equals_its_own_run(lap, reruns):
+    inputs, W, N = lap["inputs"], lap["W"], lap["grid"].size - 1
+    weak = 3
+    kb, T0, node, link, slot = weak_pivot_batch(lap, 8, weak)
     # the construction does what it says: at the first step the sparse elimination meets a weak pivot
     # and the dense pivoted LU does not (the kernel's own factorisations, thermo.solver.kernel)
     one = kb.subset([weak])

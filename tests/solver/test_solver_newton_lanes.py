@@ -17,7 +17,7 @@ from thermo.solver import kernel
 from thermo.solver.kernel_arrays import kernel_inputs, scaled
 from thermo.solver.kernel_lanes import LANES
 
-from test_solver_lanes import SMALL, _demo_path, corner_lap, falling_table, hot_batch
+from test_solver_lanes import SMALL, _demo_path, corner_lap, hot_batch, weak_pivot_batch
 
 RTOL, ATOL_K = 1e-6, 1e-3         # the 'fast' method's defaults (thermo.solver.settings)
 
@@ -148,22 +148,9 @@ def test_a_weak_pivot_lane_is_rerun_and_equals_its_own_run(lap, reruns):
     # the construction of tests/solver/test_solver_lanes.py: a thin backing plate whose convection
     # falls as it heats, so the sparse elimination meets a weak pivot and only the one-configuration
     # kernel's dense pivoted LU carries it
-    inputs, N, net, kn = lap["inputs"], lap["grid"].size - 1, lap["net"], lap["kn"]
-    node, link = net.node_names.index("backing_plate"), net.link_names.index("backing_plate_convection")
-    slot = int(kn.conv_slot[link])
-    rng = np.random.default_rng(3)
-    cs = np.ones((6, kn.n_nodes))
+    inputs, N = lap["inputs"], lap["grid"].size - 1
     weak = 2
-    cs[weak, node] = 0.02
-    ls = rng.uniform(0.8, 1.2, (6, kn.link_a.size))
-    ls[weak] = 1.0
-    kb = scaled(kn, link_scale=ls, capacity_scale=cs)
-    tables = np.ascontiguousarray(np.concatenate([kb.tables, falling_table(kb, slot, 100.0, 60.0, 400.0)[None]]))
-    tix = kb.tix.copy()
-    tix[weak, slot] = tables.shape[0] - 1
-    kb = replace(kb, tables=tables, tix=tix)
-    T0 = np.full((6, kn.n_nodes), lap["ambient"]) + rng.uniform(0.0, 20.0, (6, 1))
-    T0[weak, node] = 405.0
+    kb, T0, _, _, _ = weak_pivot_batch(lap, 6, weak)
     record = record_every(N, 9)
     own = [alone(kb, inputs, T0, b, record) for b in range(6)]
     assert own[weak].status[0] == kernel.STATUS_OK, "the dense fallback carries it through"
