@@ -36,9 +36,9 @@ import numpy as np
 from numba import njit, prange
 
 from thermo.solver.kernel import D_WEIGHT, NEWTON_TOLERANCE, REFACTOR_AFTER, W_WEIGHT, _configuration
-from thermo.solver.kernel_lanes import (_capacity_lanes, _factor_lanes, _flows_lanes, _net_inflow_lanes, _lane_scratch,
-                                        _pattern, _reference_ramps, _residual_lanes, _solve_lanes, _sources_lanes,
-                                        _accept_step_lanes)
+from thermo.solver.kernel_lanes import (_accept_step_lanes, _capacity_lanes, _factor_lanes, _flows_lanes,
+                                        _lane_scratch, _net_inflow_lanes, _pattern, _reference_ramps, _residual_lanes,
+                                        _solve_lanes, _sources_lanes)
 
 # what a block run writes (shapes in the module notes)
 NewtonLaneOutputs = namedtuple("NewtonLaneOutputs", ("temps", "flows", "final", "peak", "peak_step", "link_energy",
