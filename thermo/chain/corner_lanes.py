@@ -28,12 +28,11 @@ from thermo.chain.corner_run import (
     MIN_PAD_THICKNESS_M, SegmentDuty, _wear_factor, conductance_grid, segment_schedule, worn_pad_profile,
 )
 from thermo.chain.guards import STATE_MAX_K, STATE_MIN_K
+from thermo.chain.pad_rows import PadRows
 from thermo.chain.plan import PlanSegment
 from thermo.chain.setup import corner_setup
-from thermo.corner.build import (
-    SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT, corner_materials, disc_face_resistance, disc_layers, pad_layers,
-)
-from thermo.corner.pad_terms import PadTerms, pad_layer_link, pad_output_weights, pad_terms
+from thermo.corner.build import corner_materials, disc_face_resistance, disc_layers, pad_layers
+from thermo.corner.pad_terms import pad_terms
 from thermo.solver import kernel
 from thermo.solver.fast import step_grid
 from thermo.solver.kernel_arrays import (
@@ -42,60 +41,12 @@ from thermo.solver.kernel_arrays import (
 )
 from thermo.solver.settings import SolverSettings
 
-EDGE_LINKS = ("pad_edge_convection", "pad_edge_radiation")
-
-
 def corner_shape(net) -> tuple:
     """What configurations side by side must share: nodes, links and their second ends, kinds,
     drivers, signals, capacity segments and the table grid (the edges' first end may differ)."""
     return (net.node_names, net.boundary_names, net.link_names, tuple(map(type, net.network.links)), tuple(net.link_b),
             net.driver_names, tuple(net.conv_driver_index) if net.conv_idx.size else (), net.source_signals,
             tuple(net.capacities.seg_node), net.conv_grid if net.conv_idx.size else None)
-
-
-class _PadRows:
-    """Where a corner's pad-dependent values sit in the kernel's rows (one map for every configuration)."""
-
-    def __init__(self, net, model):
-        links, nodes = net.link_names, net.node_names
-        self.pads = np.array([nodes.index(n) for n in model.pad_nodes])
-        self.between = np.array([links.index(pad_layer_link(model.pad_nodes, i)) for i in range(len(self.pads) - 1)],
-                                dtype=np.int64)
-        self.to_backing = links.index("pad_to_backing_plate")
-        self.edges = [links.index(name) for name in EDGE_LINKS]
-        self.rest = links.index("pad_disc_interface")
-        self.clamped = links.index("pad_disc_interface_clamped") if "pad_disc_interface_clamped" in links else None
-        self.face, self.pad_face = nodes.index(model.disc_face_node), int(self.pads[0])
-        signals = net.source_signals
-        self.disc_signal, self.pad_signal = signals.index(SIGNAL_DISC_HEAT), signals.index(SIGNAL_PAD_HEAT)
-        sources = {(s.node, s.signal) for s in model.network.sources}
-        expected = {(n, sig) for n in (model.disc_face_node, model.pad_nodes[0]) for sig in (SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT)}
-        if self.clamped is not None and sources != expected:
-            raise ValueError("corner lanes: the friction heat's sources are not the interface split")
-        outputs = model.output_nodes
-        self.out_pad = outputs.index("pad")
-        self.out_pad_surface = outputs.index("pad_surface") if "pad_surface" in outputs else None
-
-    def write(self, rows: dict, link_a: np.ndarray, weights: np.ndarray, b: int, terms: PadTerms) -> None:
-        """Configuration ``b``'s rows, the edges' first end and its output weights for ``terms``."""
-        par = rows["par"]
-        par[b, self.between] = terms.between_layers_w_k
-        par[b, self.to_backing] = terms.to_backing_w_k
-        par[b, self.edges[0]] = terms.edge_convection_scale
-        par[b, self.edges[1]] = terms.edge_radiation_w_k4
-        par[b, self.rest] = terms.rest_w_k
-        if self.clamped is not None:
-            par[b, self.clamped] = terms.clamped_extra_w_k
-        rows["mass"][b, self.pads] = terms.masses_kg
-        if terms.direct_disc_share is not None:
-            src, d = rows["src"], terms.direct_disc_share
-            src[b, self.face, [self.disc_signal, self.pad_signal]] = d
-            src[b, self.pad_face, [self.disc_signal, self.pad_signal]] = 1.0 - d
-        link_a[b, self.edges] = self.pads[terms.mid_layer]
-        mean, face = pad_output_weights(terms)
-        weights[b, self.out_pad, self.pads] = mean
-        if self.out_pad_surface is not None:
-            weights[b, self.out_pad_surface, self.pads[:2]] = face
 
 
 class CornerLanes:
@@ -140,7 +91,7 @@ class CornerLanes:
         self.rows = {name: np.ascontiguousarray(np.concatenate([r[name] for r in rows])) for name in ROW_FIELDS}
         self.link_a = np.array([net.link_a for net in nets], dtype=np.int64)
         self.weights = np.array([m.output_weights for m in self.models])
-        self.pad_rows = _PadRows(self.net, self.models[0])
+        self.pad_rows = PadRows(self.net, self.models[0])
         self.pad_count = len(self.models[0].pad_nodes)
         self.materials = [corner_materials(d) for d in self.designs]
         self.disc_face_r = [disc_face_resistance(d, disc_layers(d), m["disc"]) for d, m in zip(self.designs, self.materials)]

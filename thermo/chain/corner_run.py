@@ -11,10 +11,12 @@ from __future__ import annotations
 
 import warnings
 from dataclasses import dataclass, replace
+from typing import NamedTuple
 
 import numpy as np
 
 from thermo.chain.guards import WallClock, check_state_range
+from thermo.chain.pad_rows import PadKernel
 from thermo.chain.plan import PlanSegment
 from thermo.chain.validity import check_validity
 from thermo.corner.build import (
@@ -22,16 +24,20 @@ from thermo.corner.build import (
     clamp_signal, duct_air_signals, pad_layers, worn_corner,
 )
 from thermo.corner.geometry import CornerDesign
+from thermo.corner.pad_terms import pad_sources
 from thermo.errors import SolveError
 from thermo.limits import check_specs, evaluate_check, property_range_warnings
 from thermo.materials import get_material
 from thermo.network.assemble import compile_network
+from thermo.network.elements import table_enthalpy
 from thermo.network.schedule import Schedule
 from thermo.network.tabulate import ConductanceGrid
 from thermo.results import CornerFacts, CornerResult, EnergyBalance, LapPadThickness, LapSpan, PhaseSpan, StintPadThickness
 from thermo.scenario.model import Scenario
-from thermo.solver.kernel_arrays import kernel_network_like, release_kernel_network
+from thermo.solver.fast import run_compiled, step_grid
+from thermo.solver.kernel_arrays import kernel_inputs, kernel_network_like, release_kernel_network
 from thermo.solver.scipy_solve import solve_network
+from thermo.solver.segments import output_grid
 
 MIN_PAD_THICKNESS_M = 0.5e-3   # a pad worn this far is held here (and the run warns)
 VALIDITY_SAMPLE_EVERY = 10     # every n-th output sample is checked against the correlations' ranges
@@ -46,6 +52,18 @@ class SegmentDuty:
     disc_heat_w: np.ndarray
     pad_heat_w: np.ndarray
     speed_m_s: np.ndarray
+
+
+class _Solved(NamedTuple):
+    """What ``CornerRun`` keeps of one segment's solve (the fields of ``NetworkSolution`` it reads)."""
+
+    time_s: np.ndarray
+    temperatures_k: np.ndarray
+    link_flows_w: np.ndarray
+    link_energy_j: np.ndarray
+    heat_in_j: float
+    lost_j: float
+    final_k: np.ndarray
 
 
 def segment_schedule(scenario: Scenario, design: CornerDesign, segment: PlanSegment, duty: SegmentDuty) -> Schedule:
@@ -93,6 +111,11 @@ class CornerRun:
     link's flow at every stored row, and every solver row. ``clock``: the run's time budget (None:
     a new one of ``[solver] wall_clock_limit_s``). Every node is checked against the model's
     physical range after each segment (``thermo.chain.guards``).
+
+    With the 'fast' method on a compiled network (the default), every segment is solved on the
+    corner's own kernel arrays (``PadKernel``): a worn or new pad writes its values into them, and
+    the corner's model is made for the pad only where something reads it (a segment that leaves a
+    conductance table, and the result). Otherwise the corner is rebuilt for each pad.
     """
 
     def __init__(self, scenario: Scenario, setup, *,
@@ -109,6 +132,10 @@ class CornerRun:
         self.interval_s = 0.0 if self.full else (output_interval_s(scenario) if interval_s is None else interval_s)
         self.pad_layer_count = len(pad_layers(design))   # kept as the pad wears, so the state maps node for node
         self.model, self.compiled = setup.model, setup.network
+        self.layers = pad_layers(design)                 # the pad's layers now [m]
+        self.pad_kernel = _pad_kernel(setup)
+        self.pad_values = None      # the pad's values (PadTerms) when they are newer than self.model's
+        self.pad_heat_table = get_material(design.pad.material).specific_heat_table
         names = self.model.network.node_names
         self.i_pads = [names.index(node) for node in self.model.pad_nodes]
         self.i_back = names.index("backing_plate")
@@ -143,20 +170,77 @@ class CornerRun:
             release_kernel_network(previous)
         return built, compiled
 
+    def _set_pad(self, thickness_m: float) -> None:
+        """The pad at ``thickness_m``: a new one (the design's thickness) in the design's own layers, a
+        worn one in as many layers; its values written into the kernel's arrays, or the corner
+        rebuilt where there are none (``_with_pad``)."""
+        renewed = thickness_m == self.design.pad.thickness_m
+        self.layers = pad_layers(self.design) if renewed else pad_layers(self.design, thickness_m, self.pad_layer_count)
+        if self.pad_kernel is None:
+            self.model, self.compiled = self._with_pad(thickness_m)
+        else:
+            self.pad_values = self.pad_kernel.set_pad(self.design, thickness_m, self.layers)
+        self.thickness = thickness_m
+
+    def _current_model(self) -> None:
+        """Make ``self.model`` and ``self.compiled`` those of the pad now (after pads took their values
+        in the kernel's arrays only)."""
+        if self.pad_values is not None:
+            self.model, self.compiled = self._with_pad(self.thickness)
+            self.pad_values = None
+
+    def _output_weights(self) -> np.ndarray:
+        return self.model.output_weights if self.pad_kernel is None else self.pad_kernel.output_weights
+
     def _enthalpy(self, index=None) -> float:
+        """Stored heat of the nodes ``index`` (None: all) relative to 20 degC [J]; the pad's layers
+        at their masses now."""
         nodes = self.model.network.nodes
         index = range(len(nodes)) if index is None else index
-        return sum(nodes[k].heat_capacity.enthalpy(self.T[k]) for k in index)
+        if self.pad_values is None:
+            return sum(nodes[k].heat_capacity.enthalpy(self.T[k]) for k in index)
+        masses = dict(zip(self.i_pads, map(float, self.pad_values.masses_kg)))
+        return sum(table_enthalpy(masses[k], *self.pad_heat_table, self.T[k]) if k in masses
+                   else nodes[k].heat_capacity.enthalpy(self.T[k]) for k in index)
+
+    def _direct_share(self) -> float:
+        """Share of the friction heat the sources put straight into the disc's face layer [-]."""
+        model, values = self.model, self.pad_values
+        if values is None:
+            return _direct_share(model)
+        sources = pad_sources(model.disc_face_node, model.pad_nodes[0], values, (SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT))
+        return _direct_share_of(sources, model.disc_face_node, model.heat_partition)
 
     def _change_pads(self, segment: PlanSegment) -> None:
         self.stint_thickness.append((segment.phase.name, self.thickness))
         replaced = (*self.i_pads, self.i_back)
         old = self._enthalpy(replaced)
-        self.thickness = self.design.pad.thickness_m
-        self.model, self.compiled = self._with_pad(self.thickness)
+        self._set_pad(self.design.pad.thickness_m)
         self.T[list(replaced)] = float(self.scenario.ambient.temperature_at(segment.t_start_s))
         self.removed += old - self._enthalpy(replaced)
         self.warned.clear()
+
+    def _solve(self, schedule: Schedule, phase: str):
+        """One segment from the carried state: on the corner's own kernel arrays where it has them,
+        else (or when the state leaves a conductance table) by ``solve_network`` on the model."""
+        settings = self.settings
+        if self.pad_kernel is not None:
+            a, b = schedule.t_start_s, schedule.t_end_s
+            out_t = None if settings.max_stride > 1 else output_grid(schedule, a, b)
+            grid, out_t = step_grid(self.compiled, schedule, settings, a, b, out_t)
+            res = run_compiled(self.pad_kernel.network, kernel_inputs(self.compiled, schedule, grid), self.T,
+                               settings, out_t, phase)
+            if res is not None:
+                energy = res.link_energy[0]
+                return _Solved(out_t, res.temps[0], res.flows[0], energy, float(res.heat_in[0]),
+                               float(np.sum(energy[self.compiled.link_to_boundary], axis=-1)), res.final[0])
+            self._current_model()       # off the tables: the model's own functions, in the numpy stepper
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            sol = solve_network(self.compiled, schedule, self.T, settings, phase=phase)
+        if sol.status != "success":
+            raise SolveError(f"{phase}: {sol.status}")
+        return sol
 
     def advance(self, segment: PlanSegment, duty: SegmentDuty) -> None:
         """Solve one segment from the carried state and keep what the result needs."""
@@ -166,16 +250,12 @@ class CornerRun:
             self._change_pads(segment)
         schedule = segment_schedule(scenario, design, segment, duty)
         phase_name = phase.name + (f" lap {segment.lap_index}" if segment.lap_index else "")
-        with warnings.catch_warnings():
-            warnings.simplefilter("ignore")
-            sol = solve_network(self.compiled, schedule, self.T, self.settings, phase=f"corner {design.name}, {phase_name}")
-        if sol.status != "success":
-            raise SolveError(f"corner {design.name}, {phase.name}: {sol.status}")
+        sol = self._solve(schedule, f"corner {design.name}, {phase_name}")
         names = self.model.network.node_names
         check_state_range(design.name, phase_name, names, sol.time_s, sol.temperatures_k)
         self.clock.check(f"corner {design.name}, {phase_name}")
         model = self.model
-        out = model.outputs(sol.temperatures_k)
+        out = sol.temperatures_k @ self._output_weights().T
         keep = stored_rows(sol.time_s, out, self.interval_s, continues=bool(self.times))
         self.times.append(sol.time_s[keep])
         self.temps.append(out[keep])
@@ -188,7 +268,7 @@ class CornerRun:
         previous = self.energy_by_phase.get(segment.phase_index)
         self.energy_by_phase[segment.phase_index] = sol.link_energy_j.copy() if previous is None else previous + sol.link_energy_j
         self.heat_in += sol.heat_in_j
-        self.direct_to_disc += _direct_share(model) * sol.heat_in_j
+        self.direct_to_disc += self._direct_share() * sol.heat_in_j
         self.lost += sol.lost_j
         self.T = sol.final_k.copy()
         picks = slice(None, None, VALIDITY_SAMPLE_EVERY)
@@ -216,19 +296,19 @@ class CornerRun:
         new_thickness = max(self.thickness - wear, MIN_PAD_THICKNESS_M)
         if new_thickness < self.thickness:
             old_h = self._enthalpy(self.i_pads)
-            old_dx = pad_layers(model.design)
-            self.model, self.compiled = self._with_pad(new_thickness)
+            old_dx = self.layers
+            self._set_pad(new_thickness)
             # the wear takes the friction face: the rest keeps its temperature at its depth
             # from the backing plate, and the worn slice leaves with the face's heat
-            self.T[self.i_pads] = worn_pad_profile(old_dx, self.T[self.i_pads], pad_layers(self.model.design))
+            self.T[self.i_pads] = worn_pad_profile(old_dx, self.T[self.i_pads], self.layers)
             self.removed += old_h - self._enthalpy(self.i_pads)
             self.warns += _pad_warnings(design, scenario.pad_wear.warn_margin_m, new_thickness, segment.lap_index,
                                         self.warned)
-            self.thickness = new_thickness
 
     def result(self, segments) -> CornerResult:
         """The corner's results over the segments it advanced through (in order); the network lets
         go of its kernel arrays (``release_kernel_network``): the run is over."""
+        self._current_model()
         scenario, design, model = self.scenario, self.design, self.model
         stint_thickness = self.stint_thickness + [("end of run", self.thickness)]
         validity_lines, used = check_validity(model.network, self.states, design.name)
@@ -299,8 +379,25 @@ def worn_pad_profile(old_dx_m: np.ndarray, old_t_k: np.ndarray, new_dx_m: np.nda
 def _direct_share(model: CornerModel) -> float:
     """Share of the friction heat the sources put straight into the disc's face layer [-]; the duty
     splits it into disc_heat_w (share heat_partition) and pad_heat_w."""
-    signal_share = {SIGNAL_DISC_HEAT: model.heat_partition, SIGNAL_PAD_HEAT: 1.0 - model.heat_partition}
-    return sum(s.fraction * signal_share[s.signal] for s in model.network.sources if s.node == model.disc_face_node)
+    return _direct_share_of(model.network.sources, model.disc_face_node, model.heat_partition)
+
+
+def _direct_share_of(sources, face_node: str, heat_partition: float) -> float:
+    """``_direct_share`` of the heat ``sources`` (``HeatSource``) of a corner [-]."""
+    signal_share = {SIGNAL_DISC_HEAT: heat_partition, SIGNAL_PAD_HEAT: 1.0 - heat_partition}
+    return sum(s.fraction * signal_share[s.signal] for s in sources if s.node == face_node)
+
+
+def _pad_kernel(setup) -> PadKernel | None:
+    """The corner's own kernel arrays for a run by the 'fast' method with the analytic Jacobian, or None
+    (another method, a network that does not run compiled, a friction heat split otherwise)."""
+    settings = setup.settings
+    if settings.method != "fast" or not settings.use_jacobian:
+        return None
+    try:
+        return PadKernel(setup.network, setup.model)
+    except ValueError:
+        return None
 
 
 def _realised_partition(model: CornerModel, heat_in_j: float, direct_j: float, link_energy_j: np.ndarray) -> float:

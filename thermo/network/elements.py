@@ -71,24 +71,34 @@ class HeatCapacity:
 
     def enthalpy(self, temperature_k):
         """Stored heat relative to 20 degC, the exact integral of m c(T) dT [J]."""
-        return self._integral(temperature_k) - self._integral(REFERENCE_TEMPERATURE_K)
+        return table_enthalpy(self.mass_kg, self.temperatures_k, self.specific_heat_j_kgk, temperature_k)
 
-    def _integral(self, temperature_k):
-        t = np.asarray(self.temperatures_k, dtype=float)
-        c = np.asarray(self.specific_heat_j_kgk, dtype=float)
-        x = np.asarray(temperature_k, dtype=float)
-        if t.size == 1:
-            return self.mass_kg * c[0] * x
-        # cumulative integral at the table points, from t[0]
-        cum = np.concatenate([[0.0], np.cumsum(0.5 * (c[1:] + c[:-1]) * np.diff(t))])
-        below = c[0] * (x - t[0])
-        above = cum[-1] + c[-1] * (x - t[-1])
-        xi = np.clip(x, t[0], t[-1])
-        k = np.clip(np.searchsorted(t, xi) - 1, 0, t.size - 2)
-        ci = c[k] + (c[k + 1] - c[k]) * (xi - t[k]) / (t[k + 1] - t[k])
-        inside = cum[k] + 0.5 * (c[k] + ci) * (xi - t[k])
-        value = np.where(x < t[0], below, np.where(x > t[-1], above, inside))
-        return self.mass_kg * value
+
+def table_enthalpy(mass_kg: float, temperatures_k, specific_heat_j_kgk, temperature_k):
+    """``HeatCapacity(mass_kg, temperatures_k, specific_heat_j_kgk).enthalpy(temperature_k)`` without
+    making (and checking) a ``HeatCapacity``: for a node whose mass changes often (a pad that
+    wears lap by lap) [J]."""
+    return (_integral(mass_kg, temperatures_k, specific_heat_j_kgk, temperature_k)
+            - _integral(mass_kg, temperatures_k, specific_heat_j_kgk, REFERENCE_TEMPERATURE_K))
+
+
+def _integral(mass_kg, temperatures_k, specific_heat_j_kgk, temperature_k):
+    """m times the integral of c(T) from the table's first temperature (linear beyond the table) [J]."""
+    t = np.asarray(temperatures_k, dtype=float)
+    c = np.asarray(specific_heat_j_kgk, dtype=float)
+    x = np.asarray(temperature_k, dtype=float)
+    if t.size == 1:
+        return mass_kg * c[0] * x
+    # cumulative integral at the table points, from t[0]
+    cum = np.concatenate([[0.0], np.cumsum(0.5 * (c[1:] + c[:-1]) * np.diff(t))])
+    below = c[0] * (x - t[0])
+    above = cum[-1] + c[-1] * (x - t[-1])
+    xi = np.clip(x, t[0], t[-1])
+    k = np.clip(np.searchsorted(t, xi) - 1, 0, t.size - 2)
+    ci = c[k] + (c[k + 1] - c[k]) * (xi - t[k]) / (t[k + 1] - t[k])
+    inside = cum[k] + 0.5 * (c[k] + ci) * (xi - t[k])
+    value = np.where(x < t[0], below, np.where(x > t[-1], above, inside))
+    return mass_kg * value
 
 
 @dataclass(frozen=True)

@@ -85,6 +85,20 @@ def step_grid(net: CompiledNetwork, schedule: Schedule, settings: SolverSettings
 
 def _integrate_compiled(net, knet, inputs: KernelInputs, schedule, initial_k, settings, out_t, phase):
     """One configuration through the kernel; None when the state left a conductance table."""
+    res = run_compiled(knet, inputs, initial_k, settings, out_t, phase)
+    if res is None:
+        return None
+    return finish_solution(net, schedule, out_t, res.temps[0], initial_k, res.final[0], res.heat_in[0],
+                           res.link_energy[0], res.counts[0, 0], res.counts[0, 1], "fast", phase,
+                           flows_w=res.flows[0])
+
+
+def run_compiled(knet, inputs: KernelInputs, initial_k: np.ndarray, settings: SolverSettings, out_t: np.ndarray,
+                 phase: str):
+    """One configuration of ``knet`` (``kernel_arrays.KernelNetwork``) over ``inputs.grid`` from
+    ``initial_k`` [K], recording at ``out_t`` (points of the grid) [s]: the ``KernelResult``, or None
+    when the state left a conductance table (the caller then runs the numpy stepper). Raises
+    ``SolveError`` naming ``phase`` and the time when Newton fails or a temperature is not finite."""
     grid = inputs.grid
     record = np.zeros(grid.size, dtype=bool)
     index = np.searchsorted(grid, out_t)
@@ -98,9 +112,7 @@ def _integrate_compiled(net, knet, inputs: KernelInputs, schedule, initial_k, se
         what = {kernel.STATUS_NEWTON: "Newton did not converge",
                 kernel.STATUS_NONFINITE: "produced non-finite temperatures"}[code]
         raise SolveError(f"phase '{phase}': method fast: {what} at t = {t_fail:.6g} s")
-    return finish_solution(net, schedule, out_t, res.temps[0], initial_k, res.final[0], res.heat_in[0],
-                           res.link_energy[0], res.counts[0, 0], res.counts[0, 1], "fast", phase,
-                           flows_w=res.flows[0])
+    return res
 
 
 # ---------------------------------------------------------------------- the numpy stepper
