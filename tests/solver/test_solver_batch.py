@@ -27,7 +27,7 @@ def test_identical_configurations_give_the_single_run_exactly():
         np.testing.assert_array_equal(batch.temperatures_k[b], single.temperatures_k)
     assert np.all(batch.peak_k >= single.temperatures_k.max(axis=0))
     np.testing.assert_allclose(batch.heat_in_j, single.heat_in_j, rtol=1e-14)
-    assert np.all(batch.balance_rel_error < 1e-8)
+    assert np.all(batch.balance_rel_error < 1e-6)     # to the Newton residual (kernel.newton_converged)
 
 
 def test_varied_configurations_equal_their_own_single_runs_and_the_exact_solution():

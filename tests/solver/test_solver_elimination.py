@@ -9,7 +9,7 @@ import numpy as np
 import pytest
 import scipy.linalg
 
-from thermo.solver import kernel
+from thermo.solver import kernel, stage_matrix
 from thermo.solver.elimination import elimination_plan
 
 SIGMA = 5.670374419e-8   # Stefan-Boltzmann constant [W/m^2/K^4], CODATA 2018 exact value
@@ -249,10 +249,10 @@ def factor_and_solve(C, coef, n, link_a, link_b, dfa, dfb, rhs):
     plan = elimination_plan(n, [(x, y) for x, y in zip(link_a, link_b) if y < n])
     A = np.empty((n, n))
     piv = np.zeros(n, dtype=np.int64)
-    mode = kernel._factor(A, C, float(coef), n, link_a, link_b, dfa, dfb, plan.order, plan.ptr, plan.nbr, piv)
+    mode = stage_matrix._factor(A, C, float(coef), n, link_a, link_b, dfa, dfb, plan.order, plan.ptr, plan.nbr, piv)
     x = rhs.copy()
-    if mode != kernel.FACTOR_FAILED:
-        kernel._solve(mode, A, piv, plan.order, plan.ptr, plan.nbr, x)
+    if mode != stage_matrix.FACTOR_FAILED:
+        stage_matrix._solve(mode, A, piv, plan.order, plan.ptr, plan.nbr, x)
     return mode, x, A, plan
 
 
@@ -266,13 +266,13 @@ def test_newton_matrix_is_capacity_minus_scaled_flow_jacobian():
     la, lb, dfa, dfb = random_links(rng, n, 6, 5, radiation=[(0, 3, 450.0, 900.0)])
     C = rng.uniform(20.0, 4000.0, n)
     A = np.full((n, n), np.nan)                 # every entry must be written
-    kernel._newton_matrix(A, C, 0.3, n, la, lb, dfa, dfb)
+    stage_matrix._newton_matrix(A, C, 0.3, n, la, lb, dfa, dfb)
     np.testing.assert_allclose(A, reference_matrix(C, 0.3, n, la, lb, dfa, dfb), rtol=1e-14, atol=1e-12)
     # energy conservation of node-to-node links: every column of D sums to zero, so with no
     # boundary links the column sums of A are the capacities (first law)
     inner = lb < n
     A2 = np.empty((n, n))
-    kernel._newton_matrix(A2, C, 0.3, n, la[inner], lb[inner], dfa[inner], dfb[inner])
+    stage_matrix._newton_matrix(A2, C, 0.3, n, la[inner], lb[inner], dfa[inner], dfb[inner])
     np.testing.assert_allclose(A2.sum(axis=0), C, rtol=1e-12)
 
 
@@ -289,7 +289,7 @@ def test_sparse_factor_solves_like_numpy_on_random_networks():
             coef = rng.uniform(0.05, 2.0) * kernel.D_WEIGHT       # h d of a TR-BDF2 stage
             rhs = rng.normal(0.0, 1e3, n)
             mode, x, A, plan = factor_and_solve(C, coef, n, la, lb, dfa, dfb, rhs)
-            assert mode == kernel.FACTOR_SPARSE
+            assert mode == stage_matrix.FACTOR_SPARSE
             Aref = reference_matrix(C, coef, n, la, lb, dfa, dfb)
             # reference library: numpy.linalg.solve (LAPACK gesv)
             assert rel_err(x, np.linalg.solve(Aref, rhs)) < 1e-12
@@ -318,7 +318,7 @@ def test_a_ring_with_a_tail_factors_with_fill():
     lb = np.array([p[1] for p in pairs] + [n, n + 1], dtype=np.int64)
     g = np.linspace(1.0, 9.0, la.size)
     mode, x, _, plan = factor_and_solve(np.linspace(100.0, 700.0, n), 0.4, n, la, lb, g, -g, np.arange(1.0, n + 1))
-    assert fill(plan, pairs) > 0 and mode == kernel.FACTOR_SPARSE
+    assert fill(plan, pairs) > 0 and mode == stage_matrix.FACTOR_SPARSE
     Aref = reference_matrix(np.linspace(100.0, 700.0, n), 0.4, n, la, lb, g, -g)
     assert rel_err(x, np.linalg.solve(Aref, np.arange(1.0, n + 1))) < 1e-12     # numpy reference
 
@@ -337,10 +337,10 @@ def weak_chain(pivot_share):
 
 
 @pytest.mark.parametrize("share, expected", [
-    (0.6, kernel.FACTOR_SPARSE),    # weakened but still above half the capacity
-    (0.5, kernel.FACTOR_DENSE),     # "not > 0.5 C": exactly half falls back
-    (0.1, kernel.FACTOR_DENSE),     # A00 = 0.8 < |A10| = 2: partial pivoting swaps rows
-    (-0.4, kernel.FACTOR_DENSE),    # a negative pivot
+    (0.6, stage_matrix.FACTOR_SPARSE),    # weakened but still above half the capacity
+    (0.5, stage_matrix.FACTOR_DENSE),     # "not > 0.5 C": exactly half falls back
+    (0.1, stage_matrix.FACTOR_DENSE),     # A00 = 0.8 < |A10| = 2: partial pivoting swaps rows
+    (-0.4, stage_matrix.FACTOR_DENSE),    # a negative pivot
 ])
 def test_weak_pivot_falls_back_to_dense_lu(share, expected):
     C, coef, n, la, lb, dfa, dfb = weak_chain(share)
@@ -371,7 +371,7 @@ def test_dense_fallback_on_a_larger_network_with_a_weak_node():
     assert Aref[7, 7] == pytest.approx(0.2 * C[7])
     # node 7's pivot can only fall further as its neighbours are eliminated (each update subtracts
     # a positive product in this M-matrix-like pattern), so the sparse factor must refuse it
-    assert mode == kernel.FACTOR_DENSE
+    assert mode == stage_matrix.FACTOR_DENSE
     assert rel_err(x, np.linalg.solve(Aref, rhs)) < 1e-12      # numpy.linalg.solve reference
 
 
@@ -380,15 +380,15 @@ def test_singular_and_non_finite_matrices_fail():
     # singular (the floating network's constant mode); powers of two make the zero pivot exact
     la, lb = np.array([0], dtype=np.int64), np.array([1], dtype=np.int64)
     mode, _, _, _ = factor_and_solve(np.zeros(2), 1.0, 2, la, lb, np.array([2.0]), np.array([-2.0]), np.ones(2))
-    assert mode == kernel.FACTOR_FAILED
+    assert mode == stage_matrix.FACTOR_FAILED
     assert np.linalg.matrix_rank(reference_matrix(np.zeros(2), 1.0, 2, la, lb, [2.0], [-2.0])) == 1  # numpy
     # a node without capacity and without links: a zero row and column
     la, lb = np.array([0], dtype=np.int64), np.array([3], dtype=np.int64)
     mode, _, _, _ = factor_and_solve(np.array([5.0, 0.0, 4.0]), 1.0, 3, la, lb, np.array([1.0]),
                                      np.array([-1.0]), np.ones(3))
-    assert mode == kernel.FACTOR_FAILED
+    assert mode == stage_matrix.FACTOR_FAILED
     # a non-finite slope (a NaN from a broken table) is refused by both factorisations
     la, lb = np.array([0, 1], dtype=np.int64), np.array([1, 2], dtype=np.int64)
     mode, _, _, _ = factor_and_solve(np.ones(2), 1.0, 2, la, lb, np.array([np.nan, 1.0]),
                                      np.array([-1.0, -1.0]), np.ones(2))
-    assert mode == kernel.FACTOR_FAILED
+    assert mode == stage_matrix.FACTOR_FAILED

@@ -43,7 +43,9 @@ def test_kernel_runs_tabulated_networks_and_matches_the_numpy_stepper():
     # one scheme, two implementations: they differ only by the Newton stopping point (1e-4 K tolerance)
     np.testing.assert_allclose(sol.temperatures_k, ref.temperatures_k, atol=2e-4)
     np.testing.assert_allclose(sol.link_flows_w, ref.link_flows_w, rtol=1e-5, atol=1e-3)
-    assert sol.balance_rel_error < 1e-8
+    # heat in = stored + lost to the Newton residual: the iteration stops once the corrections still
+    # to come are within 1 % of atol_k + rtol |T| (kernel.newton_converged), about 1e-7 of the heat
+    assert sol.balance_rel_error < 1e-6
     assert sol.nfev < ref.nfev, "the kernel's simplified Newton needs fewer flow evaluations"
 
 
@@ -69,7 +71,9 @@ def test_state_off_the_tables_falls_back_to_the_exact_functions():
     assert sol.temperatures_k[:, 0].max() > 550.0
     # the coarse table is used below 500 K and the exact film_conductance above it
     np.testing.assert_allclose(sol.temperatures_k, exact.temperatures_k, atol=0.5)
-    assert sol.balance_rel_error < 1e-8
+    # heat in = stored + lost to the Newton residual: the iteration stops once the corrections still
+    # to come are within 1 % of atol_k + rtol |T| (kernel.newton_converged), about 1e-7 of the heat
+    assert sol.balance_rel_error < 1e-6
 
 
 @pytest.fixture(scope="module")
@@ -98,7 +102,9 @@ def test_demo_corner_braking_zones_against_radau(demo_lap):
     faces = [model.output_nodes.index(n) for n in ("disc_surface", "pad_surface")]
     others = [i for i in range(len(model.output_nodes)) if i not in faces]
     np.testing.assert_allclose(out_f[:, others], out_r[:, others], atol=0.3)
-    assert sol.balance_rel_error < 1e-8
+    # heat in = stored + lost to the Newton residual: the iteration stops once the corrections still
+    # to come are within 1 % of atol_k + rtol |T| (kernel.newton_converged), about 1e-7 of the heat
+    assert sol.balance_rel_error < 1e-6
 
 
 def test_kernel_runs_as_plain_python_without_the_jit():
@@ -118,3 +124,19 @@ def test_kernel_runs_as_plain_python_without_the_jit():
     out = subprocess.run([sys.executable, "-c", code], env=env, capture_output=True, text=True, timeout=120)
     assert out.returncode == 0, out.stderr
     assert float(out.stdout.strip()) < 0.05     # 5 s steps, second order: measured 0.006 K
+
+
+def test_newton_stops_on_the_rate_of_its_corrections():
+    # the stopping rule of the simplified Newton iteration (Hairer & Wanner, Solving ODEs II, 2nd ed.
+    # 1996, IV.8): with corrections shrinking at the rate theta, those still to come sum to at most
+    # theta / (1 - theta) times the last (a geometric series)
+    from thermo.solver.kernel import NEWTON_RATE_TOLERANCE, NEWTON_TOLERANCE, newton_converged
+    assert newton_converged(0.9 * NEWTON_TOLERANCE, np.inf, 0)
+    assert not newton_converged(2.0 * NEWTON_TOLERANCE, np.inf, 0)          # no rate known yet
+    last = 0.5
+    for theta in (0.002, 0.01, 0.05):
+        e = 0.99 * NEWTON_RATE_TOLERANCE * (1 - theta) / theta          # the remainder just within
+        assert e > NEWTON_TOLERANCE                                      # the plain test alone would go on
+        assert newton_converged(e, e / theta, 1)
+        assert not newton_converged(1.02 * e, 1.02 * e / theta, 1)
+    assert not newton_converged(2 * last, last, 2)                        # diverging: never on the rate

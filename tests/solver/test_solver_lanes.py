@@ -24,7 +24,7 @@ from thermo.chain.settle import lap_setup
 from thermo.errors import SolveError
 from thermo.network import Schedule
 from thermo.scenario import load_scenario
-from thermo.solver import kernel, kernel_arrays, kernel_lanes
+from thermo.solver import kernel, kernel_arrays, kernel_lanes, stage_matrix
 from thermo.solver.batch import solve_batch
 from thermo.solver.kernel_arrays import (MIN_LANES, kernel_inputs, kernel_network, lane_width,
                                          scaled)
@@ -368,11 +368,11 @@ def test_a_weak_pivot_lane_is_rerun_and_equals_its_own_run(lap, reruns):
     C, H = np.empty(kb.n_nodes), np.empty(kb.n_nodes)
     kernel._capacity_enthalpy(T0[weak], capacities, C, H)
     A = np.empty((kb.n_nodes, kb.n_nodes))
-    kernel._newton_matrix(A, C, inputs.h[0] * kernel.D_WEIGHT, kb.n_nodes, kb.link_a, kb.link_b, dfa, dfb)
+    stage_matrix._newton_matrix(A, C, inputs.h[0] * kernel.D_WEIGHT, kb.n_nodes, kb.link_a, kb.link_b, dfa, dfb)
     A_dense = A.copy()
     assert 0.0 < A[node, node] < 0.5 * C[node], "a weak (not a negative) diagonal"
-    assert not kernel._sparse_factor(A, C, kb.plan.order, kb.plan.ptr, kb.plan.nbr)
-    assert kernel._lu_factor(A_dense, np.zeros(kb.n_nodes, dtype=np.int64))
+    assert not stage_matrix._sparse_factor(A, C, kb.plan.order, kb.plan.ptr, kb.plan.nbr)
+    assert stage_matrix._lu_factor(A_dense, np.zeros(kb.n_nodes, dtype=np.int64))
     own = [alone(kb, inputs, T0, b, N_LAPS, W, None) for b in range(8)]
     assert own[weak][0].status[0] == kernel.STATUS_OK, "the dense fallback carries it through"
     assert np.all(np.isfinite(own[weak][0].final)) and own[weak][0].final[0, node] < 400.0

@@ -19,13 +19,19 @@ Jacobian is analytic: conduction G, radiation 4 c T^3, convection m G plus m (T_
 the trilinear table (the table's own derivative, so the Newton matrix is exact for the model;
 m is a per-configuration multiplier, 1 unless a sweep scales it).
 
-Convergence: the correction |dY_i| <= 0.1 (atol_k + rtol |Y_i|) (the accepted Y + dY is then O(dY^2)
-from the stage root: Newton with the exact matrix converges quadratically). Link energies are accumulated with the
-scheme's weights, h (w f1 + w f2 + d f3), so heat in = stored + lost to the Newton residual.
+Convergence (``newton_converged``): with the scaled correction e = max_i |dY_i| / (atol_k + rtol |Y_i|),
+accept when e <= 0.1, or, from a stage's second iteration, when the corrections shrink at a rate
+theta = e_k / e_(k-1) < 1 such that those still to come, at most theta / (1 - theta) e_k, are
+within 0.01 (Hairer & Wanner 1996, IV.8): the matrix is factored at T_n, so the iteration converges
+linearly, and the rate saves the iteration that would only confirm it (4.4 flow evaluations a
+step instead of 6.1 on the 24-hour demo; peaks and lap extremes moved by less than 1e-4 K, the
+energy balance's relative error from 6e-9 to 1e-7). Link energies are
+accumulated with the scheme's weights, h (w f1 + w f2 + d f3), so heat in = stored + lost to the
+Newton residual.
 
-The stage matrix is factored along a sparse elimination plan (``thermo.solver.elimination``:
-minimum-degree order, no pivoting, the reciprocal pivots kept on the diagonal), with dense LU and
-partial pivoting as the fallback when a pivot is weak. Table axes of the drivers and boundary
+The stage matrix is factored (``thermo.solver.stage_matrix``) along a sparse elimination plan
+(``thermo.solver.elimination``: minimum-degree order, no pivoting, the reciprocal pivots kept on
+the diagonal), with dense LU and partial pivoting as the fallback when a pivot is weak. Table axes of the drivers and boundary
 temperatures are located once per flow evaluation, not once per link.
 
 The linearised mode for throughput runs (batches, races, the settled lap's coarse map) is in
@@ -44,6 +50,8 @@ References
 ----------
 R. E. Bank et al., "Transient simulation of silicon devices and circuits", IEEE Trans. CAD 4 (1985).
 M. E. Hosea, L. F. Shampine, "Analysis and implementation of TR-BDF2", Appl. Numer. Math. 20 (1996).
+E. Hairer, G. Wanner, "Solving Ordinary Differential Equations II: Stiff and Differential-Algebraic
+Problems", 2nd ed., Springer (1996), section IV.8 (stopping criterion of the simplified Newton iteration).
 """
 from __future__ import annotations
 
@@ -56,13 +64,15 @@ import numpy as np
 from numba import njit, prange
 
 from thermo.network import laws
+from thermo.solver.stage_matrix import FACTOR_FAILED, _factor, _solve
 
 GAMMA = 2.0 - math.sqrt(2.0)
 D_WEIGHT = GAMMA / 2.0
 W_WEIGHT = math.sqrt(2.0) / 4.0
 MAX_NEWTON = 12
 REFACTOR_AFTER = 3
-NEWTON_TOLERANCE = 0.1   # accept when every correction is below this share of atol_k + rtol |Y|
+NEWTON_TOLERANCE = 0.1   # accept when the last correction is below this share of atol_k + rtol |Y|
+NEWTON_RATE_TOLERANCE = 0.01   # ... or the corrections still to come, estimated from their rate, below this share
 
 KIND_CONDUCTION, KIND_RADIATION, KIND_CONVECTION = 0, 1, 2
 STATUS_OK, STATUS_NEWTON, STATUS_OUTSIDE_GRID, STATUS_NONFINITE = 0, 1, 2, 3
@@ -233,139 +243,6 @@ def _capacity_enthalpy(T, capacities, C, H):
 
 
 @njit(cache=True, error_model="numpy")
-def _lu_factor(A, piv):
-    """In-place LU with partial pivoting of a small dense matrix; False if singular."""
-    n = A.shape[0]
-    for k in range(n):
-        p = k
-        big = abs(A[k, k])
-        for r in range(k + 1, n):
-            if abs(A[r, k]) > big:
-                big = abs(A[r, k])
-                p = r
-        if big == 0.0 or not math.isfinite(big):
-            return False
-        piv[k] = p
-        if p != k:
-            for c in range(n):
-                tmp = A[k, c]
-                A[k, c] = A[p, c]
-                A[p, c] = tmp
-        inv = 1.0 / A[k, k]
-        for r in range(k + 1, n):
-            m = A[r, k] * inv
-            A[r, k] = m
-            if m != 0.0:
-                for c in range(k + 1, n):
-                    A[r, c] -= m * A[k, c]
-    return True
-
-
-@njit(cache=True, error_model="numpy")
-def _lu_solve(A, piv, x):
-    """Solve in place with the factors of ``_lu_factor``."""
-    n = A.shape[0]
-    for k in range(n):
-        p = piv[k]
-        if p != k:
-            tmp = x[k]
-            x[k] = x[p]
-            x[p] = tmp
-    for r in range(n):
-        s = x[r]
-        for c in range(r):
-            s -= A[r, c] * x[c]
-        x[r] = s
-    for r in range(n - 1, -1, -1):
-        s = x[r]
-        for c in range(r + 1, n):
-            s -= A[r, c] * x[c]
-        x[r] = s / A[r, r]
-
-
-@njit(cache=True, error_model="numpy")
-def _sparse_factor(A, C, order, ptr, nbr):
-    """In-place LU of A along an elimination plan (``thermo.solver.elimination``), no pivoting;
-    the diagonal is left holding the reciprocal pivots (the solve multiplies, never divides).
-
-    False if a pivot is not above half its node's heat capacity C [J/K] (for the diagonally
-    dominant stage matrix every pivot is at least C; anything less means dominance is lost and
-    the caller refactors densely with partial pivoting)."""
-    for k in range(order.size):
-        p = order[k]
-        d = A[p, p]
-        if not (d > 0.5 * C[p]):
-            return False
-        inv = 1.0 / d
-        A[p, p] = inv
-        for u in range(ptr[k], ptr[k + 1]):
-            r = nbr[u]
-            m = A[r, p] * inv
-            A[r, p] = m
-            for v in range(ptr[k], ptr[k + 1]):
-                c = nbr[v]
-                A[r, c] -= m * A[p, c]
-    return True
-
-
-@njit(cache=True, error_model="numpy")
-def _sparse_solve(A, order, ptr, nbr, x):
-    """Solve in place with the factors of ``_sparse_factor``."""
-    for k in range(order.size):
-        p = order[k]
-        xp = x[p]
-        for u in range(ptr[k], ptr[k + 1]):
-            r = nbr[u]
-            x[r] -= A[r, p] * xp
-    for k in range(order.size - 1, -1, -1):
-        p = order[k]
-        s = x[p]
-        for u in range(ptr[k], ptr[k + 1]):
-            s -= A[p, nbr[u]] * x[nbr[u]]
-        x[p] = s * A[p, p]
-
-
-FACTOR_FAILED, FACTOR_SPARSE, FACTOR_DENSE = 0, 1, 2
-
-
-@njit(cache=True, error_model="numpy")
-def _factor(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, piv):
-    """Build and factor the stage matrix: sparse plan first, dense pivoted LU if a pivot is weak."""
-    _newton_matrix(A, C, coef, n, link_a, link_b, dfa, dfb)
-    if _sparse_factor(A, C, order, ptr, nbr):
-        return FACTOR_SPARSE
-    _newton_matrix(A, C, coef, n, link_a, link_b, dfa, dfb)
-    if _lu_factor(A, piv):
-        return FACTOR_DENSE
-    return FACTOR_FAILED
-
-
-@njit(cache=True, error_model="numpy")
-def _solve(mode, A, piv, order, ptr, nbr, x):
-    """Solve with the factors of ``_factor`` (``mode`` its return value)."""
-    if mode == FACTOR_SPARSE:
-        _sparse_solve(A, order, ptr, nbr, x)
-    else:
-        _lu_solve(A, piv, x)
-
-
-@njit(cache=True, error_model="numpy")
-def _newton_matrix(A, C, coef, n, link_a, link_b, dfa, dfb):
-    """A = diag(C) - coef D dF/dT: the stage matrix (D = -1 at a link's first end, +1 at its second)."""
-    A[:, :] = 0.0
-    for i in range(n):
-        A[i, i] = C[i]
-    for l in range(link_a.size):
-        a = link_a[l]
-        b = link_b[l]
-        A[a, a] += coef * dfa[l]
-        if b < n:
-            A[a, b] += coef * dfb[l]
-            A[b, a] -= coef * dfa[l]
-            A[b, b] -= coef * dfb[l]
-
-
-@njit(cache=True, error_model="numpy")
 def _residual(H, target, coef, f, n, link_a, link_b, R):
     """R = H(Y) - coef D f(Y) - target [J]."""
     for i in range(n):
@@ -453,6 +330,23 @@ def _scratch(n, L, n_axes):
 
 
 @njit(cache=True, error_model="numpy")
+def newton_converged(worst, previous, it):
+    """Whether a stage's Newton iteration ``it`` (from 0) has converged: its scaled correction
+    ``worst`` (max |dY_i| / (atol + rtol |Y_i|)) within ``NEWTON_TOLERANCE``, or, from the second
+    iteration, the corrections shrinking at the rate theta = worst / ``previous`` < 1 such that the
+    ones still to come, at most theta / (1 - theta) worst (a geometric series), are within
+    ``NEWTON_RATE_TOLERANCE`` (Hairer & Wanner 1996, section IV.8, their kappa; a tenth of the
+    plain test's share, so that the accepted states stay within about 1e-4 K of the iteration
+    run to the plain test)."""
+    if worst <= NEWTON_TOLERANCE:
+        return True
+    if it == 0:
+        return False
+    theta = worst / previous
+    return theta < 1.0 and theta * worst <= NEWTON_RATE_TOLERANCE * (1.0 - theta)
+
+
+@njit(cache=True, error_model="numpy")
 def _advance_one(b, T0, inputs, net, rtol, atol, max_newton, record, out):
     """Configuration b over the whole grid, full Newton on each stage."""
     _, h, bk_grid, drv_grid, bk_mid, drv_mid, qs_mid, qs_full = inputs
@@ -511,6 +405,7 @@ def _advance_one(b, T0, inputs, net, rtol, atol, max_newton, record, out):
                 dvx = drv_grid[step + 1]
                 fx = f3
             converged = False
+            previous = math.inf
             for it in range(max_newton):
                 inside = _flows(Y, bkx, dvx, links, fx, dfa, dfb, ax_i, ax_f, ax_ok)
                 nf += 1
@@ -533,15 +428,15 @@ def _advance_one(b, T0, inputs, net, rtol, atol, max_newton, record, out):
                         worst = e if math.isfinite(e) else math.inf
                 for i in range(n):
                     Y[i] += R[i]
-                if worst <= NEWTON_TOLERANCE:
+                if newton_converged(worst, previous, it):
                     converged = True
-                    # the last correction is within the tolerance, so Y + dY is O(dY^2) from the root
-                    # (Newton converges quadratically with the exact matrix): the flows of the accepted
+                    # the corrections still to come are within the tolerance: the flows of the accepted
                     # Y are those just evaluated plus their first-order change (error O(dY^2))
                     _flow_update(fx, dfa, dfb, R, n, link_a, link_b)
                     if not inside:
                         st = STATUS_OUTSIDE_GRID
                     break
+                previous = worst
                 if it + 1 == REFACTOR_AFTER:
                     have_lu = False
             if st != STATUS_OK:

@@ -42,9 +42,10 @@ import math
 import numpy as np
 from numba import njit, prange
 
-from thermo.solver.kernel import (D_WEIGHT, FACTOR_FAILED, STATUS_NEWTON, STATUS_NONFINITE, STATUS_OK,
-                                  STATUS_OUTSIDE_GRID, W_WEIGHT, _capacity_enthalpy, _configuration, _factor,
-                                  _flow_update, _flows, _net_inflow, _residual, _scratch, _solve, _sources)
+from thermo.solver.kernel import (D_WEIGHT, STATUS_NEWTON, STATUS_NONFINITE, STATUS_OK, STATUS_OUTSIDE_GRID,
+                                  W_WEIGHT, _capacity_enthalpy, _configuration, _flow_update, _flows, _net_inflow,
+                                  _residual, _scratch, _sources)
+from thermo.solver.stage_matrix import FACTOR_FAILED, _factor, _solve
 
 
 @njit(cache=True, error_model="numpy")

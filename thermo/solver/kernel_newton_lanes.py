@@ -35,7 +35,7 @@ from collections import namedtuple
 import numpy as np
 from numba import njit, prange
 
-from thermo.solver.kernel import D_WEIGHT, NEWTON_TOLERANCE, REFACTOR_AFTER, W_WEIGHT, _configuration
+from thermo.solver.kernel import D_WEIGHT, REFACTOR_AFTER, W_WEIGHT, _configuration, newton_converged
 from thermo.solver.kernel_lanes import (_accept_step_lanes, _capacity_lanes, _factor_lanes, _flows_lanes,
                                         _lane_scratch, _net_inflow_lanes, _pattern, _reference_ramps, _residual_lanes,
                                         _solve_lanes, _sources_lanes)
@@ -93,6 +93,7 @@ def _advance_block(blk, T0, inputs, net, rtol, atol, max_newton, record, out):
     active = np.zeros(W, dtype=np.bool_)         # still iterating this stage
     refactor = np.zeros(W, dtype=np.bool_)       # the stage matrix is due to be refactored
     worst = np.empty(W)
+    previous = np.empty(W)                       # each lane's scaled correction of its last iteration
     nf = np.ones(W, dtype=np.int64)
     nj = np.zeros(W, dtype=np.int64)
     e_in = np.zeros(W)
@@ -141,6 +142,7 @@ def _advance_block(blk, T0, inputs, net, rtol, atol, max_newton, record, out):
                 fx = f3
             for c in range(W):
                 active[c] = not flag[c]
+                previous[c] = math.inf
             for it in range(max_newton):
                 if not np.any(active):
                     break
@@ -191,13 +193,15 @@ def _advance_block(blk, T0, inputs, net, rtol, atol, max_newton, record, out):
                 for c in range(W):
                     if not active[c]:
                         continue
-                    if worst[c] <= NEWTON_TOLERANCE:
+                    if newton_converged(worst[c], previous[c], it):
                         # as the one-configuration kernel: the accepted Y's flows to first order
                         _flow_update_lane(fx, dfa, dfb, R, n, link_a, link_b, c)
                         active[c] = False
                         if off_table[c]:
                             flag[c] = True
-                    elif it + 1 == REFACTOR_AFTER:
+                        continue
+                    previous[c] = worst[c]
+                    if it + 1 == REFACTOR_AFTER:
                         refactor[c] = True
             for c in range(W):
                 if active[c]:
