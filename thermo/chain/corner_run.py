@@ -199,9 +199,9 @@ class CornerRun:
         index = range(len(nodes)) if index is None else index
         if self.pad_values is None:
             return sum(nodes[k].heat_capacity.enthalpy(self.T[k]) for k in index)
-        masses = dict(zip(self.i_pads, map(float, self.pad_values.masses_kg)))
-        return sum(table_enthalpy(masses[k], *self.pad_heat_table, self.T[k]) if k in masses
-                   else nodes[k].heat_capacity.enthalpy(self.T[k]) for k in index)
+        # every pad layer at once: elementwise the same arithmetic as one layer at a time
+        pads = dict(zip(self.i_pads, table_enthalpy(self.pad_values.masses_kg, *self.pad_heat_table, self.T[self.i_pads])))
+        return sum(pads[k] if k in pads else nodes[k].heat_capacity.enthalpy(self.T[k]) for k in index)
 
     def _direct_share(self) -> float:
         """Share of the friction heat the sources put straight into the disc's face layer [-]."""

@@ -77,7 +77,8 @@ class HeatCapacity:
 def table_enthalpy(mass_kg: float, temperatures_k, specific_heat_j_kgk, temperature_k):
     """``HeatCapacity(mass_kg, temperatures_k, specific_heat_j_kgk).enthalpy(temperature_k)`` without
     making (and checking) a ``HeatCapacity``: for a node whose mass changes often (a pad that
-    wears lap by lap) [J]."""
+    wears lap by lap) [J]. ``mass_kg`` and ``temperature_k`` may be arrays of several nodes of one
+    material (elementwise the same arithmetic as one node at a time)."""
     return (_integral(mass_kg, temperatures_k, specific_heat_j_kgk, temperature_k)
             - _integral(mass_kg, temperatures_k, specific_heat_j_kgk, REFERENCE_TEMPERATURE_K))
 
