@@ -67,3 +67,47 @@ def test_a_pad_worn_by_values_runs_as_a_pad_built_anew(monkeypatch):
         assert a.facts.removed_with_pad_material_j == b.facts.removed_with_pad_material_j
         assert a.facts.heat_partition_realised == b.facts.heat_partition_realised
         assert a.energy == b.energy
+
+
+def test_a_segment_off_the_tables_after_wear_by_values_runs_on_the_model_of_the_pad_now(monkeypatch):
+    """A segment whose state leaves a conductance table is solved by the numpy stepper on the
+    corner's model; after pads worn by values (``PadKernel``) that model must be made for the pad
+    as it is then. Laps 3 and 6 are sent off the tables (the kernel answers as it does there) in
+    a run by values and in a run that rebuilds the corner every lap: the two must agree to the bit."""
+    import copy
+    import tomllib
+    from pathlib import Path
+
+    from thermo.chain import corner_run, run_scenario
+    from thermo.scenario.reader import scenario_from_dict
+    from thermo.solver import fast
+
+    demo = Path(__file__).resolve().parents[2] / "scenarios" / "demo.toml"
+    text = demo.read_text(encoding="utf-8")
+    raw = copy.deepcopy(tomllib.loads(text))
+    raw["plan"]["phases"] = [{"type": "laps", "count": 7}]
+    raw.pop("uncertainty", None)
+    scenario = scenario_from_dict(raw, path=demo, text=text, overrides=[
+        ("pad_wear.wear_coefficient_mm3_per_kj", 6.0), ("solver.method", "fast")])
+    sent = []
+
+    def off_on_laps_3_and_6(real):
+        def run(knet, inputs, T0, settings, out_t, phase):
+            if phase.endswith((" lap 3", " lap 6")):
+                sent.append(phase)
+                return None
+            return real(knet, inputs, T0, settings, out_t, phase)
+        return run
+    monkeypatch.setattr(corner_run, "run_compiled", off_on_laps_3_and_6(corner_run.run_compiled))
+    monkeypatch.setattr(fast, "run_compiled", off_on_laps_3_and_6(fast.run_compiled))
+    by_values = run_scenario(scenario)
+    assert len(sent) == 8             # each corner's laps 3 and 6, by values and then on the model
+    monkeypatch.setattr(corner_run, "_pad_kernel", lambda setup: None)
+    monkeypatch.setattr(corner_run, "worn_corner", lambda model, thickness: None)
+    anew = run_scenario(scenario)
+    assert len(sent) == 12
+    for a, b in zip(by_values.corners, anew.corners):
+        assert a.facts.pad_thickness_m[-1].thickness_m < 0.9 * scenario.corners[0].pad.thickness_m or a.name == "rear"
+        np.testing.assert_array_equal(a.temperatures_k, b.temperatures_k)
+        assert a.facts.removed_with_pad_material_j == b.facts.removed_with_pad_material_j
+        assert a.energy == b.energy
