@@ -120,3 +120,42 @@ def test_the_temperature_figure_reads_at_a_glance():
 def _word(node):
     from thermo.output.plots import node_style
     return node_style(node)[2]
+
+
+def _envelope_by_loop(x, y, max_points):
+    """The envelope written out run by run: ``numpy.argmin``/``numpy.argmax`` of each run (their
+    documented first-occurrence rule, NaN first), as the plots drew it before it was vectorised."""
+    import numpy as np
+    if x.size <= max_points:
+        return x, y
+    edges = np.linspace(0, x.size, max_points // 2 + 1).astype(int)
+    keep = []
+    for a, b in zip(edges[:-1], edges[1:]):
+        if b > a:
+            keep += sorted({a + int(np.argmin(y[a:b])), a + int(np.argmax(y[a:b]))})
+    return x[keep], y[keep]
+
+
+@pytest.mark.parametrize("n", [10, 3000, 3001, 4999, 96740])
+@pytest.mark.parametrize("kind", ["noise", "ties", "nan", "flat", "spike"])
+def test_envelope_keeps_every_extreme_and_its_time(n, kind):
+    """Issue 14: the thinned series keeps the series' highest and lowest sample, at their times,
+    in every run of samples (checked against the per-run numpy.argmin/argmax loop), in time order."""
+    import numpy as np
+    from thermo.output.plots import envelope
+    rng = np.random.default_rng(n)
+    x = np.arange(n) * 0.1
+    y = {"noise": rng.normal(size=n), "ties": np.round(rng.normal(size=n), 1), "nan": rng.normal(size=n),
+         "flat": np.full(n, 300.0), "spike": np.zeros(n)}[kind]
+    if kind == "nan":
+        y[rng.integers(0, n, 5)] = np.nan
+    if kind == "spike":
+        y[n // 3], y[n // 2] = 1000.0, -1000.0           # one sample high, one low: both must survive
+    for max_points in (3000, 3001, 7):
+        ex, ey = envelope(x, y, max_points)
+        rx, ry = _envelope_by_loop(x, y, max_points)
+        assert np.array_equal(ex, rx) and np.array_equal(ey, ry, equal_nan=True)
+        assert ex.size <= max_points and np.all(np.diff(ex) > 0)
+        if kind != "nan":
+            assert ey.max() == y.max() and ex[np.argmax(ey)] == x[np.argmax(y)]
+            assert ey.min() == y.min() and ex[np.argmin(ey)] == x[np.argmin(y)]

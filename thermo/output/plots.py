@@ -111,18 +111,31 @@ MAX_PLOT_POINTS = 3000     # per line: longer series are drawn as their envelope
 
 def envelope(x: np.ndarray, y: np.ndarray, max_points: int = MAX_PLOT_POINTS) -> tuple[np.ndarray, np.ndarray]:
     """A long series thinned for drawing: in each of ``max_points // 2`` equal runs of samples,
-    the lowest and the highest sample in their time order, so peaks and troughs stay drawn."""
+    the lowest and the highest sample in their time order, so peaks and troughs stay drawn.
+
+    Within a run the first lowest and the first highest sample are kept (as ``numpy.argmin`` and
+    ``numpy.argmax`` pick them; a NaN counts as both, as there); a run whose lowest and highest
+    sample are one sample keeps it once."""
     x, y = np.asarray(x), np.asarray(y)
     if x.size <= max_points:
         return x, y
     buckets = max_points // 2
     edges = np.linspace(0, x.size, buckets + 1).astype(int)
-    keep = []
-    for a, b in zip(edges[:-1], edges[1:]):
-        if b > a:
-            lo, hi = a + int(np.argmin(y[a:b])), a + int(np.argmax(y[a:b]))
-            keep += sorted({lo, hi})
-    keep = np.asarray(keep)
+    starts = np.unique(edges[:-1][edges[1:] > edges[:-1]])      # the runs that hold samples
+    sizes = np.diff(np.append(starts, x.size))
+    nan = np.isnan(y) if y.dtype.kind == "f" else np.zeros(y.shape, dtype=bool)
+
+    def first(reduce) -> np.ndarray:
+        """Index of each run's first sample equal to the run's reduction (NaN matching NaN)."""
+        extreme = np.repeat(reduce.reduceat(y, starts), sizes)
+        hits = np.flatnonzero((y == extreme) | ((nan & np.isnan(extreme)) if nan.any() else False))
+        return hits[np.searchsorted(hits, starts)]
+
+    lo, hi = first(np.minimum), first(np.maximum)
+    keep = np.column_stack([np.minimum(lo, hi), np.maximum(lo, hi)]).ravel()
+    once = np.ones(keep.size, dtype=bool)
+    once[1::2] = lo != hi
+    keep = keep[once]
     return x[keep], y[keep]
 
 
