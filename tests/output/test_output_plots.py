@@ -159,3 +159,23 @@ def test_envelope_keeps_every_extreme_and_its_time(n, kind):
         if kind != "nan":
             assert ey.max() == y.max() and ex[np.argmax(ey)] == x[np.argmax(y)]
             assert ey.min() == y.min() and ex[np.argmin(ey)] == x[np.argmin(y)]
+
+
+def test_a_figure_drawn_twice_draws_as_a_fresh_one(factory, tmp_path):
+    """Issue 14: `--out` draws each run figure once as PNG and once as the report's SVG; the second
+    drawing must not move the layout (constrained layout starts from where the last draw left the
+    axes), so both equal the drawing of a freshly built figure, byte for byte."""
+    from thermo.output.plots import run_figures, save_png, svg_text
+    results = factory.results(dt=10.0)
+    names = []
+    for name, make in run_figures(results):
+        names.append(name)
+        fresh_svg = svg_text(make())
+        save_png(make(), tmp_path / f"fresh_{name}")
+        figure = make()
+        save_png(figure, tmp_path / name)
+        assert svg_text(figure) == fresh_svg
+        save_png(figure, tmp_path / f"again_{name}")
+        assert (tmp_path / name).read_bytes() == (tmp_path / f"fresh_{name}").read_bytes()
+        assert (tmp_path / f"again_{name}").read_bytes() == (tmp_path / f"fresh_{name}").read_bytes()
+    assert names == ["temperatures_front_left.png", "temperatures_rear_left.png", "lap_peaks.png", "heat_paths.png"]

@@ -4,6 +4,8 @@ Every figure labels its axes with units, has a title and a legend, and is writte
 """
 from __future__ import annotations
 
+import contextlib
+from collections.abc import Callable, Iterator
 from pathlib import Path
 
 import numpy as np
@@ -34,6 +36,31 @@ def _new_figure(width: float = 10.0, height: float = 5.5) -> Figure:
     return figure
 
 
+@contextlib.contextmanager
+def _drawn_as_built(figure: Figure):
+    """Draw ``figure`` from the layout it was built with, and leave it so.
+
+    Constrained layout places the axes and the figure title from where they stand when a draw
+    starts, so a figure drawn a second time (the PNG, then the report's SVG) came out a fraction
+    of a point apart from one drawn once. Putting back what the layout moves (every axes'
+    position, the figure-level titles' position and alignment) after each draw makes every
+    drawing of a figure the same as the first one of a fresh figure.
+    """
+    axes = [(a, a._originalPosition.frozen(), a._position.frozen()) for a in figure.axes]
+    texts = [(t, t.get_position(), t.get_horizontalalignment(), t.get_verticalalignment())
+             for t in (figure._suptitle, figure._supxlabel, figure._supylabel) if t is not None]
+    try:
+        yield figure
+    finally:
+        for a, original, active in axes:
+            a._set_position(original, which="original")
+            a._set_position(active, which="active")
+        for t, position, horizontal, vertical in texts:
+            t.set_position(position)
+            t.set_horizontalalignment(horizontal)
+            t.set_verticalalignment(vertical)
+
+
 def save_png(figure: Figure, path: Path) -> Path:
     """Write ``figure`` atomically as PNG, every text drawn literally.
 
@@ -42,10 +69,9 @@ def save_png(figure: Figure, path: Path) -> Path:
     """
     for text in figure.findobj(Text):
         text.set_parse_math(False)
-    with atomic_write(path, "wb") as handle:
+    with _drawn_as_built(figure), atomic_write(path, "wb") as handle:
         figure.savefig(handle, format="png", dpi=DPI)
     return path
-
 
 
 def svg_text(figure: Figure) -> str:
@@ -57,8 +83,8 @@ def svg_text(figure: Figure) -> str:
         text.set_parse_math(False)
     import re
     buffer = io.StringIO()
-    with rc_context({"svg.fonttype": "none", "svg.hashsalt": "brakeheat"}):      # stable ids: same run, same page
-        figure.savefig(buffer, format="svg", metadata={"Date": None})
+    with _drawn_as_built(figure), rc_context({"svg.fonttype": "none", "svg.hashsalt": "brakeheat"}):
+        figure.savefig(buffer, format="svg", metadata={"Date": None})      # stable ids: same run, same page
     svg = buffer.getvalue()
     svg = svg[svg.index("<svg"):]
     # the RDF metadata block and its name spaces: nothing a page needs, and links to nowhere useful
@@ -316,7 +342,21 @@ def heat_paths_figure(results: Results) -> Figure:
     return figure
 
 
-def plot_run(results: Results, out_dir) -> list[Path]:
+def run_figures(results: Results) -> Iterator[tuple[str, Callable[[], Figure]]]:
+    """(PNG file name, maker of the figure) of each plot of a run, in order: one temperature plot
+    per corner, the lap peak plot (when the run has laps), the heat path plot (when heat left
+    through a named group). The PNG files and the report's inline plots are these figures."""
+    # fixed file names (a promise to users' scripts, listed in README); the scenario name is in the titles
+    for c in results.corners:
+        yield (f"temperatures_{_safe(c.name)}.png",
+               lambda c=c: corner_temperature_figure(c, f"{results.scenario_name} "))
+    if any(c.laps for c in results.corners):
+        yield "lap_peaks.png", lambda: lap_peaks_figure(results)
+    if any(heat_path_shares(c) for c in results.corners):
+        yield "heat_paths.png", lambda: heat_paths_figure(results)
+
+
+def plot_run(results: Results, out_dir, svg: list[str] | None = None) -> list[Path]:
     """Write the run's plots as PNG files into ``out_dir`` (created if missing).
 
     Parameters
@@ -325,6 +365,9 @@ def plot_run(results: Results, out_dir) -> list[Path]:
         A finished run [-]
     out_dir : str or os.PathLike
         Folder for the PNG files [-]
+    svg : list of str, optional
+        When given, each figure is also drawn as SVG (``svg_text``) and appended to it, from the
+        same figure: the report's plots without building them a second time [-]
 
     Returns
     -------
@@ -334,13 +377,12 @@ def plot_run(results: Results, out_dir) -> list[Path]:
     """
     out = Path(out_dir)
     out.mkdir(parents=True, exist_ok=True)
-    # fixed file names (a promise to users' scripts, listed in README); the scenario name is in the titles
-    written = [plot_corner_temperatures(c, out / f"temperatures_{_safe(c.name)}.png", f"{results.scenario_name} ")
-               for c in results.corners]
-    if any(c.laps for c in results.corners):
-        written.append(plot_lap_peaks(results, out / "lap_peaks.png"))
-    if any(heat_path_shares(c) for c in results.corners):
-        written.append(plot_heat_paths(results, out / "heat_paths.png"))
+    written = []
+    for name, make in run_figures(results):
+        figure = make()
+        written.append(save_png(figure, out / name))
+        if svg is not None:
+            svg.append(svg_text(figure))
     return written
 
 
