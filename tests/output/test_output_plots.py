@@ -179,3 +179,47 @@ def test_a_figure_drawn_twice_draws_as_a_fresh_one(factory, tmp_path):
         assert (tmp_path / name).read_bytes() == (tmp_path / f"fresh_{name}").read_bytes()
         assert (tmp_path / f"again_{name}").read_bytes() == (tmp_path / f"fresh_{name}").read_bytes()
     assert names == ["temperatures_front_left.png", "temperatures_rear_left.png", "lap_peaks.png", "heat_paths.png"]
+
+
+def _mark_phases_one_patch_each(axes, corner, label, unit_s=60.0):
+    """The phase shading as it was drawn before issue 14: one ``axvspan`` per phase (matplotlib's
+    own span artist, the reference for the collections that replaced it)."""
+    from thermo.output.plots import PHASE_SHADES
+    used = set()
+    for phase in corner.phases:
+        if phase.kind in PHASE_SHADES:
+            colour, name = PHASE_SHADES[phase.kind]
+            axes.axvspan(phase.t_start_s / unit_s, phase.t_end_s / unit_s, color=colour, alpha=0.12,
+                         label=name if label and phase.kind not in used else None)
+            used.add(phase.kind)
+    if corner.stop_time_s is not None:
+        axes.axvline(corner.stop_time_s / unit_s, color="black", linestyle=":", linewidth=1.2,
+                     label="car stops" if label else None)
+
+
+def test_phase_shading_draws_as_one_span_per_phase(factory, tmp_path, monkeypatch):
+    """Issue 14: the shaded phases are one collection per kind; the PNG is the one matplotlib's
+    axvspan per phase drew, byte for byte (in-laps and pit stops side by side, a soak running past
+    the last stored sample so the time axis must widen to hold it), and the legend names each
+    kind once."""
+    import dataclasses
+    from thermo.output import plots
+    from thermo.results import PhaseSpan
+    results = factory.results(dt=10.0)
+    spans = [PhaseSpan("out lap", "out_lap", 0.0, 60.0)]
+    for k in range(5):                                   # in lap, then its pit stop, five times
+        start = 100.0 + 120.0 * k
+        spans += [PhaseSpan(f"in {k}", "in_lap", start, start + 50.0), PhaseSpan(f"stop {k}", "pit_stop", start + 50.0,
+                                                                                   start + 70.0)]
+    spans += [PhaseSpan("safety car", "safety_car", 700.0, 760.0), PhaseSpan("soak", "soak", 900.0, 1500.0)]
+    corner = dataclasses.replace(results.corners[0], phases=tuple(spans))
+    plots.save_png(plots.corner_temperature_figure(corner, "t "), tmp_path / "collections.png")
+    figure = plots.corner_temperature_figure(corner, "t ")
+    monkeypatch.setattr(plots, "_mark_phases", _mark_phases_one_patch_each)
+    plots.save_png(plots.corner_temperature_figure(corner, "t "), tmp_path / "patches.png")
+    assert (tmp_path / "collections.png").read_bytes() == (tmp_path / "patches.png").read_bytes()
+    top = figure.axes[0]
+    labels = top.get_legend_handles_labels()[1]
+    assert [x for x in labels if x in ("in lap", "pit stop", "safety car", "soak (car stopped)")] == [
+        "in lap", "pit stop", "safety car", "soak (car stopped)"]
+    assert all(a.get_xlim()[1] >= 1500.0 / 60.0 for a in figure.axes)

@@ -191,14 +191,23 @@ def _time_unit(corner: CornerResult) -> tuple[float, str]:
 
 
 def _mark_phases(axes, corner: CornerResult, label: bool, unit_s: float = MINUTE) -> None:
-    used = set()
+    """Shade the phases of the kinds in PHASE_SHADES across the whole height of ``axes`` and mark
+    the stop. The spans of one kind are one collection (a 24-hour run has a hundred spans per
+    panel; one artist each made drawing slow), drawn as ``axvspan`` draws each span."""
+    from matplotlib.collections import PolyCollection
+    spans: dict[str, list] = {}
     for phase in corner.phases:
-        if phase.kind not in PHASE_SHADES:
-            continue
-        colour, name = PHASE_SHADES[phase.kind]
-        axes.axvspan(phase.t_start_s / unit_s, phase.t_end_s / unit_s, color=colour, alpha=0.12,
-                     label=name if label and phase.kind not in used else None)
-        used.add(phase.kind)
+        if phase.kind in PHASE_SHADES:
+            a, b = phase.t_start_s / unit_s, phase.t_end_s / unit_s
+            spans.setdefault(phase.kind, []).append([(a, 0.0), (b, 0.0), (b, 1.0), (a, 1.0)])   # as axvspan's
+    for kind, verts in spans.items():
+        colour, name = PHASE_SHADES[kind]
+        shade = PolyCollection(verts, facecolors=colour, edgecolors=colour, alpha=0.12, joinstyle="miter",
+                               transform=axes.get_xaxis_transform(), label=name if label else None)
+        axes.add_collection(shade, autolim=False)
+        axes.update_datalim([(min(v[0][0] for v in verts), 0.0), (max(v[1][0] for v in verts), 0.0)],
+                            updatey=False)
+        axes.autoscale_view(scaley=False)
     if corner.stop_time_s is not None:
         axes.axvline(corner.stop_time_s / unit_s, color="black", linestyle=":", linewidth=1.2,
                      label="car stops" if label else None)
