@@ -63,6 +63,7 @@ def run_and_report(path: Path, args) -> int:
     # what the solve leaves alive (the results, the models) stays alive while the results are
     # written: kept out of the garbage collector's full passes, which the plots' many short-lived
     # objects set off (a quarter of a second on a 24-hour run), and handed back after
+    gc.collect()
     gc.freeze()
     try:
         _write_and_print(results, args)
