@@ -44,7 +44,9 @@ def _drawn_as_built(figure: Figure):
     starts, so a figure drawn a second time (the PNG, then the report's SVG) came out a fraction
     of a point apart from one drawn once. Putting back what the layout moves (every axes'
     position, the figure-level titles' position and alignment) after each draw makes every
-    drawing of a figure the same as the first one of a fresh figure.
+    drawing of a figure the same as the first one of a fresh figure. The positions are matplotlib's
+    own attributes (3.11); tests/output/test_output_plots.py compares the files with a fresh
+    figure's, byte for byte, so a matplotlib that moves them fails there.
     """
     axes = [(a, a._originalPosition.frozen(), a._position.frozen()) for a in figure.axes]
     texts = [(t, t.get_position(), t.get_horizontalalignment(), t.get_verticalalignment())
@@ -222,7 +224,7 @@ def _time_unit(corner: CornerResult) -> tuple[float, str]:
 
 def _mark_phases(axes, corner: CornerResult, label: bool, unit_s: float = MINUTE) -> None:
     """Shade the phases of the kinds in PHASE_SHADES across the whole height of ``axes`` and mark
-    the stop. The spans of one kind are one collection (a 24-hour run has a hundred spans per
+    the stop. The spans of one kind are one collection (a 24-hour run has about 60 spans a
     panel; one artist each made drawing slow), drawn as ``axvspan`` draws each span."""
     from matplotlib.collections import PolyCollection
     spans: dict[str, list] = {}
