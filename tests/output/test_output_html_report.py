@@ -107,3 +107,16 @@ def load_in_chromium(path, tmp_path) -> str:
     from matplotlib.image import imread
     assert imread(shot).std() > 0.05               # not blank: text, tables and plots drawn
     return dom.stdout
+
+
+def test_the_report_of_an_output_set_carries_the_same_plots(factory, tmp_path):
+    """Issue 14: `--out` hands the report the SVG of the figures it drew as PNG; the page is the one
+    the report draws on its own (a fixed time stamp so the pages compare whole)."""
+    import datetime
+    from thermo.output.plots import plot_run
+    results = factory.results(dt=10.0)
+    when = datetime.datetime(2024, 5, 1, 12, 0, tzinfo=datetime.timezone.utc)
+    svg = []
+    plot_run(results, tmp_path, svg=svg)
+    assert len(svg) == 4 and all(s.startswith("<svg") for s in svg)
+    assert report_html(results, generated=when, svg=svg) == report_html(results, generated=when)

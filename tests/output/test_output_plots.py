@@ -120,3 +120,133 @@ def test_the_temperature_figure_reads_at_a_glance():
 def _word(node):
     from thermo.output.plots import node_style
     return node_style(node)[2]
+
+
+def _envelope_by_loop(x, y, max_points):
+    """The envelope written out run by run: ``numpy.argmin``/``numpy.argmax`` of each run (their
+    documented first-occurrence rule, NaN first), as the plots drew it before it was vectorised."""
+    import numpy as np
+    if x.size <= max_points:
+        return x, y
+    edges = np.linspace(0, x.size, max_points // 2 + 1).astype(int)
+    keep = []
+    for a, b in zip(edges[:-1], edges[1:]):
+        if b > a:
+            keep += sorted({a + int(np.argmin(y[a:b])), a + int(np.argmax(y[a:b]))})
+    return x[keep], y[keep]
+
+
+@pytest.mark.parametrize("n", [10, 3000, 3001, 4999, 96740])
+@pytest.mark.parametrize("kind", ["noise", "ties", "nan", "flat", "spike"])
+def test_envelope_keeps_every_extreme_and_its_time(n, kind):
+    """Issue 14: the thinned series keeps the series' highest and lowest sample, at their times,
+    in every run of samples (checked against the per-run numpy.argmin/argmax loop), in time order."""
+    import numpy as np
+    from thermo.output.plots import envelope
+    rng = np.random.default_rng(n)
+    x = np.arange(n) * 0.1
+    y = {"noise": rng.normal(size=n), "ties": np.round(rng.normal(size=n), 1), "nan": rng.normal(size=n),
+         "flat": np.full(n, 300.0), "spike": np.zeros(n)}[kind]
+    if kind == "nan":
+        y[rng.integers(0, n, 5)] = np.nan
+    if kind == "spike":
+        y[n // 3], y[n // 2] = 1000.0, -1000.0           # one sample high, one low: both must survive
+    for max_points in (3000, 3001, 7):
+        ex, ey = envelope(x, y, max_points)
+        rx, ry = _envelope_by_loop(x, y, max_points)
+        assert np.array_equal(ex, rx) and np.array_equal(ey, ry, equal_nan=True)
+        assert ex.size <= max_points and np.all(np.diff(ex) > 0)
+        if kind != "nan":
+            assert ey.max() == y.max() and ex[np.argmax(ey)] == x[np.argmax(y)]
+            assert ey.min() == y.min() and ex[np.argmin(ey)] == x[np.argmin(y)]
+
+
+def _mark_phases_one_patch_each(axes, corner, label, unit_s=60.0):
+    """The phase shading as it was drawn before issue 14: one ``axvspan`` per phase (matplotlib's
+    own span artist, the reference for the collections that replaced it)."""
+    from thermo.output.plots import PHASE_SHADES
+    used = set()
+    for phase in corner.phases:
+        if phase.kind in PHASE_SHADES:
+            colour, name = PHASE_SHADES[phase.kind]
+            axes.axvspan(phase.t_start_s / unit_s, phase.t_end_s / unit_s, color=colour, alpha=0.12,
+                         label=name if label and phase.kind not in used else None)
+            used.add(phase.kind)
+    if corner.stop_time_s is not None:
+        axes.axvline(corner.stop_time_s / unit_s, color="black", linestyle=":", linewidth=1.2,
+                     label="car stops" if label else None)
+
+
+def test_phase_shading_draws_as_one_span_per_phase(factory, tmp_path, monkeypatch):
+    """Issue 14: the shaded phases are one collection per kind; the PNG is the one matplotlib's
+    axvspan per phase drew, byte for byte (in-laps and pit stops side by side, a soak running past
+    the last stored sample so the time axis must widen to hold it), and the legend names each
+    kind once."""
+    import dataclasses
+    from thermo.output import plots
+    from thermo.results import PhaseSpan
+    results = factory.results(dt=10.0)
+    spans = [PhaseSpan("out lap", "out_lap", 0.0, 60.0)]
+    for k in range(5):                                   # in lap, then its pit stop, five times
+        start = 100.0 + 120.0 * k
+        spans += [PhaseSpan(f"in {k}", "in_lap", start, start + 50.0), PhaseSpan(f"stop {k}", "pit_stop", start + 50.0,
+                                                                                   start + 70.0)]
+    spans += [PhaseSpan("safety car", "safety_car", 700.0, 760.0), PhaseSpan("soak", "soak", 900.0, 1500.0)]
+    corner = dataclasses.replace(results.corners[0], phases=tuple(spans))
+    plots.save_png(plots.corner_temperature_figure(corner, "t "), tmp_path / "collections.png")
+    figure = plots.corner_temperature_figure(corner, "t ")
+    monkeypatch.setattr(plots, "_mark_phases", _mark_phases_one_patch_each)
+    plots.save_png(plots.corner_temperature_figure(corner, "t "), tmp_path / "patches.png")
+    assert (tmp_path / "collections.png").read_bytes() == (tmp_path / "patches.png").read_bytes()
+    top = figure.axes[0]
+    labels = top.get_legend_handles_labels()[1]
+    assert [x for x in labels if x in ("in lap", "pit stop", "safety car", "soak (car stopped)")] == [
+        "in lap", "pit stop", "safety car", "soak (car stopped)"]
+    assert all(a.get_xlim()[1] >= 1500.0 / 60.0 for a in figure.axes)
+
+
+def _matplotlib_png_and_svg(make):
+    """A fresh figure from ``make`` saved by matplotlib's own ``savefig`` (its layout run inside a
+    draw with drawing switched off) as PNG bytes, and another as SVG text, with the options and the
+    clean-up of ``save_png`` and ``svg_text`` as they were before issue 14."""
+    import io
+    import re
+    from matplotlib import rc_context
+    from matplotlib.text import Text
+    from thermo.output.plots import DPI
+    figures = [make(), make()]
+    for figure in figures:
+        for text in figure.findobj(Text):
+            text.set_parse_math(False)
+    png = io.BytesIO()
+    figures[0].savefig(png, format="png", dpi=DPI)
+    buffer = io.StringIO()
+    with rc_context({"svg.fonttype": "none", "svg.hashsalt": "brakeheat"}):
+        figures[1].savefig(buffer, format="svg", metadata={"Date": None})
+    svg = buffer.getvalue()
+    svg = re.sub(r"<metadata>.*?</metadata>\s*", "", svg[svg.index("<svg"):], flags=re.S)
+    return png.getvalue(), re.sub(r'\s+xmlns:(dc|cc|rdf)="[^"]*"', "", svg)
+
+
+def test_plots_are_matplotlibs_own_files_byte_for_byte(factory, tmp_path):
+    """Issue 14: the plots run constrained layout on its own and draw once, and `--out` draws each
+    run figure twice (its PNG, then the report's SVG). The PNG and the SVG are the files
+    matplotlib's savefig writes for a fresh figure (the reference), whatever was drawn before
+    (constrained layout starts from where the last draw left the axes: without putting them back
+    a second drawing came out a fraction of a point apart), for a temperature plot (panels, a twin
+    axis, a figure title), the lap peak and heat path plots and the comparison's bars."""
+    from thermo.output.plots import margin_gain_figure, run_figures, save_png, svg_text
+    results = factory.results(dt=10.0)
+    runs = dict(run_figures(results))
+    assert list(runs) == ["temperatures_front_left.png", "temperatures_rear_left.png", "lap_peaks.png",
+                          "heat_paths.png"]
+    variants = [("baseline", results), ("bigger duct", factory.results(scale_rear=0.6, dt=10.0))]
+    makers = [runs["temperatures_front_left.png"], runs["lap_peaks.png"], runs["heat_paths.png"],
+              lambda: margin_gain_figure(variants)]
+    for k, make in enumerate(makers):
+        png, svg = _matplotlib_png_and_svg(make)
+        figure = make()
+        assert save_png(figure, tmp_path / f"{k}.png").read_bytes() == png
+        assert svg_text(figure) == svg
+        assert save_png(figure, tmp_path / f"{k}.png").read_bytes() == png
+        assert figure.get_layout_engine() is not None and figure.canvas.figure is figure   # left as it was

@@ -18,9 +18,11 @@ def _write_run_files(results: Results, out: Path) -> list[Path]:
     write_summary_json(results, out / "summary.json")
     write_laps_csv(results, out / "laps.csv")
     write_checks_csv(results, out / "checks.csv")
-    write_report_html(results, out / "report.html")
+    svg: list[str] = []
+    plots = plot_run(results, out, svg=svg)        # each figure built once, drawn as PNG and as the report's SVG
+    write_report_html(results, out / "report.html", svg=svg)
     return [out / "results.h5", out / "summary.json", out / "laps.csv", out / "checks.csv", out / "report.html",
-            *plot_run(results, out)]
+            *plots]
 
 
 def write_outputs(results: Results, out_dir, command: str = "run") -> Path:

@@ -146,19 +146,17 @@ def _hydraulics(h: dict | None) -> str:
                           "torque [N m/bar]", "fluid [cm3/mm]", "leading/trailing"], rows, numeric=(1, 2, 3, 4, 5, 6))
 
 
-def _figures(results: Results) -> str:
-    from thermo.output.plots import corner_temperature_figure, heat_paths_figure, lap_peaks_figure, svg_text
-    parts = [f"<figure>{svg_text(corner_temperature_figure(c, results.scenario_name + ' '))}</figure>"
-             for c in results.corners]
-    if any(c.laps for c in results.corners):
-        parts.append(f"<figure>{svg_text(lap_peaks_figure(results))}</figure>")
-    if any(heat_path_shares(c) for c in results.corners):
-        parts.append(f"<figure>{svg_text(heat_paths_figure(results))}</figure>")
-    return "".join(parts)
+def _figures(results: Results, svg: list[str] | None = None) -> str:
+    from thermo.output.plots import run_figures, svg_text
+    if svg is None:
+        svg = [svg_text(make()) for _, make in run_figures(results)]
+    return "".join(f"<figure>{figure}</figure>" for figure in svg)
 
 
-def report_html(results: Results, *, generated: datetime.datetime | None = None, plots: bool = True) -> str:
-    """The whole report as one HTML document (see the module notes)."""
+def report_html(results: Results, *, generated: datetime.datetime | None = None, plots: bool = True,
+                svg: list[str] | None = None) -> str:
+    """The whole report as one HTML document (see the module notes). ``svg``: the run's plots
+    already drawn (``thermo.output.plots.plot_run`` fills such a list), else they are drawn here."""
     when = (generated or datetime.datetime.now(datetime.timezone.utc)).strftime("%Y-%m-%d %H:%M UTC")
     caution = caution_box(results.caution or CAUTION)
     overrides = html_overrides(results.overrides)
@@ -171,7 +169,7 @@ def report_html(results: Results, *, generated: datetime.datetime | None = None,
     for corner in results.corners:
         parts += [f"<h3>Corner {escape_html(corner.name)}</h3>", _verdicts(corner)]
     if plots:
-        parts += ["<h2>Plots</h2>", _figures(results)]
+        parts += ["<h2>Plots</h2>", _figures(results, svg)]
     for corner in results.corners:
         parts += [f"<h2>Corner {escape_html(corner.name)}</h2>", "<h3>Per-lap maxima</h3>", _laps(corner),
                   "<h3>Heat soak after the stop</h3>", _soak(corner), "<h3>Pad wear</h3>", _pads(corner),

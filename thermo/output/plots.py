@@ -4,6 +4,8 @@ Every figure labels its axes with units, has a title and a legend, and is writte
 """
 from __future__ import annotations
 
+import contextlib
+from collections.abc import Callable, Iterator
 from pathlib import Path
 
 import numpy as np
@@ -34,6 +36,63 @@ def _new_figure(width: float = 10.0, height: float = 5.5) -> Figure:
     return figure
 
 
+@contextlib.contextmanager
+def _drawn_as_built(figure: Figure):
+    """Draw ``figure`` from the layout it was built with, and leave it so.
+
+    Constrained layout places the axes and the figure title from where they stand when a draw
+    starts, so a figure drawn a second time (the PNG, then the report's SVG) came out a fraction
+    of a point apart from one drawn once. Putting back what the layout moves (every axes'
+    position, the figure-level titles' position and alignment) after each draw makes every
+    drawing of a figure the same as the first one of a fresh figure. The positions are matplotlib's
+    own attributes (3.11); tests/output/test_output_plots.py compares the files with a fresh
+    figure's, byte for byte, so a matplotlib that moves them fails there.
+    """
+    axes = [(a, a._originalPosition.frozen(), a._position.frozen()) for a in figure.axes]
+    texts = [(t, t.get_position(), t.get_horizontalalignment(), t.get_verticalalignment())
+             for t in (figure._suptitle, figure._supxlabel, figure._supylabel) if t is not None]
+    try:
+        yield figure
+    finally:
+        for a, original, active in axes:
+            a._set_position(original, which="original")
+            a._set_position(active, which="active")
+        for t, position, horizontal, vertical in texts:
+            t.set_position(position)
+            t.set_horizontalalignment(horizontal)
+            t.set_verticalalignment(vertical)
+
+
+def _savefig(figure: Figure, target, fmt: str, **options) -> None:
+    """``figure.savefig(target, format=fmt, **options)``, the constrained layout run on its own first.
+
+    Before a figure with a layout engine is saved, matplotlib draws it once with drawing switched
+    off: the layout needs the sizes of the texts, and every artist is then walked to no effect,
+    about a quarter of the time of a saved plot. Here the layout is run alone, as that first draw
+    runs it (an SVG measured at 72 dots per inch by the SVG writer's own renderer, a PNG by the
+    Agg canvas at the figure's dots per inch), and the figure is saved without a layout engine,
+    so it is drawn once. The files are the same as matplotlib's own, byte for byte (tested).
+    """
+    engine = figure.get_layout_engine()
+    if engine is None:
+        figure.savefig(target, format=fmt, **options)
+        return
+    canvas, dpi = figure.canvas, figure.dpi
+    try:
+        if fmt == "svg":
+            from matplotlib.backends.backend_svg import FigureCanvasSVG
+            FigureCanvasSVG(figure)                   # the renderer the layout measures with: the SVG writer's
+            figure.dpi = 72                           # as the SVG writer draws
+        engine.execute(figure)
+        figure.dpi = dpi
+        figure.set_layout_engine(None)
+        figure.savefig(target, format=fmt, **options)
+    finally:
+        figure.dpi = dpi
+        figure.set_layout_engine(engine)
+        figure.set_canvas(canvas)
+
+
 def save_png(figure: Figure, path: Path) -> Path:
     """Write ``figure`` atomically as PNG, every text drawn literally.
 
@@ -42,10 +101,9 @@ def save_png(figure: Figure, path: Path) -> Path:
     """
     for text in figure.findobj(Text):
         text.set_parse_math(False)
-    with atomic_write(path, "wb") as handle:
-        figure.savefig(handle, format="png", dpi=DPI)
+    with _drawn_as_built(figure), atomic_write(path, "wb") as handle:
+        _savefig(figure, handle, "png", dpi=DPI)
     return path
-
 
 
 def svg_text(figure: Figure) -> str:
@@ -57,8 +115,8 @@ def svg_text(figure: Figure) -> str:
         text.set_parse_math(False)
     import re
     buffer = io.StringIO()
-    with rc_context({"svg.fonttype": "none", "svg.hashsalt": "brakeheat"}):      # stable ids: same run, same page
-        figure.savefig(buffer, format="svg", metadata={"Date": None})
+    with _drawn_as_built(figure), rc_context({"svg.fonttype": "none", "svg.hashsalt": "brakeheat"}):
+        _savefig(figure, buffer, "svg", metadata={"Date": None})      # stable ids: same run, same page
     svg = buffer.getvalue()
     svg = svg[svg.index("<svg"):]
     # the RDF metadata block and its name spaces: nothing a page needs, and links to nowhere useful
@@ -111,18 +169,31 @@ MAX_PLOT_POINTS = 3000     # per line: longer series are drawn as their envelope
 
 def envelope(x: np.ndarray, y: np.ndarray, max_points: int = MAX_PLOT_POINTS) -> tuple[np.ndarray, np.ndarray]:
     """A long series thinned for drawing: in each of ``max_points // 2`` equal runs of samples,
-    the lowest and the highest sample in their time order, so peaks and troughs stay drawn."""
+    the lowest and the highest sample in their time order, so peaks and troughs stay drawn.
+
+    Within a run the first lowest and the first highest sample are kept (as ``numpy.argmin`` and
+    ``numpy.argmax`` pick them; a NaN counts as both, as there); a run whose lowest and highest
+    sample are one sample keeps it once."""
     x, y = np.asarray(x), np.asarray(y)
     if x.size <= max_points:
         return x, y
     buckets = max_points // 2
     edges = np.linspace(0, x.size, buckets + 1).astype(int)
-    keep = []
-    for a, b in zip(edges[:-1], edges[1:]):
-        if b > a:
-            lo, hi = a + int(np.argmin(y[a:b])), a + int(np.argmax(y[a:b]))
-            keep += sorted({lo, hi})
-    keep = np.asarray(keep)
+    starts = np.unique(edges[:-1][edges[1:] > edges[:-1]])      # the runs that hold samples
+    sizes = np.diff(np.append(starts, x.size))
+    nan = np.isnan(y) if y.dtype.kind == "f" else np.zeros(y.shape, dtype=bool)
+
+    def first(reduce) -> np.ndarray:
+        """Index of each run's first sample equal to the run's reduction (NaN matching NaN)."""
+        extreme = np.repeat(reduce.reduceat(y, starts), sizes)
+        hits = np.flatnonzero((y == extreme) | ((nan & np.isnan(extreme)) if nan.any() else False))
+        return hits[np.searchsorted(hits, starts)]
+
+    lo, hi = first(np.minimum), first(np.maximum)
+    keep = np.column_stack([np.minimum(lo, hi), np.maximum(lo, hi)]).ravel()
+    once = np.ones(keep.size, dtype=bool)
+    once[1::2] = lo != hi
+    keep = keep[once]
     return x[keep], y[keep]
 
 
@@ -152,14 +223,23 @@ def _time_unit(corner: CornerResult) -> tuple[float, str]:
 
 
 def _mark_phases(axes, corner: CornerResult, label: bool, unit_s: float = MINUTE) -> None:
-    used = set()
+    """Shade the phases of the kinds in PHASE_SHADES across the whole height of ``axes`` and mark
+    the stop. The spans of one kind are one collection (a 24-hour run has about 60 spans a
+    panel; one artist each made drawing slow), drawn as ``axvspan`` draws each span."""
+    from matplotlib.collections import PolyCollection
+    spans: dict[str, list] = {}
     for phase in corner.phases:
-        if phase.kind not in PHASE_SHADES:
-            continue
-        colour, name = PHASE_SHADES[phase.kind]
-        axes.axvspan(phase.t_start_s / unit_s, phase.t_end_s / unit_s, color=colour, alpha=0.12,
-                     label=name if label and phase.kind not in used else None)
-        used.add(phase.kind)
+        if phase.kind in PHASE_SHADES:
+            a, b = phase.t_start_s / unit_s, phase.t_end_s / unit_s
+            spans.setdefault(phase.kind, []).append([(a, 0.0), (b, 0.0), (b, 1.0), (a, 1.0)])   # as axvspan's
+    for kind, verts in spans.items():
+        colour, name = PHASE_SHADES[kind]
+        shade = PolyCollection(verts, facecolors=colour, edgecolors=colour, alpha=0.12, joinstyle="miter",
+                               transform=axes.get_xaxis_transform(), label=name if label else None)
+        axes.add_collection(shade, autolim=False)
+        axes.update_datalim([(min(v[0][0] for v in verts), 0.0), (max(v[1][0] for v in verts), 0.0)],
+                            updatey=False)
+        axes.autoscale_view(scaley=False)
     if corner.stop_time_s is not None:
         axes.axvline(corner.stop_time_s / unit_s, color="black", linestyle=":", linewidth=1.2,
                      label="car stops" if label else None)
@@ -303,7 +383,21 @@ def heat_paths_figure(results: Results) -> Figure:
     return figure
 
 
-def plot_run(results: Results, out_dir) -> list[Path]:
+def run_figures(results: Results) -> Iterator[tuple[str, Callable[[], Figure]]]:
+    """(PNG file name, maker of the figure) of each plot of a run, in order: one temperature plot
+    per corner, the lap peak plot (when the run has laps), the heat path plot (when heat left
+    through a named group). The PNG files and the report's inline plots are these figures."""
+    # fixed file names (a promise to users' scripts, listed in README); the scenario name is in the titles
+    for c in results.corners:
+        yield (f"temperatures_{_safe(c.name)}.png",
+               lambda c=c: corner_temperature_figure(c, f"{results.scenario_name} "))
+    if any(c.laps for c in results.corners):
+        yield "lap_peaks.png", lambda: lap_peaks_figure(results)
+    if any(heat_path_shares(c) for c in results.corners):
+        yield "heat_paths.png", lambda: heat_paths_figure(results)
+
+
+def plot_run(results: Results, out_dir, svg: list[str] | None = None) -> list[Path]:
     """Write the run's plots as PNG files into ``out_dir`` (created if missing).
 
     Parameters
@@ -312,6 +406,9 @@ def plot_run(results: Results, out_dir) -> list[Path]:
         A finished run [-]
     out_dir : str or os.PathLike
         Folder for the PNG files [-]
+    svg : list of str, optional
+        When given, each figure is also drawn as SVG (``svg_text``) and appended to it, from the
+        same figure: the report's plots without building them a second time [-]
 
     Returns
     -------
@@ -321,13 +418,12 @@ def plot_run(results: Results, out_dir) -> list[Path]:
     """
     out = Path(out_dir)
     out.mkdir(parents=True, exist_ok=True)
-    # fixed file names (a promise to users' scripts, listed in README); the scenario name is in the titles
-    written = [plot_corner_temperatures(c, out / f"temperatures_{_safe(c.name)}.png", f"{results.scenario_name} ")
-               for c in results.corners]
-    if any(c.laps for c in results.corners):
-        written.append(plot_lap_peaks(results, out / "lap_peaks.png"))
-    if any(heat_path_shares(c) for c in results.corners):
-        written.append(plot_heat_paths(results, out / "heat_paths.png"))
+    written = []
+    for name, make in run_figures(results):
+        figure = make()
+        written.append(save_png(figure, out / name))
+        if svg is not None:
+            svg.append(svg_text(figure))
     return written
 
 
