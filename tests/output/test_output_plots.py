@@ -250,3 +250,17 @@ def test_plots_are_matplotlibs_own_files_byte_for_byte(factory, tmp_path):
         assert svg_text(figure) == svg
         assert save_png(figure, tmp_path / f"{k}.png").read_bytes() == png
         assert figure.get_layout_engine() is not None and figure.canvas.figure is figure   # left as it was
+
+
+def test_a_figure_is_still_drawn_where_matplotlib_lacks_the_layout_attributes(tmp_path, monkeypatch):
+    # the layout restore reads matplotlib's own attributes; a matplotlib without them must still
+    # get its plots written (only the restore is skipped)
+    from thermo.output import plots
+
+    def lacking(figure):
+        raise AttributeError("'Axes' object has no attribute '_originalPosition'")
+    monkeypatch.setattr(plots, "_layout_state", lacking)
+    figure = plots._new_figure()
+    figure.add_subplot().plot([0, 1], [0, 1])
+    path = plots.save_png(figure, tmp_path / "p.png")
+    assert path.stat().st_size > 1000

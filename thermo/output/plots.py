@@ -46,11 +46,15 @@ def _drawn_as_built(figure: Figure):
     position, the figure-level titles' position and alignment) after each draw makes every
     drawing of a figure the same as the first one of a fresh figure. The positions are matplotlib's
     own attributes (3.11); tests/output/test_output_plots.py compares the files with a fresh
-    figure's, byte for byte, so a matplotlib that moves them fails there.
+    figure's, byte for byte, so a matplotlib that moves them fails there. Where a matplotlib lacks
+    them, the figure is drawn as it stands (a later drawing may then sit a fraction of a point
+    apart from the first), never not at all.
     """
-    axes = [(a, a._originalPosition.frozen(), a._position.frozen()) for a in figure.axes]
-    texts = [(t, t.get_position(), t.get_horizontalalignment(), t.get_verticalalignment())
-             for t in (figure._suptitle, figure._supxlabel, figure._supylabel) if t is not None]
+    try:
+        axes, texts = _layout_state(figure)
+    except AttributeError:
+        yield figure
+        return
     try:
         yield figure
     finally:
@@ -61,6 +65,15 @@ def _drawn_as_built(figure: Figure):
             t.set_position(position)
             t.set_horizontalalignment(horizontal)
             t.set_verticalalignment(vertical)
+
+
+def _layout_state(figure: Figure) -> tuple[list, list]:
+    """What constrained layout moves: each axes' original and active position, and the position and
+    alignment of the figure-level titles (matplotlib's own attributes)."""
+    axes = [(a, a._originalPosition.frozen(), a._position.frozen()) for a in figure.axes]
+    texts = [(t, t.get_position(), t.get_horizontalalignment(), t.get_verticalalignment())
+             for t in (figure._suptitle, figure._supxlabel, figure._supylabel) if t is not None]
+    return axes, texts
 
 
 def _savefig(figure: Figure, target, fmt: str, **options) -> None:
