@@ -44,26 +44,29 @@ class Schedule:
         if np.any(steps <= 0):
             i = int(np.argmax(steps <= 0)) + 1
             raise ModelError(f"schedule: time_s must be strictly increasing, sample {i} is at {shown(t[i])} s after {shown(t[i - 1])} s")
-        values = {}
-        for name, series in dict(self.signals).items():
+        given = dict(self.signals)
+        for name, series in given.items():
             if not isinstance(name, str) or not name:
                 raise ModelError(f"schedule: signal names must be non-empty strings, got {shown(name)}")
-            v = np.array(series, dtype=float)
-            if v.shape != t.shape:
-                raise ModelError(f"schedule: signal '{name}' has shape {v.shape}, expected {t.shape} like time_s")
-            if not np.all(np.isfinite(v)):
-                i = int(np.argmin(np.isfinite(v)))
-                raise ModelError(f"schedule: signal '{name}' has a non-finite value at sample {i} (t = {t[i]} s)")
-            v.setflags(write=False)
-            values[name] = v
+            if np.shape(series) != t.shape:
+                raise ModelError(f"schedule: signal '{name}' has shape {np.shape(series)}, expected {t.shape} like time_s")
+        # every signal copied once into one table (a row each); the signals are its rows
+        table = np.empty((len(given), t.size))
+        for row, series in zip(table, given.values()):
+            row[:] = series
+        if not np.all(np.isfinite(table)):
+            for name, v in zip(given, table):
+                if not np.all(np.isfinite(v)):
+                    i = int(np.argmin(np.isfinite(v)))
+                    raise ModelError(f"schedule: signal '{name}' has a non-finite value at sample {i} (t = {t[i]} s)")
+        table.setflags(write=False)
         t.setflags(write=False)
         object.__setattr__(self, "time_s", t)
-        object.__setattr__(self, "signals", values)
-        table = np.array([values[n] for n in values]) if values else np.zeros((0, t.size))
-        table.setflags(write=False)
-        object.__setattr__(self, "_names", tuple(values))
+        object.__setattr__(self, "signals", dict(zip(given, table)))
+        object.__setattr__(self, "_names", tuple(given))
+        object.__setattr__(self, "_row", {name: i for i, name in enumerate(given)})
         object.__setattr__(self, "_table", table)
-        object.__setattr__(self, "_cumulative", {})     # signal name -> its integral at each sample, made on first use
+        object.__setattr__(self, "_cumulative", {})     # row -> the signal's integral at each sample, made on first use
 
     # ------------------------------------------------------------------ construction helpers
     @classmethod
@@ -124,6 +127,13 @@ class Schedule:
             raise ModelError(f"schedule: time {float(np.min(t) if np.min(t) < self.time_s[0] else np.max(t))} s "
                              f"is outside the schedule [{self.time_s[0]}, {self.time_s[-1]}] s")
 
+    def _rows_of(self, names) -> list[int]:
+        rows = []
+        for name in names:
+            self._check_name(name)
+            rows.append(self._row[name])
+        return rows
+
     def value(self, name: str, t):
         """Value of signal ``name`` at time(s) ``t`` [s], linear between samples [signal unit]."""
         self._check_name(name)
@@ -132,6 +142,21 @@ class Schedule:
         out = np.interp(tt, self.time_s, self.signals[name])
         return float(out) if out.ndim == 0 else out
 
+    def columns(self, names, t) -> np.ndarray:
+        """Several signals at times ``t`` [s], one column each: shape ``t.shape + (len(names),)``.
+
+        Column j equals ``value(names[j], t)`` to the bit (the same interpolation, one signal at a
+        time); the times are checked once for all the signals."""
+        rows = self._rows_of(names)
+        tt = np.asarray(t, dtype=float)
+        flat = tt.reshape(-1)
+        if rows:
+            self._check_times(flat)
+        out = np.empty((flat.size, len(rows)))
+        for j, r in enumerate(rows):
+            out[:, j] = np.interp(flat, self.time_s, self._table[r])
+        return out.reshape(tt.shape + (len(rows),))
+
     def values_at(self, t: float) -> dict[str, float]:
         """Every signal at one time ``t`` [s]."""
         row = self.rows_at(float(t), np.arange(len(self.names)))
@@ -139,10 +164,7 @@ class Schedule:
 
     def indices(self, names) -> np.ndarray:
         """Row numbers of the named signals, for ``rows_at`` (fast repeated lookups)."""
-        for name in names:
-            self._check_name(name)
-        lookup = {n: i for i, n in enumerate(self.names)}
-        return np.array([lookup[n] for n in names], dtype=int)
+        return np.array(self._rows_of(names), dtype=int)
 
     def rows_at(self, t: float, rows: np.ndarray) -> np.ndarray:
         """Signals of the given row numbers at one time ``t`` [s]: the solver's fast path."""
@@ -169,15 +191,39 @@ class Schedule:
         b = np.asarray(t1, dtype=float)
         self._check_times(np.atleast_1d(a))
         self._check_times(np.atleast_1d(b))
-        out = self._antiderivative(name, b) - self._antiderivative(name, a)
+        rows = [self._row[name]]
+        out = self._antiderivative(rows, b)[..., 0] - self._antiderivative(rows, a)[..., 0]
         return float(out) if np.ndim(out) == 0 else out
 
-    def _antiderivative(self, name: str, t: np.ndarray) -> np.ndarray:
-        tt, v = self.time_s, self.signals[name]
-        cum = self._cumulative.get(name)
-        if cum is None:         # the signals never change after construction: worked out once a signal
-            cum = self._cumulative[name] = np.concatenate([[0.0], np.cumsum(0.5 * (v[1:] + v[:-1]) * np.diff(tt))])
-        tc = np.clip(t, tt[0], tt[-1])
+    def integral_columns(self, names, t) -> np.ndarray:
+        """Integrals of several signals from the schedule's start to times ``t`` [s], one column
+        each: shape ``t.shape + (len(names),)`` [signal unit x s].
+
+        ``integral(name, t0, t1)`` is the difference of two of these, to the bit: a run that needs
+        integrals over many steps on one grid works them out at each grid time once."""
+        rows = self._rows_of(names)
+        tt = np.asarray(t, dtype=float)
+        if rows:
+            self._check_times(tt.reshape(-1))
+        return self._antiderivative(rows, tt)
+
+    def _antiderivative(self, rows: list[int], t: np.ndarray) -> np.ndarray:
+        """Integrals of the signals of ``rows`` from the start to ``t`` (unchecked), shape
+        ``t.shape + (len(rows),)``: the integral up to the sample at or before t, plus the
+        trapezoid from there to t."""
+        tt, table = self.time_s, self._table
+        cum = self._cumulative
+        missing = [r for r in rows if r not in cum]
+        if missing:             # the signals never change after construction: worked out once a signal
+            sums = np.cumsum(0.5 * (table[missing, 1:] + table[missing, :-1]) * np.diff(tt), axis=1)
+            for r, row in zip(missing, sums):
+                cum[r] = np.concatenate([[0.0], row])
+        shape = np.shape(t)
+        tc = np.clip(np.reshape(t, -1), tt[0], tt[-1])
         k = np.clip(np.searchsorted(tt, tc, side="right") - 1, 0, tt.size - 2)
-        vt = np.interp(tc, tt, v)
-        return cum[k] + 0.5 * (v[k] + vt) * (tc - tt[k])
+        out = np.empty((tc.size, len(rows)))
+        dt = tc - tt[k]
+        for j, r in enumerate(rows):
+            v = table[r]
+            out[:, j] = cum[r][k] + 0.5 * (v[k] + np.interp(tc, tt, v)) * dt
+        return out.reshape(shape + (len(rows),))
