@@ -172,3 +172,28 @@ def test_signals_are_copied_from_what_was_given():
     q[0] = 7.0
     assert s.signals["q"][0] == 0.0 and s.signals["v"].dtype == float
     assert s.integral("q", 0.0, 3.0) == pytest.approx(25.0)
+
+
+def test_integral_broadcasts_its_limits():
+    s = ramp()
+    # by hand: from 0 to 1, 2, 3: 5, 15, 25; a scalar start against an array of ends and back
+    np.testing.assert_allclose(s.integral("q", 0.0, np.array([1.0, 2.0, 3.0])), [5.0, 15.0, 25.0], rtol=1e-14)
+    np.testing.assert_allclose(s.integral("q", np.array([[1.0], [2.0]]), 3.0), [[20.0], [10.0]], rtol=1e-14)
+    assert s.integral("q", np.array([[0.0], [1.0]]), np.array([2.0, 3.0])).shape == (2, 2)
+    assert isinstance(s.integral("q", np.float64(0.5), 2), float)
+
+
+def test_sample_gives_columns_and_integral_columns_together():
+    s, grid = _ramps(5)
+    values, integrals = s.sample(("air", "speed"), ("q", "r"), grid)
+    np.testing.assert_array_equal(values, s.columns(("air", "speed"), grid))
+    np.testing.assert_array_equal(integrals, s.integral_columns(("q", "r"), grid))
+    assert values.shape == (grid.size, 2) and integrals.shape == (grid.size, 2)
+    with pytest.raises(ModelError, match="outside"):
+        s.sample((), ("q",), [grid[0] - 1.0])
+
+
+def test_a_nan_time_integrates_to_nan_as_one_signal_at_a_time():
+    s, _ = _ramps(6)
+    t = np.array([s.t_start_s, np.nan, s.t_end_s])
+    np.testing.assert_array_equal(s.integral_columns(("q",), t)[:, 0], _old_antiderivative(s, "q", t))

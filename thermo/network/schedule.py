@@ -66,7 +66,7 @@ class Schedule:
         object.__setattr__(self, "_names", tuple(given))
         object.__setattr__(self, "_row", {name: i for i, name in enumerate(given)})
         object.__setattr__(self, "_table", table)
-        object.__setattr__(self, "_cumulative", {})     # row -> the signal's integral at each sample, made on first use
+        object.__setattr__(self, "_cumulative", {})     # rows -> (their signals, integrals at each sample), on first use
 
     # ------------------------------------------------------------------ construction helpers
     @classmethod
@@ -147,15 +147,7 @@ class Schedule:
 
         Column j equals ``value(names[j], t)`` to the bit (the same interpolation, one signal at a
         time); the times are checked once for all the signals."""
-        rows = self._rows_of(names)
-        tt = np.asarray(t, dtype=float)
-        flat = tt.reshape(-1)
-        if rows:
-            self._check_times(flat)
-        out = np.empty((flat.size, len(rows)))
-        for j, r in enumerate(rows):
-            out[:, j] = np.interp(flat, self.time_s, self._table[r])
-        return out.reshape(tt.shape + (len(rows),))
+        return self.sample(names, (), t)[0]
 
     def values_at(self, t: float) -> dict[str, float]:
         """Every signal at one time ``t`` [s]."""
@@ -192,7 +184,8 @@ class Schedule:
         self._check_times(np.atleast_1d(a))
         self._check_times(np.atleast_1d(b))
         rows = [self._row[name]]
-        out = self._antiderivative(rows, b)[..., 0] - self._antiderivative(rows, a)[..., 0]
+        out = (self._antiderivative(rows, b.reshape(-1))[0].reshape(b.shape)
+               - self._antiderivative(rows, a.reshape(-1))[0].reshape(a.shape))
         return float(out) if np.ndim(out) == 0 else out
 
     def integral_columns(self, names, t) -> np.ndarray:
@@ -201,29 +194,42 @@ class Schedule:
 
         ``integral(name, t0, t1)`` is the difference of two of these, to the bit: a run that needs
         integrals over many steps on one grid works them out at each grid time once."""
-        rows = self._rows_of(names)
+        return self.sample((), names, t)[1]
+
+    def sample(self, names, integrated, t) -> tuple[np.ndarray, np.ndarray]:
+        """``columns(names, t)`` and ``integral_columns(integrated, t)`` in one call, the times
+        checked once: each of shape ``t.shape + (number of signals,)``."""
+        rows, irows = self._rows_of(names), self._rows_of(integrated)
         tt = np.asarray(t, dtype=float)
-        if rows:
-            self._check_times(tt.reshape(-1))
-        return self._antiderivative(rows, tt)
+        flat = tt.reshape(-1)
+        if rows or irows:
+            self._check_times(flat)
+        values = np.empty((len(rows), flat.size))
+        for j, r in enumerate(rows):
+            values[j] = np.interp(flat, self.time_s, self._table[r])
+        return (values.T.reshape(tt.shape + (len(rows),)),
+                self._antiderivative(irows, flat).T.reshape(tt.shape + (len(irows),)))
 
     def _antiderivative(self, rows: list[int], t: np.ndarray) -> np.ndarray:
-        """Integrals of the signals of ``rows`` from the start to ``t`` (unchecked), shape
-        ``t.shape + (len(rows),)``: the integral up to the sample at or before t, plus the
+        """Integrals of the signals of ``rows`` from the start to the times ``t`` (1-D, unchecked),
+        shape (len(rows), t.size): the integral up to the sample at or before t, plus the
         trapezoid from there to t."""
-        tt, table = self.time_s, self._table
-        cum = self._cumulative
-        missing = [r for r in rows if r not in cum]
-        if missing:             # the signals never change after construction: worked out once a signal
-            sums = np.cumsum(0.5 * (table[missing, 1:] + table[missing, :-1]) * np.diff(tt), axis=1)
-            for r, row in zip(missing, sums):
-                cum[r] = np.concatenate([[0.0], row])
-        shape = np.shape(t)
-        tc = np.clip(np.reshape(t, -1), tt[0], tt[-1])
-        k = np.clip(np.searchsorted(tt, tc, side="right") - 1, 0, tt.size - 2)
-        out = np.empty((tc.size, len(rows)))
-        dt = tc - tt[k]
-        for j, r in enumerate(rows):
-            v = table[r]
-            out[:, j] = cum[r][k] + 0.5 * (v[k] + np.interp(tc, tt, v)) * dt
-        return out.reshape(shape + (len(rows),))
+        tt = self.time_s
+        if not rows:
+            return np.zeros((0, t.size))
+        key = tuple(rows)
+        kept = self._cumulative.get(key)
+        if kept is None:        # the signals never change after construction: worked out once
+            v = self._table[rows]
+            cum = np.zeros(v.shape)
+            np.cumsum(0.5 * (v[:, 1:] + v[:, :-1]) * np.diff(tt), axis=1, out=cum[:, 1:])
+            kept = self._cumulative[key] = (v, cum)
+        v, cum = kept
+        tc = np.clip(t, tt[0], tt[-1])
+        # the piece each time falls on; a time at the last sample takes the last piece (tc >= tt[0],
+        # so the search gives at least 1, or the axis length for NaN: the lower bound 0 holds)
+        k = np.minimum(np.searchsorted(tt, tc, side="right") - 1, tt.size - 2)
+        v_t = np.empty((len(rows), tc.size))
+        for j, row in enumerate(v):
+            v_t[j] = np.interp(tc, tt, row)
+        return np.take(cum, k, axis=1) + 0.5 * (np.take(v, k, axis=1) + v_t) * (tc - tt.take(k))

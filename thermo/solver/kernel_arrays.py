@@ -567,24 +567,20 @@ def kernel_inputs(net: CompiledNetwork, schedule: Schedule, grid: np.ndarray) ->
     """Boundary temperatures and drivers at grid and stage times, source integrals per step.
 
     Every signal is read once at the grid and stage times together (each value depends on its own
-    time only). The source integrals are differences of each signal's integral from the
-    schedule's start at those times (``Schedule.integral_columns``): to the bit what
-    ``Schedule.integral`` gives step by step."""
+    time only; ``Schedule.sample``). The source integrals are differences of each signal's
+    integral from the schedule's start at those times: to the bit what ``Schedule.integral``
+    gives step by step."""
     h = np.diff(grid)
     if np.any(h <= 0):
         raise ModelError("batch: the time grid must be strictly increasing")
-    n = grid.size
+    n, nb = grid.size, net.n_boundaries
     t_mid = grid[:-1] + kernel.GAMMA * h
-    times = np.concatenate([grid, t_mid])
-    bk, drv = net.inputs_series(times, schedule)
-    if net.source_signals:
-        at = schedule.integral_columns(net.source_signals, times)
-        qs_mid = at[n:] - at[:n - 1]
-        qs_full = at[1:n] - at[:n - 1]
-    else:
-        qs_mid = qs_full = np.zeros((h.size, 0))
+    net.check_schedule(schedule)
+    values, at = schedule.sample(net.boundary_signals + net.driver_names, net.source_signals,
+                                 np.concatenate([grid, t_mid]))
     c = np.ascontiguousarray
-    return KernelInputs(grid, c(h), c(bk[:n]), c(drv[:n]), c(bk[n:]), c(drv[n:]), c(qs_mid), c(qs_full))
+    return KernelInputs(grid, c(h), c(values[:n, :nb]), c(values[:n, nb:]), c(values[n:, :nb]), c(values[n:, nb:]),
+                        c(at[n:] - at[:n - 1]), c(at[1:n] - at[:n - 1]))
 
 
 def enthalpy(kn: KernelNetwork, b: int, T: np.ndarray) -> np.ndarray:
