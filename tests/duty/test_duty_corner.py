@@ -7,10 +7,11 @@ from lapdata.errors import LapDataError
 from lapdata.trace import LapTrace
 from lapdata.units import MM
 from thermo.duty import (
-    CornerBrake, FixedBias, HydraulicBias, braking_power_energy_method, corner_heat_inputs,
-    corner_heat_inputs_from_trace, lap_energy_summary, summed_piston_area_m2,
+    CornerBrake, CornerDuty, FixedBias, HydraulicBias, braking_power_energy_method, corner_heat_inputs,
+    braking_power_pressure_method, corner_heat_inputs_from_trace, lap_energy_summary, summed_piston_area_m2,
     total_braking_energy_j,
 )
+from thermo.duty.bias import split_left_right
 from thermo.errors import ScenarioError
 
 R_ROLL = 0.33
@@ -156,3 +157,44 @@ def test_corner_brake_names_the_bad_field():
         CornerBrake(name="x", axle="middle", side="left", partition=0.9,
                     piston_area_one_side_m2=1e-3, pad_mu=0.4, effective_radius_m=0.1,
                     rolling_radius_m=0.3)
+
+
+@pytest.mark.parametrize("method", ["energy", "pressure"])
+def test_duties_are_those_the_checking_constructor_makes(method):
+    # corner_heat_inputs checks the trace once and builds each CornerDuty without checking again:
+    # each duty must equal, to the bit, the one the public constructor makes from that corner's power
+    car = aero_car()
+    t, v = stop_trace()
+    t_in = t.copy()
+    p_front = np.where(v > 40.0, 30e5, 0.0)
+    if method == "energy":
+        duties = corner_heat_inputs(t, v, car, FixedBias(0.6), CORNERS, left_share_front=0.55)
+        axle = {"front": braking_power_energy_method(t, v, car) * 0.6}
+        axle["rear"] = braking_power_energy_method(t, v, car) * (1.0 - 0.6)
+        halves = {"front": split_left_right(axle["front"], 0.55), "rear": split_left_right(axle["rear"], 0.5)}
+        power = {c.name: halves[c.axle][0 if c.side == "left" else 1] for c in CORNERS}
+    else:
+        duties = corner_heat_inputs(t, v, car, None, CORNERS, method="pressure", pressure_front_pa=p_front,
+                                    pressure_rear_pa=0.5 * p_front)
+        power = {c.name: braking_power_pressure_method(p_front if c.axle == "front" else 0.5 * p_front, v, c.caliper,
+                                                       c.rolling_radius_m) for c in CORNERS}
+    for c in CORNERS:
+        brake = power[c.name]
+        ref = CornerDuty(c.name, t, c.partition * brake, (1.0 - c.partition) * brake, v / c.rolling_radius_m, v)
+        for key in ("time_s", "disc_heat_w", "pad_heat_w", "wheel_speed_rad_s", "vehicle_speed_mps"):
+            np.testing.assert_array_equal(getattr(duties[c.name], key), getattr(ref, key))
+            assert not getattr(duties[c.name], key).flags.writeable
+    assert energy(duties["front_right"]) > 0
+    # the caller's arrays are neither kept nor frozen
+    t[0] -= 1.0
+    assert duties["front_left"].time_s[0] == t_in[0] and t.flags.writeable and v.flags.writeable
+
+
+def test_a_duty_with_a_non_finite_power_is_refused():
+    car = aero_car()
+    t, v = stop_trace()
+    v[0] = 1e306        # finite, but its power overflows
+    with pytest.raises(LapDataError, match="CornerDuty 'front_left' brake power: row 0 is .*inf.*, expected a finite"), \
+            np.errstate(over="ignore"):
+        corner_heat_inputs(t, v, car, None, CORNERS, method="pressure", pressure_front_pa=np.full(t.size, 1e6),
+                           pressure_rear_pa=np.zeros(t.size))

@@ -167,6 +167,12 @@ def test_vehicle_parameters_name_the_bad_field():
     with pytest.raises(ScenarioError, match=r"VehicleParameters.air_density_kg_m3"):
         bare_car(air_density_kg_m3=0.0)
     assert bare_car().with_fuel(10.0).mass_total_kg == pytest.approx(710.0)
+    # with_fuel checks only the new fuel load, and changes nothing else
+    car = aero_car()
+    assert car.with_fuel(12.5) == aero_car(fuel_kg=12.5) and car.fuel_kg == 50.0
+    for bad in (-1.0, float("nan"), "10"):
+        with pytest.raises(ScenarioError, match=r"VehicleParameters.fuel_kg"):
+            car.with_fuel(bad)
 
 
 # --- pressure method -------------------------------------------------------------------------

@@ -12,8 +12,8 @@ from lapdata.suggest import did_you_mean
 from lapdata.trace import LapTrace
 from thermo.duty.bias import FixedBias, HydraulicBias, front_power_share, split_left_right
 from thermo.duty.power import (
-    DEFAULT_SMOOTHING_WINDOW_S, Caliper, braking_power_energy_method,
-    braking_power_pressure_method, check_channel, check_time,
+    DEFAULT_SMOOTHING_WINDOW_S, Caliper, braking_power_pressure_method, check_channel, check_time,
+    checked_braking_power,
 )
 from thermo.duty.vehicle import VehicleParameters, check_number
 from thermo.errors import ScenarioError
@@ -113,6 +113,19 @@ class CornerDuty:
                                   nonnegative=True)
             object.__setattr__(self, key, _frozen(array))
 
+    @classmethod
+    def _made(cls, name: str, time_s: np.ndarray, disc_heat_w: np.ndarray, pad_heat_w: np.ndarray,
+              wheel_speed_rad_s: np.ndarray, vehicle_speed_mps: np.ndarray) -> "CornerDuty":
+        """A duty from read-only arrays that ``corner_heat_inputs`` checked or made from checked
+        ones (times by ``check_time``, the rest finite and >= 0): the same object as the
+        constructor's, without checking and copying them again."""
+        duty = object.__new__(cls)
+        for key, value in (("name", name), ("time_s", time_s), ("disc_heat_w", disc_heat_w),
+                           ("pad_heat_w", pad_heat_w), ("wheel_speed_rad_s", wheel_speed_rad_s),
+                           ("vehicle_speed_mps", vehicle_speed_mps)):
+            object.__setattr__(duty, key, value)
+        return duty
+
     @property
     def brake_heat_w(self) -> np.ndarray:
         """Disc plus pad heat [W]."""
@@ -123,6 +136,12 @@ def _frozen(array):
     copy = np.array(array, dtype=float)
     copy.flags.writeable = False
     return copy
+
+
+def _read_only(array: np.ndarray) -> np.ndarray:
+    """A float array made here (no one else holds it), set read-only without a copy."""
+    array.flags.writeable = False
+    return array
 
 
 def _check_corners(corners: Sequence[CornerBrake], vehicle: VehicleParameters):
@@ -146,8 +165,14 @@ def _check_corners(corners: Sequence[CornerBrake], vehicle: VehicleParameters):
 
 
 def _duty(corner, t, v, brake_power):
-    return CornerDuty(corner.name, t, corner.partition * brake_power,
-                      (1.0 - corner.partition) * brake_power, v / corner.rolling_radius_m, v)
+    """One corner's duty from checked, read-only ``t`` and ``v`` (shared by every corner) and its
+    brake power. The power and the wheel speed are checked here (finite, >= 0); the disc and pad
+    shares of a finite power >= 0 (partition 0 to 1) are then finite and >= 0 too."""
+    owner = f"CornerDuty {shown(corner.name)}"
+    power = check_channel(f"{owner} brake power", brake_power, t.size, nonnegative=True)
+    wheel = check_channel(f"{owner} wheel_speed_rad_s", v / corner.rolling_radius_m, t.size, nonnegative=True)
+    return CornerDuty._made(corner.name, t, _read_only(corner.partition * power),
+                            _read_only((1.0 - corner.partition) * power), _read_only(wheel), v)
 
 
 def _energy_duties(t, v, vehicle, bias, corners, options):
@@ -157,7 +182,7 @@ def _energy_duties(t, v, vehicle, bias, corners, options):
     if not isinstance(bias, (FixedBias, HydraulicBias)):
         raise ScenarioError(f"bias: method='energy' needs a FixedBias or HydraulicBias, got {shown(bias)}")
     window = options["smoothing_window_s"]
-    power = braking_power_energy_method(
+    power = checked_braking_power(
         t, v, vehicle, grade_rad=options["grade_rad"], accel_mps2=options["accel_mps2"],
         smoothing_window_s=DEFAULT_SMOOTHING_WINDOW_S if window is None else window)
     share = front_power_share(bias.front_share, vehicle.rolling_radius_front_m,
@@ -248,8 +273,8 @@ def corner_heat_inputs(time_s, speed_mps, vehicle: VehicleParameters, bias,
         raise ScenarioError(f"method: unknown {shown(method)}, expected one of {sorted(METHODS)}{hint}")
     if not isinstance(vehicle, VehicleParameters):
         raise ScenarioError(f"vehicle: expected VehicleParameters, got {type(vehicle).__name__}")
-    t = check_time(time_s)
-    v = check_channel("speed_mps", speed_mps, t.size, nonnegative=True)
+    t = _frozen(check_time(time_s))
+    v = _frozen(check_channel("speed_mps", speed_mps, t.size, nonnegative=True))
     corners = tuple(corners)
     _check_corners(corners, vehicle)
     options = dict(pressure_front_pa=pressure_front_pa, pressure_rear_pa=pressure_rear_pa,

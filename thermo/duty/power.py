@@ -93,7 +93,11 @@ def resistive_work_per_interval_j(time_s, speed_mps, vehicle: VehicleParameters,
     """
     t = check_time(time_s)
     v = check_channel("speed_mps", speed_mps, t.size, nonnegative=True)
-    dt = np.diff(t)
+    return _resistive_work(t, np.diff(t), v, vehicle, grade_rad)
+
+
+def _resistive_work(t, dt, v, vehicle, grade_rad):
+    """``resistive_work_per_interval_j`` of checked times ``t`` (steps ``dt``) and speeds ``v``."""
     a, b = v[:-1], v[1:]
     int_v = dt * (a + b) / 2.0
     int_v3 = dt * (a + b) * (a * a + b * b) / 4.0
@@ -153,6 +157,11 @@ def brake_energy_per_interval(time_s, speed_mps, vehicle: VehicleParameters, *, 
     """
     t = check_time(time_s)
     v = check_channel("speed_mps", speed_mps, t.size, nonnegative=True)
+    return _brake_energy(t, v, vehicle, grade_rad, accel_mps2, smoothing_window_s)
+
+
+def _brake_energy(t, v, vehicle, grade_rad, accel_mps2, smoothing_window_s):
+    """``brake_energy_per_interval`` of checked times ``t`` and speeds ``v`` (the options checked here)."""
     check_number("brake_energy_per_interval", "smoothing_window_s", smoothing_window_s, minimum=0.0)
     m_eff = vehicle.mass_effective_kg
     dt = np.diff(t)
@@ -162,7 +171,7 @@ def brake_energy_per_interval(time_s, speed_mps, vehicle: VehicleParameters, *, 
         acc = check_channel("accel_mps2", accel_mps2, t.size)
         a0, a1, v0, v1 = acc[:-1], acc[1:], v[:-1], v[1:]
         kinetic = -m_eff * dt * (2 * a0 * v0 + a0 * v1 + a1 * v0 + 2 * a1 * v1) / 6.0
-    energy = kinetic - resistive_work_per_interval_j(t, v, vehicle, grade_rad)
+    energy = kinetic - _resistive_work(t, dt, v, vehicle, grade_rad)
     braking = energy > 0.0
     if smoothing_window_s > 0 and t.size >= 3:
         if accel_mps2 is None:
@@ -201,7 +210,11 @@ def power_from_interval_energy(time_s, energy_j):
     samples therefore puts in exactly the braking energy.
     """
     t = check_time(time_s)
-    e = check_channel("energy_j", energy_j, t.size - 1)
+    return _power_from_energy(t, check_channel("energy_j", energy_j, t.size - 1))
+
+
+def _power_from_energy(t, e):
+    """``power_from_interval_energy`` of checked times ``t`` and interval energies ``e``."""
     dt = np.diff(t)
     held = np.zeros(t.size)
     held[:-1] += 0.5 * e
@@ -245,9 +258,17 @@ def braking_power_energy_method(time_s, speed_mps, vehicle: VehicleParameters, *
     - m g sin(grade); F_aero = 1/2 rho C_d A v^2; F_roll = C_rr (m g cos(grade) + downforce);
     m_eff = m (1 + rotating_inertia_factor). Gravity acts on the real mass m, inertia on m_eff.
     """
-    energy = brake_energy_per_interval(time_s, speed_mps, vehicle, grade_rad=grade_rad,
-                                       accel_mps2=accel_mps2, smoothing_window_s=smoothing_window_s)
-    return power_from_interval_energy(time_s, energy)
+    t = check_time(time_s)
+    v = check_channel("speed_mps", speed_mps, t.size, nonnegative=True)
+    return checked_braking_power(t, v, vehicle, grade_rad, accel_mps2, smoothing_window_s)
+
+
+def checked_braking_power(t, v, vehicle: VehicleParameters, grade_rad=None, accel_mps2=None,
+                          smoothing_window_s=DEFAULT_SMOOTHING_WINDOW_S):
+    """``braking_power_energy_method`` of times and speeds already checked (``check_time``, and
+    ``check_channel`` with ``nonnegative``): a caller that checked them once (``corner_heat_inputs``)
+    does not pay for the checks again. The options are checked here."""
+    return _power_from_energy(t, _brake_energy(t, v, vehicle, grade_rad, accel_mps2, smoothing_window_s))
 
 
 def summed_piston_area_m2(piston_diameters_m) -> float:

@@ -1,8 +1,9 @@
 """The car as the brakes see it: mass, rotating inertia, drag, downforce, rolling resistance."""
 from __future__ import annotations
 
+import copy
 import math
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 
 import numpy as np
 
@@ -93,8 +94,12 @@ class VehicleParameters:
         return self.mass_total_kg * (1.0 + self.rotating_inertia_factor)
 
     def with_fuel(self, fuel_kg: float) -> "VehicleParameters":
-        """The same car with another fuel load [kg]."""
-        return replace(self, fuel_kg=fuel_kg)
+        """The same car with another fuel load [kg] (only the fuel is checked again: the rest was
+        checked when this car was made)."""
+        check_number("VehicleParameters", "fuel_kg", fuel_kg, minimum=0.0)
+        car = copy.copy(self)
+        object.__setattr__(car, "fuel_kg", fuel_kg)
+        return car
 
     def rolling_radius_m(self, axle: str) -> float:
         """Rolling radius of the 'front' or 'rear' axle [m]."""

@@ -121,6 +121,7 @@ class CompiledNetwork:
             self.source_matrix[node_index[s.node], signals.index(s.signal)] += s.fraction
         self.capacities = CapacityTable(n.heat_capacity for n in network.nodes)
         self._bound: tuple | None = None
+        self._required: frozenset | None = None     # the names of required_signals, made on first use
 
     @property
     def tabulated(self) -> bool:
@@ -151,6 +152,10 @@ class CompiledNetwork:
 
     def check_schedule(self, schedule: Schedule) -> None:
         """Raise ``ModelError`` naming the first signal the network needs and the schedule lacks."""
+        if self._required is None:
+            self._required = frozenset(self.required_signals())
+        if self._required.issubset(schedule.signals):
+            return
         for name, role in self.required_signals().items():
             if name not in schedule.signals:
                 have = ", ".join(schedule.names) or "none"
@@ -170,10 +175,9 @@ class CompiledNetwork:
         """Boundary temperatures (n_t, n_boundaries) [K] and drivers (n_t, n_drivers) at many times."""
         self.check_schedule(schedule)
         t = np.asarray(times, dtype=float)
-        cols = [schedule.value(name, t) for name in self.boundary_signals]
-        drv = [schedule.value(name, t) for name in self.driver_names]
-        return (np.stack(cols, axis=-1) if cols else np.zeros(t.shape + (0,)),
-                np.stack(drv, axis=-1) if drv else np.zeros(t.shape + (0,)))
+        both = schedule.columns(self.boundary_signals + self.driver_names, t)
+        nb = self.n_boundaries
+        return np.ascontiguousarray(both[..., :nb]), np.ascontiguousarray(both[..., nb:])
 
     # ------------------------------------------------------------------ flows
     def _ends(self, T_nodes, boundary_k):

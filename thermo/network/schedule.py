@@ -44,26 +44,29 @@ class Schedule:
         if np.any(steps <= 0):
             i = int(np.argmax(steps <= 0)) + 1
             raise ModelError(f"schedule: time_s must be strictly increasing, sample {i} is at {shown(t[i])} s after {shown(t[i - 1])} s")
-        values = {}
-        for name, series in dict(self.signals).items():
+        given = dict(self.signals)
+        for name, series in given.items():
             if not isinstance(name, str) or not name:
                 raise ModelError(f"schedule: signal names must be non-empty strings, got {shown(name)}")
-            v = np.array(series, dtype=float)
-            if v.shape != t.shape:
-                raise ModelError(f"schedule: signal '{name}' has shape {v.shape}, expected {t.shape} like time_s")
-            if not np.all(np.isfinite(v)):
-                i = int(np.argmin(np.isfinite(v)))
-                raise ModelError(f"schedule: signal '{name}' has a non-finite value at sample {i} (t = {t[i]} s)")
-            v.setflags(write=False)
-            values[name] = v
+            if np.shape(series) != t.shape:
+                raise ModelError(f"schedule: signal '{name}' has shape {np.shape(series)}, expected {t.shape} like time_s")
+        # every signal copied once into one table (a row each); the signals are its rows
+        table = np.empty((len(given), t.size))
+        for row, series in zip(table, given.values()):
+            row[:] = series
+        if not np.all(np.isfinite(table)):
+            for name, v in zip(given, table):
+                if not np.all(np.isfinite(v)):
+                    i = int(np.argmin(np.isfinite(v)))
+                    raise ModelError(f"schedule: signal '{name}' has a non-finite value at sample {i} (t = {t[i]} s)")
+        table.setflags(write=False)
         t.setflags(write=False)
         object.__setattr__(self, "time_s", t)
-        object.__setattr__(self, "signals", values)
-        table = np.array([values[n] for n in values]) if values else np.zeros((0, t.size))
-        table.setflags(write=False)
-        object.__setattr__(self, "_names", tuple(values))
+        object.__setattr__(self, "signals", dict(zip(given, table)))
+        object.__setattr__(self, "_names", tuple(given))
+        object.__setattr__(self, "_row", {name: i for i, name in enumerate(given)})
         object.__setattr__(self, "_table", table)
-        object.__setattr__(self, "_cumulative", {})     # signal name -> its integral at each sample, made on first use
+        object.__setattr__(self, "_cumulative", {})     # rows -> (their signals, integrals at each sample), on first use
 
     # ------------------------------------------------------------------ construction helpers
     @classmethod
@@ -124,6 +127,13 @@ class Schedule:
             raise ModelError(f"schedule: time {float(np.min(t) if np.min(t) < self.time_s[0] else np.max(t))} s "
                              f"is outside the schedule [{self.time_s[0]}, {self.time_s[-1]}] s")
 
+    def _rows_of(self, names) -> list[int]:
+        rows = []
+        for name in names:
+            self._check_name(name)
+            rows.append(self._row[name])
+        return rows
+
     def value(self, name: str, t):
         """Value of signal ``name`` at time(s) ``t`` [s], linear between samples [signal unit]."""
         self._check_name(name)
@@ -132,6 +142,13 @@ class Schedule:
         out = np.interp(tt, self.time_s, self.signals[name])
         return float(out) if out.ndim == 0 else out
 
+    def columns(self, names, t) -> np.ndarray:
+        """Several signals at times ``t`` [s], one column each: shape ``t.shape + (len(names),)``.
+
+        Column j equals ``value(names[j], t)`` to the bit (the same interpolation, one signal at a
+        time); the times are checked once for all the signals."""
+        return self.sample(names, (), t)[0]
+
     def values_at(self, t: float) -> dict[str, float]:
         """Every signal at one time ``t`` [s]."""
         row = self.rows_at(float(t), np.arange(len(self.names)))
@@ -139,10 +156,7 @@ class Schedule:
 
     def indices(self, names) -> np.ndarray:
         """Row numbers of the named signals, for ``rows_at`` (fast repeated lookups)."""
-        for name in names:
-            self._check_name(name)
-        lookup = {n: i for i, n in enumerate(self.names)}
-        return np.array([lookup[n] for n in names], dtype=int)
+        return np.array(self._rows_of(names), dtype=int)
 
     def rows_at(self, t: float, rows: np.ndarray) -> np.ndarray:
         """Signals of the given row numbers at one time ``t`` [s]: the solver's fast path."""
@@ -169,15 +183,53 @@ class Schedule:
         b = np.asarray(t1, dtype=float)
         self._check_times(np.atleast_1d(a))
         self._check_times(np.atleast_1d(b))
-        out = self._antiderivative(name, b) - self._antiderivative(name, a)
+        rows = [self._row[name]]
+        out = (self._antiderivative(rows, b.reshape(-1))[0].reshape(b.shape)
+               - self._antiderivative(rows, a.reshape(-1))[0].reshape(a.shape))
         return float(out) if np.ndim(out) == 0 else out
 
-    def _antiderivative(self, name: str, t: np.ndarray) -> np.ndarray:
-        tt, v = self.time_s, self.signals[name]
-        cum = self._cumulative.get(name)
-        if cum is None:         # the signals never change after construction: worked out once a signal
-            cum = self._cumulative[name] = np.concatenate([[0.0], np.cumsum(0.5 * (v[1:] + v[:-1]) * np.diff(tt))])
+    def integral_columns(self, names, t) -> np.ndarray:
+        """Integrals of several signals from the schedule's start to times ``t`` [s], one column
+        each: shape ``t.shape + (len(names),)`` [signal unit x s].
+
+        ``integral(name, t0, t1)`` is the difference of two of these, to the bit: a run that needs
+        integrals over many steps on one grid works them out at each grid time once."""
+        return self.sample((), names, t)[1]
+
+    def sample(self, names, integrated, t) -> tuple[np.ndarray, np.ndarray]:
+        """``columns(names, t)`` and ``integral_columns(integrated, t)`` in one call, the times
+        checked once: each of shape ``t.shape + (number of signals,)``."""
+        rows, irows = self._rows_of(names), self._rows_of(integrated)
+        tt = np.asarray(t, dtype=float)
+        flat = tt.reshape(-1)
+        if rows or irows:
+            self._check_times(flat)
+        values = np.empty((len(rows), flat.size))
+        for j, r in enumerate(rows):
+            values[j] = np.interp(flat, self.time_s, self._table[r])
+        return (values.T.reshape(tt.shape + (len(rows),)),
+                self._antiderivative(irows, flat).T.reshape(tt.shape + (len(irows),)))
+
+    def _antiderivative(self, rows: list[int], t: np.ndarray) -> np.ndarray:
+        """Integrals of the signals of ``rows`` from the start to the times ``t`` (1-D, unchecked),
+        shape (len(rows), t.size): the integral up to the sample at or before t, plus the
+        trapezoid from there to t."""
+        tt = self.time_s
+        if not rows:
+            return np.zeros((0, t.size))
+        key = tuple(rows)
+        kept = self._cumulative.get(key)
+        if kept is None:        # the signals never change after construction: worked out once
+            v = self._table[rows]
+            cum = np.zeros(v.shape)
+            np.cumsum(0.5 * (v[:, 1:] + v[:, :-1]) * np.diff(tt), axis=1, out=cum[:, 1:])
+            kept = self._cumulative[key] = (v, cum)
+        v, cum = kept
         tc = np.clip(t, tt[0], tt[-1])
-        k = np.clip(np.searchsorted(tt, tc, side="right") - 1, 0, tt.size - 2)
-        vt = np.interp(tc, tt, v)
-        return cum[k] + 0.5 * (v[k] + vt) * (tc - tt[k])
+        # the piece each time falls on; a time at the last sample takes the last piece (tc >= tt[0],
+        # so the search gives at least 1, or the axis length for NaN: the lower bound 0 holds)
+        k = np.minimum(np.searchsorted(tt, tc, side="right") - 1, tt.size - 2)
+        v_t = np.empty((len(rows), tc.size))
+        for j, row in enumerate(v):
+            v_t[j] = np.interp(tc, tt, row)
+        return np.take(cum, k, axis=1) + 0.5 * (np.take(v, k, axis=1) + v_t) * (tc - tt.take(k))

@@ -564,20 +564,23 @@ def scaled(base: KernelNetwork, link_scale=None, capacity_scale=None, source_sca
 
 
 def kernel_inputs(net: CompiledNetwork, schedule: Schedule, grid: np.ndarray) -> KernelInputs:
-    """Boundary temperatures and drivers at grid and stage times, source integrals per step."""
+    """Boundary temperatures and drivers at grid and stage times, source integrals per step.
+
+    Every signal is read once at the grid and stage times together (each value depends on its own
+    time only; ``Schedule.sample``). The source integrals are differences of each signal's
+    integral from the schedule's start at those times: to the bit what ``Schedule.integral``
+    gives step by step."""
     h = np.diff(grid)
     if np.any(h <= 0):
         raise ModelError("batch: the time grid must be strictly increasing")
+    n, nb = grid.size, net.n_boundaries
     t_mid = grid[:-1] + kernel.GAMMA * h
-    bk_grid, drv_grid = net.inputs_series(grid, schedule)
-    bk_mid, drv_mid = net.inputs_series(t_mid, schedule)
-    if net.source_signals:
-        qs_mid = np.stack([schedule.integral(s, grid[:-1], t_mid) for s in net.source_signals], axis=-1)
-        qs_full = np.stack([schedule.integral(s, grid[:-1], grid[1:]) for s in net.source_signals], axis=-1)
-    else:
-        qs_mid = qs_full = np.zeros((h.size, 0))
+    net.check_schedule(schedule)
+    values, at = schedule.sample(net.boundary_signals + net.driver_names, net.source_signals,
+                                 np.concatenate([grid, t_mid]))
     c = np.ascontiguousarray
-    return KernelInputs(grid, c(h), c(bk_grid), c(drv_grid), c(bk_mid), c(drv_mid), c(qs_mid), c(qs_full))
+    return KernelInputs(grid, c(h), c(values[:n, :nb]), c(values[:n, nb:]), c(values[n:, :nb]), c(values[n:, nb:]),
+                        c(at[n:] - at[:n - 1]), c(at[1:n] - at[:n - 1]))
 
 
 def enthalpy(kn: KernelNetwork, b: int, T: np.ndarray) -> np.ndarray:
