@@ -366,7 +366,9 @@ def test_a_weak_pivot_lane_is_rerun_and_equals_its_own_run(lap, reruns):
                   np.zeros(nax, dtype=np.int64), np.zeros(nax), np.zeros(nax, dtype=np.bool_))
     assert dfa[link] < 0.0
     C, H = np.empty(kb.n_nodes), np.empty(kb.n_nodes)
-    kernel._capacity_enthalpy(T0[weak], capacities, C, H)
+    href = np.empty(capacities.seg_lo.size)
+    kernel._reference_ramps(capacities, href)
+    kernel._capacity_enthalpy(T0[weak], capacities, href, C, H, True)
     A = np.empty((kb.n_nodes, kb.n_nodes))
     stage_matrix._newton_matrix(A, C, inputs.h[0] * kernel.D_WEIGHT, kb.n_nodes, kb.link_a, kb.link_b, dfa, dfb)
     A_dense = A.copy()

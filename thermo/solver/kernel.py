@@ -227,9 +227,17 @@ def _flows(T, bk, drv, links, f, dfa, dfb, ax_i, ax_f, ax_ok):
 
 
 @njit(cache=True, error_model="numpy")
-def _capacity_enthalpy(T, capacities, C, H):
-    """Heat capacity C [J/K] and enthalpy H relative to t_ref [J] of every node (``Capacities`` of one
-    configuration; ``thermo.network.laws.capacity_segment``, as CapacityTable)."""
+def _reference_ramps(capacities, href):
+    """Each capacity segment's ramp at the reference temperature (``href`` (S,)), constant over a run."""
+    for s in range(capacities.seg_lo.size):
+        href[s] = capacity_segment(capacities.t_ref, capacities.seg_lo[s], capacities.seg_hi[s])[1]
+
+
+@njit(cache=True, error_model="numpy")
+def _capacity_enthalpy(T, capacities, href, C, H, with_c):
+    """Enthalpy H relative to t_ref [J] and, if ``with_c``, heat capacity C [J/K] of every node
+    (``Capacities`` of one configuration; ``thermo.network.laws.capacity_segment``, as CapacityTable;
+    ``href`` from ``_reference_ramps``)."""
     mass, base, seg_start, seg_lo, seg_hi, seg_slope, t_ref = capacities
     for i in range(T.size):
         c = base[i]
@@ -237,8 +245,9 @@ def _capacity_enthalpy(T, capacities, C, H):
         for s in range(seg_start[i], seg_start[i + 1]):
             x, ramp = capacity_segment(T[i], seg_lo[s], seg_hi[s])
             c += seg_slope[s] * x
-            h += seg_slope[s] * (ramp - capacity_segment(t_ref, seg_lo[s], seg_hi[s])[1])
-        C[i] = mass[i] * c
+            h += seg_slope[s] * (ramp - href[s])
+        if with_c:
+            C[i] = mass[i] * c
         H[i] = mass[i] * h
 
 
@@ -360,6 +369,8 @@ def _advance_one(b, T0, inputs, net, rtol, atol, max_newton, record, out):
     T = T0[b].copy()
     (Y, C, H, H0, R, r1, r2, tgt, A, piv, f1, f2, f3, dfa, dfb, q2, q3,
      ax_i, ax_f, ax_ok) = _scratch(n, L, drv_grid.shape[1] + bk_grid.shape[1])
+    href = np.empty(cap.seg_lo.size)
+    _reference_ramps(cap, href)
     nf = 1
     nj = 0
     st = STATUS_OK
@@ -378,7 +389,7 @@ def _advance_one(b, T0, inputs, net, rtol, atol, max_newton, record, out):
     while step < N and st == STATUS_OK:
         hn = h[step]
         coef = hn * D_WEIGHT
-        _capacity_enthalpy(T, cap, C, H0)
+        _capacity_enthalpy(T, cap, href, C, H0, True)
         _net_inflow(f1, n, link_a, link_b, r1)
         e_in += _sources(src, step, qs_mid, qs_full, q2, q3)
         # the stage matrix at T_n (its slopes are those of the last flow evaluation) serves both stages
@@ -409,7 +420,7 @@ def _advance_one(b, T0, inputs, net, rtol, atol, max_newton, record, out):
             for it in range(max_newton):
                 inside = _flows(Y, bkx, dvx, links, fx, dfa, dfb, ax_i, ax_f, ax_ok)
                 nf += 1
-                _capacity_enthalpy(Y, cap, C, H)
+                _capacity_enthalpy(Y, cap, href, C, H, not have_lu)     # C only for a refactorisation
                 _residual(H, tgt, coef, fx, n, link_a, link_b, R)
                 if not have_lu:
                     mode = _factor(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, piv)

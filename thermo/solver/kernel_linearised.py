@@ -44,7 +44,7 @@ from numba import njit, prange
 
 from thermo.solver.kernel import (D_WEIGHT, STATUS_NEWTON, STATUS_NONFINITE, STATUS_OK, STATUS_OUTSIDE_GRID,
                                   W_WEIGHT, _capacity_enthalpy, _configuration, _flow_update, _flows, _net_inflow,
-                                  _residual, _scratch, _sources)
+                                  _reference_ramps, _residual, _scratch, _sources)
 from thermo.solver.stage_matrix import FACTOR_FAILED, _factor, _solve
 
 
@@ -93,6 +93,8 @@ def _advance_linearised_one(b, T0, inputs, net, n_laps, weights, record, out, la
     (Y, C, H, H0, R, r1, r2, tgt, A, piv, f1, f2, f3, dfa, dfb, q2, q3,
      ax_i, ax_f, ax_ok) = _scratch(n, L, drv_grid.shape[1] + bk_grid.shape[1])
     lp = np.empty(max(n_out, 1))
+    href = np.empty(cap.seg_lo.size)
+    _reference_ramps(cap, href)
     nf = 0
     nj = 0
     st = STATUS_OK
@@ -119,7 +121,7 @@ def _advance_linearised_one(b, T0, inputs, net, n_laps, weights, record, out, la
         while step < N and st == STATUS_OK:
             hn = h[step]
             coef = hn * D_WEIGHT
-            _capacity_enthalpy(T, cap, C, H0)
+            _capacity_enthalpy(T, cap, href, C, H0, True)
             _net_inflow(f1, n, link_a, link_b, r1)
             e_in += _sources(src, step, qs_mid, qs_full, q2, q3)
             mode = _factor(A, C, coef, n, link_a, link_b, dfa, dfb, order, ptr, nbr, piv)
@@ -139,9 +141,9 @@ def _advance_linearised_one(b, T0, inputs, net, n_laps, weights, record, out, la
                 tgt[i] = H0[i] + hn * W_WEIGHT * (r1[i] + r2[i]) + q3[i]
             inside2 = _flows(Y, bk_grid[step + 1], drv_grid[step + 1], links, f3, dfa, dfb, ax_i, ax_f, ax_ok)
             nf += 2
-            _capacity_enthalpy(Y, cap, C, H)
+            _capacity_enthalpy(Y, cap, href, C, H, False)
             _linear_stage(Y, H, tgt, coef, f3, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
-            _capacity_enthalpy(Y, cap, C, H)
+            _capacity_enthalpy(Y, cap, href, C, H, False)
             _linear_stage(Y, H, tgt, coef, f3, dfa, dfb, R, mode, A, piv, order, ptr, nbr, n, link_a, link_b)
             if not (inside and inside2):
                 st = STATUS_OUTSIDE_GRID
