@@ -190,10 +190,15 @@ def test_heat_capacity_and_enthalpy_agree_everywhere(case):
     inputs = constant_inputs(np.full(net.n_boundaries, 300.0), np.zeros(len(net.driver_names)))
     _, capacities = kernel._configuration(kn.arrays(inputs), 0)
     assert capacities.t_ref == REFERENCE_TEMPERATURE_K
+    href = np.empty(capacities.seg_lo.size)
+    kernel._reference_ramps(capacities, href)
     for _ in range(50):
         T = rng.uniform(150.0, 1600.0, net.n_nodes)      # below, inside and beyond every c(T) table
         C, H = np.empty(net.n_nodes), np.empty(net.n_nodes)
-        kernel._capacity_enthalpy(T, capacities, C, H)
+        kernel._capacity_enthalpy(T, capacities, href, C, H, True)
+        H_only = np.full(net.n_nodes, np.nan)
+        kernel._capacity_enthalpy(T, capacities, href, C, H_only, False)
+        np.testing.assert_array_equal(H_only, H)
         np.testing.assert_allclose(C, caps.capacity(T), rtol=1e-13)
         np.testing.assert_allclose(H, caps.enthalpy(T), rtol=1e-12, atol=1e-9)
         np.testing.assert_allclose(kernel_arrays.enthalpy(kn, 0, T), H, rtol=1e-12, atol=1e-9)
