@@ -264,3 +264,12 @@ def test_a_figure_is_still_drawn_where_matplotlib_lacks_the_layout_attributes(tm
     figure.add_subplot().plot([0, 1], [0, 1])
     path = plots.save_png(figure, tmp_path / "p.png")
     assert path.stat().st_size > 1000
+
+
+def test_a_long_race_marks_about_60_of_its_laps_and_joins_them_all():
+    from thermo.output.plots import MARKED_LAPS, lap_marker_every
+    assert lap_marker_every(1) == 1 and lap_marker_every(MARKED_LAPS) == 1     # every lap of a stint marked
+    for n in (61, 200, 804, 5000):
+        every = lap_marker_every(n)
+        marked = len(range(0, n, every))
+        assert MARKED_LAPS / 2 <= marked <= MARKED_LAPS, (n, every, marked)

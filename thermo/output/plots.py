@@ -319,6 +319,17 @@ def plot_lap_peaks(results: Results, path: Path, nodes=LAP_PEAK_NODES) -> Path:
     return save_png(lap_peaks_figure(results, nodes), path)
 
 
+MARKED_LAPS = 60      # a line of more laps marks about this many of them, so that the corners stay apart
+
+
+def lap_marker_every(n_laps: int) -> int:
+    """Every how many laps a corner's line in the lap peak plot is marked: every lap up to
+    ``MARKED_LAPS`` laps; beyond, evenly about ``MARKED_LAPS`` of them (804 laps marked one by
+    one merge into a band in which the corners' markers cannot be told apart, and cost 6432 SVG
+    elements in the report). The line itself joins every lap."""
+    return 1 if n_laps <= MARKED_LAPS else -(-n_laps // MARKED_LAPS)
+
+
 def lap_peaks_figure(results: Results, nodes=LAP_PEAK_NODES) -> Figure:
     """Per-lap peak of the nodes the main checks read (disc face, fluid at the pistons, bearing) for
     every corner [degC vs lap], each with the limits of the checks on it and, after the last lap,
@@ -341,7 +352,7 @@ def lap_peaks_figure(results: Results, nodes=LAP_PEAK_NODES) -> Figure:
             marker = markers[m % len(markers)]
             axes.plot([lap.index for lap in laps], [kelvin_to_celsius(lap.max_k[node]) for lap in laps],
                       marker=marker, markersize=3, linewidth=1.0, color=colour, alpha=1.0 - 0.35 * (m % 2),
-                      label=f"{corner.name}")
+                      markevery=lap_marker_every(len(laps)), label=f"{corner.name}")
             last_lap = max(last_lap, laps[-1].index)
             if corner.stop_time_s is not None and node in corner.node_names:
                 after = np.asarray(corner.time_s) >= corner.stop_time_s
