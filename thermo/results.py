@@ -6,6 +6,7 @@ All temperatures here are kelvin; converting to degrees Celsius is the job of th
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import NamedTuple
 
 import numpy as np
 
@@ -167,6 +168,18 @@ class CornerResult:
         series = self.temperature(node)
         i = int(np.argmax(series))
         return float(series[i]), float(self.time_s[i])
+
+
+class SeriesRows(NamedTuple):
+    """A block of one corner's stored rows, as a run hands them to a series sink
+    (``thermo.chain.corner_run.CornerRun``, ``thermo.output.hdf5_stream``); the columns of
+    ``CornerResult``'s series."""
+
+    time_s: np.ndarray             # (n,) [s]
+    temperatures_k: np.ndarray     # (n, n_nodes) [K]
+    speed_m_s: np.ndarray          # (n,) [m/s]
+    brake_power_w: np.ndarray      # (n,) [W]
+    link_flows_w: np.ndarray       # (n, n_links) [W]
 
 
 @dataclass(frozen=True)

@@ -29,9 +29,10 @@ pytestmark = pytest.mark.skipif(not Path("/proc/self/status").is_file(), reason=
 INTERRUPTED = "brakeheat: interrupted; nothing half-written was left"
 WRITE_STARTS = "write starts"          # the earlier manifest.json has just been removed
 MID_WRITE = "mid-write"                # results.h5 and summary.json replaced, a plot being written
+MID_STREAM = "mid-stream"              # --store full: results.h5 being filled while the run goes
 CASES = [(signal.SIGTERM, 0.05), (signal.SIGINT, 0.05), (signal.SIGTERM, 0.5), (signal.SIGINT, 0.5),
          (signal.SIGTERM, 1.0), (signal.SIGINT, 1.0), (signal.SIGTERM, WRITE_STARTS), (signal.SIGINT, WRITE_STARTS),
-         (signal.SIGTERM, MID_WRITE), (signal.SIGINT, MID_WRITE)]
+         (signal.SIGTERM, MID_WRITE), (signal.SIGINT, MID_WRITE), (signal.SIGTERM, MID_STREAM), (signal.SIGINT, MID_STREAM)]
 IDS = [f"{sig.name}-{when}" for sig, when in CASES]
 TIMEOUT_S = 50.0
 # the installed command, as users run it; `python -m thermo.cli.main` where it is not installed
@@ -64,6 +65,8 @@ def moment_reached(when, started: float, folder: Path) -> bool:
         return not (folder / MANIFEST_NAME).exists()
     if when == MID_WRITE:
         return any(n.startswith(".") and ".png." in n and n.endswith(".tmp") for n in os.listdir(folder))
+    if when == MID_STREAM:
+        return any(n.startswith(".results.h5.") and n.endswith(".tmp") for n in os.listdir(folder))
     return time.monotonic() - started >= when
 
 
@@ -85,7 +88,8 @@ def interrupted(earlier_set, tmp_path_factory):
     for k, (sig, when) in enumerate(CASES):
         folder = base / f"case_{k}"
         shutil.copytree(earlier_set, folder)
-        argv = [*BRAKEHEAT, "run", str(SMALL), *SHRINK, "--quiet", "--out", str(folder)]
+        store = ["--store", "full"] if when == MID_STREAM else []
+        argv = [*BRAKEHEAT, "run", str(SMALL), *SHRINK, "--quiet", "--out", str(folder), *store]
         process = subprocess.Popen(argv, cwd=ROOT, env=env, stdout=subprocess.DEVNULL, stderr=subprocess.PIPE,
                                    text=True, start_new_session=True, preexec_fn=_default_sigint)
         runs.append({"sig": sig, "when": when, "folder": folder, "process": process,
@@ -111,7 +115,7 @@ def interrupted(earlier_set, tmp_path_factory):
 
 
 @pytest.mark.parametrize("case", IDS)
-def test_interrupt_leaves_a_whole_set_or_a_marked_one(interrupted, case):
+def test_interrupt_leaves_a_whole_set_or_a_marked_one(interrupted, earlier_set, case):
     r = interrupted[case]
     folder, code, stderr = r["folder"], r["code"], r["stderr"]
     assert code in (130, 0), (code, stderr)
@@ -125,11 +129,14 @@ def test_interrupt_leaves_a_whole_set_or_a_marked_one(interrupted, case):
         assert verify_manifest(folder) == []          # the earlier set intact, or the new one complete
     else:
         assert code == 130                            # only an interrupted write leaves no manifest
+    if r["when"] == MID_STREAM and code == 130:       # the results file being streamed never replaced the earlier one
+        assert (folder / "results.h5").read_bytes() == (earlier_set / "results.h5").read_bytes()
 
 
 def test_a_signal_in_the_write_phase_leaves_the_set_marked_incomplete(interrupted):
     """At least one case hit the write phase itself: the folder mixes old and new files, without manifest."""
-    hits = [r for r in interrupted.values() if r["when"] in (WRITE_STARTS, MID_WRITE) and r["sent"] and r["code"] == 130]
+    hits = [r for r in interrupted.values()
+            if r["when"] in (WRITE_STARTS, MID_WRITE, MID_STREAM) and r["sent"] and r["code"] == 130]
     assert hits, {k: (r["sent"], r["code"]) for k, r in interrupted.items()}
     for r in hits:
         assert not (r["folder"] / MANIFEST_NAME).exists()

@@ -32,7 +32,9 @@ from thermo.network.assemble import compile_network
 from thermo.network.elements import table_enthalpy
 from thermo.network.schedule import Schedule
 from thermo.network.tabulate import ConductanceGrid
-from thermo.results import CornerFacts, CornerResult, EnergyBalance, LapPadThickness, LapSpan, PhaseSpan, StintPadThickness
+from thermo.results import (
+    CornerFacts, CornerResult, EnergyBalance, LapPadThickness, LapSpan, PhaseSpan, SeriesRows, StintPadThickness,
+)
 from thermo.scenario.model import Scenario
 from thermo.solver.fast import run_compiled, step_grid
 from thermo.solver.kernel_arrays import kernel_inputs, kernel_network_like, release_kernel_network
@@ -108,7 +110,11 @@ class CornerRun:
     ``interval_s``: interval of the stored series (None: ``output_interval_s(scenario)``; 0: every
     solver row); the rows where a node reaches its extremes in a segment are always kept.
     ``store``: "standard" keeps each link's energy per lap and per phase; "full" also keeps every
-    link's flow at every stored row, and every solver row. ``clock``: the run's time budget (None:
+    link's flow at every stored row, and every solver row. ``sink`` (only with store "full"): an
+    object whose ``append(corner, node_names, link_names, link_groups, rows)`` takes every solver
+    row of each segment as it is solved (``thermo.results.SeriesRows``; the results file written
+    while the run goes, ``thermo.output.hdf5_stream``); the corner then keeps in memory only its
+    series at the output interval, as with "standard". ``clock``: the run's time budget (None:
     a new one of ``[solver] wall_clock_limit_s``). Every node is checked against the model's
     physical range after each segment (``thermo.chain.guards``).
 
@@ -119,16 +125,20 @@ class CornerRun:
     """
 
     def __init__(self, scenario: Scenario, setup, *,
-                 interval_s: float | None = None, store: str = "standard", clock: WallClock | None = None):
+                 interval_s: float | None = None, store: str = "standard", clock: WallClock | None = None,
+                 sink=None):
         """``setup``: the corner as ``thermo.chain.setup.corner_setup`` built it (design, model, compiled
         network, conductance grid, solver settings); the run starts from its network."""
         if store not in STORE_CHOICES:
             raise ValueError(f"store must be one of {STORE_CHOICES}, got {store!r}")
+        if sink is not None and store != "full":
+            raise ValueError("a series sink takes every solver row: it needs store 'full'")
+        self.sink, self.streamed_rows = sink, 0
         design = setup.design
         self.scenario, self.design, self.settings = scenario, design, setup.settings
         self.clock = WallClock(scenario.solver.wall_clock_limit_s) if clock is None else clock
         self.grid = setup.grid
-        self.full = store == "full"
+        self.full = store == "full" and sink is None        # every row and the link flows kept in memory
         self.interval_s = 0.0 if self.full else (output_interval_s(scenario) if interval_s is None else interval_s)
         self.pad_layer_count = len(pad_layers(design))   # kept as the pad wears, so the state maps node for node
         self.model, self.compiled = setup.model, setup.network
@@ -264,6 +274,8 @@ class CornerRun:
         self.powers.append(np.interp(local, duty.time_s, duty.disc_heat_w + duty.pad_heat_w))
         if self.full:
             self.flows.append(sol.link_flows_w[keep])
+        if self.sink is not None:
+            self._stream(segment, duty, sol, out)
         self.link_energy += sol.link_energy_j
         previous = self.energy_by_phase.get(segment.phase_index)
         self.energy_by_phase[segment.phase_index] = sol.link_energy_j.copy() if previous is None else previous + sol.link_energy_j
@@ -285,6 +297,19 @@ class CornerRun:
             self._wear(segment, duty, schedule, sol, out, energy_lap)
         if segment.lap_index:
             self.lap_thickness.append({"lap": segment.lap_index, "thickness_m": self.thickness})
+
+    def _stream(self, segment: PlanSegment, duty: SegmentDuty, sol, out: np.ndarray) -> None:
+        """Every row of the segment to the sink (the first one only if none went before: it is the
+        previous segment's last), as store "full" keeps them in memory."""
+        rows = stored_rows(sol.time_s, out, 0.0, continues=self.streamed_rows > 0)
+        local = sol.time_s[rows] - segment.t_start_s
+        links = self.model.network.links
+        self.sink.append(self.design.name, self.model.output_nodes, [link.name for link in links],
+                         [link.group for link in links],
+                         SeriesRows(sol.time_s[rows], out[rows], np.interp(local, duty.time_s, duty.speed_m_s),
+                                    np.interp(local, duty.time_s, duty.disc_heat_w + duty.pad_heat_w),
+                                    sol.link_flows_w[rows]))
+        self.streamed_rows += rows.size
 
     def _wear(self, segment, duty, schedule, sol, out, energy_lap: float) -> None:
         scenario, design, model = self.scenario, self.design, self.model

@@ -72,15 +72,18 @@ def references_for(scenario: Scenario, correlations_used) -> tuple[str, ...]:
     return tuple(refs)
 
 
-def run_scenario(scenario: Scenario, *, progress=None, segments=None, store: str = "standard") -> Results:
+def run_scenario(scenario: Scenario, *, progress=None, segments=None, store: str = "standard",
+                 sink=None) -> Results:
     """The whole chain for every corner of a scenario. ``store``: "standard" (series at the
     output interval, link energies per lap and phase) or "full" (every solver row, and the link
-    flows at each)."""
+    flows at each). ``sink`` (store "full" only): takes every solver row as each segment is solved
+    (``CornerRun``; ``thermo.output.hdf5_stream``), and the results then hold the series at the
+    output interval, as with "standard"."""
     segments = expand_plan(scenario) if segments is None else segments
     setups = corner_setups(scenario)
     brakes = [setup.brake for setup in setups]
     clock = WallClock(scenario.solver.wall_clock_limit_s)
-    runs = [CornerRun(scenario, setup, store=store, clock=clock) for setup in setups]
+    runs = [CornerRun(scenario, setup, store=store, clock=clock, sink=sink) for setup in setups]
     for segment in segments:        # each segment's heat input made once, for every corner, then let go
         duties = corner_duties(scenario, segment, brakes)
         for setup, run in zip(setups, runs):

@@ -26,7 +26,8 @@ def add_run_options(p) -> None:
                                    "into DIR")
     p.add_argument("--store", choices=("standard", "full"), default="standard",
                    help="what results.h5 keeps: standard (series at [solver] output_s, link energies per lap "
-                        "and phase) or full (every solver step, and every link's flow at each)")
+                        "and phase) or full (every solver step, and every link's flow at each, streamed into "
+                        "results.h5 as the run goes)")
     p.add_argument("--laps", type=_lap_rows, default=None, metavar="all|N",
                    help="per-lap table rows in the report: all, or about N (default: all up to 40 laps, "
                         "else about 20 with the last and the worst)")
@@ -57,7 +58,10 @@ def run_and_report(path: Path, args) -> int:
     segments = expand_plan(scenario)
     progress = Progress(len(segments) * len(scenario.corners), enabled=not (args.json or args.quiet))
     try:
-        results = run_scenario(scenario, progress=progress, segments=segments, store=args.store)
+        if args.out and args.store == "full":
+            results = _run_streamed(scenario, segments, progress, Path(args.out))
+        else:
+            results = run_scenario(scenario, progress=progress, segments=segments, store=args.store)
     finally:
         progress.close()
     # what the solve leaves alive (the results, the models) stays alive while the results are
@@ -73,12 +77,28 @@ def run_and_report(path: Path, args) -> int:
     return EXIT_EXCEEDED if (args.fail_on_exceeded and exceeded) else EXIT_OK
 
 
+def _run_streamed(scenario, segments, progress, out: Path):
+    """``--store full --out DIR``: the run with its every row streamed into DIR/results.h5 as it goes
+    (``thermo.output.hdf5_stream``), keeping in memory only the series at the output interval. The
+    folder's manifest.json goes first: until the set is complete, it lists nothing."""
+    from thermo.chain import run_scenario
+    from thermo.output.hdf5_stream import streamed_results_hdf5
+    from thermo.output.manifest import remove_manifest
+    out.mkdir(parents=True, exist_ok=True)
+    remove_manifest(out)
+    with streamed_results_hdf5(out / "results.h5") as stream:
+        results = run_scenario(scenario, progress=progress, segments=segments, store="full", sink=stream)
+        stream.finish(results)
+    return results
+
+
 def _write_and_print(results, args) -> None:
     """The output set (--out), the lap table (--csv), and the JSON summary or the text report."""
     from thermo.output.summary import summary_dict
     if args.out:
         from thermo.output.files import write_outputs
-        write_outputs(results, Path(args.out), command=getattr(args, "command", None) or "run")
+        write_outputs(results, Path(args.out), command=getattr(args, "command", None) or "run",
+                      results_file_written=args.store == "full")
     if args.csv:
         from thermo.output.tables_csv import write_laps_csv
         write_laps_csv(results, Path(args.csv))

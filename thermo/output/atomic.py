@@ -201,6 +201,40 @@ def atomic_path(path):
 
 
 @contextlib.contextmanager
+def atomic_path_unheld(path):
+    """``atomic_path`` for a file filled over a long time (``thermo.output.hdf5_stream``: the results
+    file written while a run goes): Ctrl-C and SIGTERM are held only while the temporary file is made
+    and while it is renamed, so that they still stop the run at once; the writer holds them itself
+    around each of its writes (``interrupts_held``). On any exception, an interrupt included, the
+    temporary file is removed and an existing file at ``path`` is left untouched.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        Final file path [-]
+    """
+    target = Path(path)
+    directory = target.parent if str(target.parent) else Path(".")
+    tmp = None
+    try:
+        with interrupts_held():
+            deliver_held_interrupt()
+            tmp = _create_temporary(target)
+        yield tmp
+        with interrupts_held():
+            deliver_held_interrupt()          # held while the writer wrote: abandon this file
+            _fsync_file(tmp)
+            os.chmod(tmp, _umask_mode())
+            os.replace(tmp, target)
+            _UNFINISHED.discard(tmp)
+    except BaseException:
+        if tmp is not None:
+            _remove(tmp)
+        raise
+    _fsync_directory(directory)
+
+
+@contextlib.contextmanager
 def atomic_write(path, mode: str = "w", encoding: str | None = "utf-8"):
     """Open a temporary file beside ``path`` for writing; rename it onto ``path`` when the block succeeds.
 

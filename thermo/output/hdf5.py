@@ -112,7 +112,10 @@ def _write_laps(group: h5py.Group, laps: tuple[LapSpan, ...]) -> None:
     _dataset(group, "braking_energy_j", np.array([lap.braking_energy_j for lap in laps], dtype=float), units="J")
 
 
-def _write_corner(group: h5py.Group, corner: CornerResult, where: str) -> None:
+def _write_corner(group: h5py.Group, corner: CornerResult, where: str, series_in_file: bool = False) -> None:
+    """One corner's group; ``series_in_file``: its series (time_s, temperature_k, speed_m_s,
+    brake_power_w, link_flow_w) were streamed into the group already (``thermo.output.hdf5_stream``),
+    and the corner's own series are not written."""
     _unique(corner.node_names, "node", where)
     _unique([c.name for c in corner.checks], "check", where)
     n_t = np.shape(corner.time_s)[0]
@@ -128,16 +131,9 @@ def _write_corner(group: h5py.Group, corner: CornerResult, where: str) -> None:
     group.attrs["nodes"] = _strings(corner.node_names)
     group.attrs["stop_time_s"] = math.nan if corner.stop_time_s is None else float(corner.stop_time_s)
     group.attrs["extras_json"] = encode_exact(facts_dict(corner.facts), f"{where} extras")
-    _dataset(group, "time_s", corner.time_s, units="s")
-    _dataset(group, "temperature_k", corner.temperatures_k, units="K", nodes=_strings(corner.node_names))
-    for key, values, units in (("speed_m_s", corner.speed_m_s, "m/s"), ("brake_power_w", corner.brake_power_w, "W")):
-        if values is not None:
-            if np.shape(values) != (n_t,):
-                raise OutputError(f"{where}: {key} has shape {np.shape(values)}, expected ({n_t},)")
-            _dataset(group, key, values, units=units)
     links = dict(links=_strings(corner.link_names), groups=_strings(corner.link_groups))
-    if corner.link_flows_w is not None:
-        _dataset(group, "link_flow_w", corner.link_flows_w, units="W", sign_convention=SIGN_CONVENTION, **links)
+    if not series_in_file:
+        _write_series(group, corner, n_t, where, links)
     _dataset(group, "link_energy_j", corner.link_energy_j, units="J", sign_convention=SIGN_CONVENTION, **links)
     energy = group.create_group("energy")
     for key in ("heat_in_j", "stored_j", "lost_j"):
@@ -162,6 +158,18 @@ def _write_corner(group: h5py.Group, corner: CornerResult, where: str) -> None:
     for key in ("t_start_s", "t_end_s"):
         _dataset(phases, key, np.array([getattr(p, key) for p in corner.phases], dtype=float), units="s")
     _link_energies(phases, corner.phases, len(corner.link_names), where, links)
+
+
+def _write_series(group: h5py.Group, corner: CornerResult, n_t: int, where: str, links: dict) -> None:
+    _dataset(group, "time_s", corner.time_s, units="s")
+    _dataset(group, "temperature_k", corner.temperatures_k, units="K", nodes=_strings(corner.node_names))
+    for key, values, units in (("speed_m_s", corner.speed_m_s, "m/s"), ("brake_power_w", corner.brake_power_w, "W")):
+        if values is not None:
+            if np.shape(values) != (n_t,):
+                raise OutputError(f"{where}: {key} has shape {np.shape(values)}, expected ({n_t},)")
+            _dataset(group, key, values, units=units)
+    if corner.link_flows_w is not None:
+        _dataset(group, "link_flow_w", corner.link_flows_w, units="W", sign_convention=SIGN_CONVENTION, **links)
 
 
 def _link_energies(group: h5py.Group, spans, n_links: int, where: str, links: dict) -> None:
@@ -195,19 +203,26 @@ def write_results_hdf5(results: Results, path) -> None:
     _unique([c.name for c in results.corners], "corner", f"{path}")
     with atomic_path(path) as tmp:
         with h5py.File(tmp, "w", track_order=True) as f:
-            f.attrs["format"] = FORMAT
-            f.attrs["format_version"] = FORMAT_VERSION
-            for key in ("scenario_name", "scenario_text", "version", "solver", "solver_status", "caution"):
-                f.attrs[key] = getattr(results, key)
-            f.attrs["references"] = _strings(results.references)
-            f.attrs["warnings"] = _strings(results.warnings)
-            f.attrs["overrides"] = _strings(f"{key} = {value}" for key, value in results.overrides)
-            f.attrs["corners"] = _strings(c.name for c in results.corners)
-            if results.hydraulics is not None:
-                f.attrs["hydraulics_json"] = encode_exact(results.hydraulics, f"{path} hydraulics")
-            corners = f.create_group("corners", track_order=True)
-            for corner in results.corners:
-                _write_corner(corners.create_group(corner.name), corner, f"{path} corner {corner.name}")
+            write_results_into(f, results, path)
+
+
+def write_results_into(f: h5py.File, results: Results, path, streamed=()) -> None:
+    """The layout above into the open file ``f`` (``path`` names it in messages); the corners named
+    in ``streamed`` already hold their series in ``/corners/<corner>`` (``thermo.output.hdf5_stream``)."""
+    f.attrs["format"] = FORMAT
+    f.attrs["format_version"] = FORMAT_VERSION
+    for key in ("scenario_name", "scenario_text", "version", "solver", "solver_status", "caution"):
+        f.attrs[key] = getattr(results, key)
+    f.attrs["references"] = _strings(results.references)
+    f.attrs["warnings"] = _strings(results.warnings)
+    f.attrs["overrides"] = _strings(f"{key} = {value}" for key, value in results.overrides)
+    f.attrs["corners"] = _strings(c.name for c in results.corners)
+    if results.hydraulics is not None:
+        f.attrs["hydraulics_json"] = encode_exact(results.hydraulics, f"{path} hydraulics")
+    corners = f["corners"] if "corners" in f else f.create_group("corners", track_order=True)
+    for corner in results.corners:
+        group = corners[corner.name] if corner.name in streamed else corners.create_group(corner.name)
+        _write_corner(group, corner, f"{path} corner {corner.name}", series_in_file=corner.name in streamed)
 
 
 class _Reader:
