@@ -98,27 +98,29 @@ def test_a_failed_run_leaves_no_file_and_the_old_one_untouched(results, tmp_path
     assert sorted(p.name for p in tmp_path.iterdir()) == ["results.h5"]
 
 
-def test_a_stream_never_finished_is_an_error_and_leaves_nothing(results, tmp_path):
-    full = _with_speed_and_power(results)
+def _never_finished(stream, full):
+    _stream(stream, full.corners[0], np.arange(10), [10])
+
+
+def _columns_changed(stream, full):
     corner = full.corners[0]
-    with pytest.raises(OutputError, match="ended before its results file was finished"):
+    _stream(stream, corner, np.arange(10), [10])
+    _stream(stream, dataclasses.replace(corner, node_names=corner.node_names[::-1]), np.arange(10, 20), [10])
+
+
+def _columns_not_the_results(stream, full):
+    corner = full.corners[0]
+    _stream(stream, corner, np.arange(10), [10])
+    stream.finish(dataclasses.replace(full, corners=(dataclasses.replace(corner, link_names=corner.link_names[::-1]),
+                                                     full.corners[1])))
+
+
+@pytest.mark.parametrize("misuse, message", [
+    (_never_finished, "ended before its results file was finished"),
+    (_columns_changed, "changed their columns"),
+    (_columns_not_the_results, "columns are not the results'")])
+def test_a_misused_stream_is_an_error_and_leaves_nothing(results, tmp_path, misuse, message):
+    with pytest.raises(OutputError, match=message):
         with streamed_results_hdf5(tmp_path / "results.h5") as stream:
-            _stream(stream, corner, np.arange(10), [10])
-    assert list(tmp_path.iterdir()) == []
-
-
-def test_columns_must_match_from_block_to_block_and_at_the_end(results, tmp_path):
-    full = _with_speed_and_power(results)
-    corner = full.corners[0]
-    with pytest.raises(OutputError, match="changed their columns"):
-        with streamed_results_hdf5(tmp_path / "a.h5") as stream:
-            _stream(stream, corner, np.arange(10), [10])
-            renamed = dataclasses.replace(corner, node_names=corner.node_names[::-1])
-            _stream(stream, renamed, np.arange(10, 20), [10])
-    other = dataclasses.replace(full, corners=(dataclasses.replace(corner, link_names=corner.link_names[::-1]),
-                                               full.corners[1]))
-    with pytest.raises(OutputError, match="columns are not the results'"):
-        with streamed_results_hdf5(tmp_path / "b.h5") as stream:
-            _stream(stream, corner, np.arange(10), [10])
-            stream.finish(other)
+            misuse(stream, _with_speed_and_power(results))
     assert list(tmp_path.iterdir()) == []

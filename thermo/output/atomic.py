@@ -180,24 +180,8 @@ def atomic_path(path):
     path : str or os.PathLike
         Final file path [-]
     """
-    target = Path(path)
-    directory = target.parent if str(target.parent) else Path(".")
-    with interrupts_held():
-        deliver_held_interrupt()              # held before this file was begun: do not begin it
-        tmp = None
-        try:
-            tmp = _create_temporary(target)   # signals are held: nothing lands before tmp is set
-            yield tmp
-            deliver_held_interrupt()          # held while the writer wrote: abandon this file
-            _fsync_file(tmp)
-            os.chmod(tmp, _umask_mode())
-            os.replace(tmp, target)
-            _UNFINISHED.discard(tmp)
-        except BaseException:
-            if tmp is not None:
-                _remove(tmp)
-            raise
-    _fsync_directory(directory)
+    with interrupts_held(), atomic_path_unheld(path) as tmp:    # held throughout: the inner holds are covered
+        yield tmp
 
 
 @contextlib.contextmanager
@@ -218,8 +202,8 @@ def atomic_path_unheld(path):
     tmp = None
     try:
         with interrupts_held():
-            deliver_held_interrupt()
-            tmp = _create_temporary(target)
+            deliver_held_interrupt()          # held before this file was begun: do not begin it
+            tmp = _create_temporary(target)   # signals are held: nothing lands before tmp is set
         yield tmp
         with interrupts_held():
             deliver_held_interrupt()          # held while the writer wrote: abandon this file
