@@ -199,6 +199,15 @@ def test_store_full_streams_every_row_into_the_file(tmp_path):
     assert dataclasses.replace(streamed, corners=()) == dataclasses.replace(in_memory, corners=())
 
 
+@pytest.mark.parametrize("argv", [["run", str(SMALL), "--json"], ["demo", "--compare", "--json"]])
+def test_store_full_without_a_results_file_is_one_line_and_exit_1(argv):
+    """--store says what results.h5 keeps: without --out (or with demo --compare, which writes no
+    results.h5) it would be ignored, so it is refused before anything runs."""
+    code, out, err = cli([*argv, "--store", "full"])
+    assert code == 1 and out == ""
+    assert len(err.splitlines()) == 1 and err.startswith("brakeheat: error: --store") and "Traceback" not in err
+
+
 def test_laps_and_checks_csv_hold_the_summary_numbers(small_runs, tmp_path):
     """--out writes laps.csv and checks.csv (issue 17, exports); read back with Python's csv
     module they agree with the JSON summary; --csv FILE writes the per-lap table alone."""

@@ -129,17 +129,24 @@ def test_interrupt_leaves_a_whole_set_or_a_marked_one(interrupted, earlier_set, 
         assert verify_manifest(folder) == []          # the earlier set intact, or the new one complete
     else:
         assert code == 130                            # only an interrupted write leaves no manifest
-    if r["when"] == MID_STREAM and code == 130:       # the results file being streamed never replaced the earlier one
+    if r["when"] == MID_STREAM and code == 130:       # stopped while results.h5 was streamed: the earlier set whole
         assert (folder / "results.h5").read_bytes() == (earlier_set / "results.h5").read_bytes()
+        assert verify_manifest(folder) == []
 
 
 def test_a_signal_in_the_write_phase_leaves_the_set_marked_incomplete(interrupted):
     """At least one case hit the write phase itself: the folder mixes old and new files, without manifest."""
-    hits = [r for r in interrupted.values()
-            if r["when"] in (WRITE_STARTS, MID_WRITE, MID_STREAM) and r["sent"] and r["code"] == 130]
+    hits = [r for r in interrupted.values() if r["when"] in (WRITE_STARTS, MID_WRITE) and r["sent"] and r["code"] == 130]
     assert hits, {k: (r["sent"], r["code"]) for k, r in interrupted.items()}
     for r in hits:
         assert not (r["folder"] / MANIFEST_NAME).exists()
+
+
+def test_a_signal_while_results_h5_is_streamed_stops_the_run(interrupted):
+    """--store full: at least one case was stopped while its results.h5 was streamed (the run
+    itself, not held until the end), and kept the earlier set whole (checked case by case above)."""
+    hits = [r for r in interrupted.values() if r["when"] == MID_STREAM and r["sent"] and r["code"] == 130]
+    assert hits, {k: (r["sent"], r["code"]) for k, r in interrupted.items()}
 
 
 

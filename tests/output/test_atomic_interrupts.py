@@ -10,7 +10,7 @@ import signal
 import pytest
 
 from thermo.output import atomic
-from thermo.output.atomic import atomic_path, atomic_write
+from thermo.output.atomic import atomic_path, atomic_path_unheld, atomic_write
 
 
 def _interrupt_after(monkeypatch, module, name, when=1):
@@ -158,3 +158,33 @@ def test_a_second_ctrl_c_while_held_stops_at_once(tmp_path):
     assert reached == ["after the first"]
     _assert_clean(tmp_path, "old")
     assert path.read_text() == "old"
+
+
+@pytest.mark.parametrize("signum", [signal.SIGINT, signal.SIGTERM])
+def test_a_file_filled_over_a_long_time_is_not_held_and_still_left_clean(tmp_path, signum):
+    """``atomic_path_unheld`` (the results file streamed while a run goes): a signal while the
+    file is being filled stops at once, not when the run ends; the old file stays, nothing is left."""
+    path = tmp_path / "a.txt"
+    path.write_text("old")
+    went_on = []
+    previous = signal.signal(signal.SIGTERM, signal.default_int_handler)   # as brakeheat's main() does
+    try:
+        with pytest.raises(KeyboardInterrupt):
+            with atomic_path_unheld(path) as tmp:
+                tmp.write_text("half")
+                signal.raise_signal(signum)       # raised here, not held
+                went_on.append(True)
+    finally:
+        signal.signal(signal.SIGTERM, previous)
+    assert went_on == []
+    _assert_clean(tmp_path, "old")
+    assert path.read_text() == "old"
+
+
+def test_a_file_filled_over_a_long_time_is_renamed_into_place(tmp_path):
+    path = tmp_path / "a.txt"
+    path.write_text("old")
+    with atomic_path_unheld(path) as tmp:
+        tmp.write_text("new")
+    _assert_clean(tmp_path, "new")
+    assert path.read_text() == "new"

@@ -27,7 +27,7 @@ def add_run_options(p) -> None:
     p.add_argument("--store", choices=("standard", "full"), default="standard",
                    help="what results.h5 keeps: standard (series at [solver] output_s, link energies per lap "
                         "and phase) or full (every solver step, and every link's flow at each, streamed into "
-                        "results.h5 as the run goes)")
+                        "results.h5 as the run goes; needs --out)")
     p.add_argument("--laps", type=_lap_rows, default=None, metavar="all|N",
                    help="per-lap table rows in the report: all, or about N (default: all up to 40 laps, "
                         "else about 20 with the last and the worst)")
@@ -80,15 +80,16 @@ def run_and_report(path: Path, args) -> int:
 def _run_streamed(scenario, segments, progress, out: Path):
     """``--store full --out DIR``: the run with its every row streamed into DIR/results.h5 as it goes
     (``thermo.output.hdf5_stream``), keeping in memory only the series at the output interval. The
-    folder's manifest.json goes first: until the set is complete, it lists nothing."""
+    folder's manifest.json is removed once the file is complete, just before it replaces the earlier
+    results.h5: a run that fails or is interrupted before then leaves the earlier set whole."""
     from thermo.chain import run_scenario
     from thermo.output.hdf5_stream import streamed_results_hdf5
     from thermo.output.manifest import remove_manifest
     out.mkdir(parents=True, exist_ok=True)
-    remove_manifest(out)
     with streamed_results_hdf5(out / "results.h5") as stream:
         results = run_scenario(scenario, progress=progress, segments=segments, store="full", sink=stream)
         stream.finish(results)
+        remove_manifest(out)
     return results
 
 
@@ -113,7 +114,12 @@ def _write_and_print(results, args) -> None:
 
 
 def check_out_option(args) -> None:
-    """A bad --out or --csv fails now, before the scenario is read or solved."""
+    """A bad --out or --csv fails now, before the scenario is read or solved; so does --store full
+    without --out (it says what results.h5 keeps, and only --out writes one)."""
+    if getattr(args, "store", "standard") == "full" and args.out is None:
+        from thermo.output.errors import OutputError
+        raise OutputError("--store full: keeps every solver step in results.h5, which only --out DIR writes; "
+                          "expected --out DIR with it")
     if args.out is not None:
         from thermo.output.folder import check_output_folder
         check_output_folder(args.out, source="--out")
@@ -135,6 +141,9 @@ def demo_command(args) -> int:
         print(path)
         return 0
     if args.compare:
+        if args.store != "standard":
+            from thermo.output.errors import OutputError
+            raise OutputError("--store: says what a run's results.h5 keeps; demo --compare writes none")
         from thermo.cli.compare_cmd import compare_command
         args.scenario = str(path)
         return compare_command(args)

@@ -11,7 +11,8 @@ of ``thermo.output.hdf5`` (the same datasets, attributes and compression), so
 
 The file is filled under a temporary name and renamed into place only once the run and the file
 are complete (``atomic_path_unheld``): a run that fails or is interrupted leaves no file behind and
-an older results.h5 untouched. Ctrl-C and SIGTERM are held only around each write to the file.
+an older results.h5 untouched. Ctrl-C and SIGTERM are held only around each write to the file (its
+opening and closing included), so that they still stop the run at once.
 """
 from __future__ import annotations
 
@@ -118,8 +119,13 @@ def streamed_results_hdf5(path, block_rows: int = BLOCK_ROWS):
     is renamed onto ``path`` when the block ends after ``finish``, and removed on any exception
     (or when the block ends without ``finish``: the file would lack its results)."""
     with atomic_path_unheld(path) as tmp:
-        with h5py.File(tmp, "w", track_order=True) as f:
+        with interrupts_held():
+            f = h5py.File(tmp, "w", track_order=True)
+        try:
             stream = ResultsStream(f, path, block_rows)
             yield stream
             if not stream.finished:
                 raise OutputError(f"{path}: the run ended before its results file was finished")
+        finally:
+            with interrupts_held():           # closing writes the chunks h5py still caches
+                f.close()
