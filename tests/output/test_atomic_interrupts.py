@@ -110,25 +110,39 @@ def test_temporary_names_are_hidden_and_beside_the_target(tmp_path):
     assert name != atomic.temporary_name(tmp_path / "results.h5")
 
 
+def _write_held(path, signum, went_on):
+    with atomic_write(path) as handle:
+        signal.raise_signal(signum)               # delivered now, and held
+        handle.write("new")
+        went_on.append(True)
+
+
+def _fill_unheld(path, signum, went_on):
+    with atomic_path_unheld(path) as tmp:
+        tmp.write_text("half")
+        signal.raise_signal(signum)               # raised here, not held
+        went_on.append(True)
+
+
 @pytest.mark.parametrize("signum", [signal.SIGINT, signal.SIGTERM])
-def test_a_signal_while_the_writer_writes_is_held_until_it_returns(tmp_path, signum):
-    """A library never sees the KeyboardInterrupt (one raised in its callbacks can be swallowed):
-    the writer finishes, then the file is abandoned and the interrupt raised."""
+@pytest.mark.parametrize("write, held", [(_write_held, True), (_fill_unheld, False)], ids=["held", "unheld"])
+def test_a_signal_while_the_writer_writes(tmp_path, signum, write, held):
+    """``atomic_write``: a library never sees the KeyboardInterrupt (one raised in its callbacks can
+    be swallowed): the writer finishes, then the file is abandoned and the interrupt raised.
+    ``atomic_path_unheld`` (the results file streamed while a run goes): the signal stops the
+    filling at once, not when the run ends. Either way the old file stays and nothing is left."""
     path = tmp_path / "a.txt"
     path.write_text("old")
-    finished = []
+    went_on = []
     previous = signal.signal(signal.SIGTERM, signal.default_int_handler)   # as brakeheat's main() does
     try:
         with pytest.raises(KeyboardInterrupt):
-            with atomic_write(path) as handle:
-                signal.raise_signal(signum)       # delivered now, and held
-                handle.write("new")
-                finished.append(True)
+            write(path, signum, went_on)
         assert signal.getsignal(signal.SIGTERM) is signal.default_int_handler      # handlers put back
         assert signal.getsignal(signal.SIGINT) is signal.default_int_handler
     finally:
         signal.signal(signal.SIGTERM, previous)
-    assert finished == [True]
+    assert went_on == ([True] if held else [])
     _assert_clean(tmp_path, "old")
     assert path.read_text() == "old"
 
@@ -156,27 +170,6 @@ def test_a_second_ctrl_c_while_held_stops_at_once(tmp_path):
             reached.append("after the second")
             handle.write("new")
     assert reached == ["after the first"]
-    _assert_clean(tmp_path, "old")
-    assert path.read_text() == "old"
-
-
-@pytest.mark.parametrize("signum", [signal.SIGINT, signal.SIGTERM])
-def test_a_file_filled_over_a_long_time_is_not_held_and_still_left_clean(tmp_path, signum):
-    """``atomic_path_unheld`` (the results file streamed while a run goes): a signal while the
-    file is being filled stops at once, not when the run ends; the old file stays, nothing is left."""
-    path = tmp_path / "a.txt"
-    path.write_text("old")
-    went_on = []
-    previous = signal.signal(signal.SIGTERM, signal.default_int_handler)   # as brakeheat's main() does
-    try:
-        with pytest.raises(KeyboardInterrupt):
-            with atomic_path_unheld(path) as tmp:
-                tmp.write_text("half")
-                signal.raise_signal(signum)       # raised here, not held
-                went_on.append(True)
-    finally:
-        signal.signal(signal.SIGTERM, previous)
-    assert went_on == []
     _assert_clean(tmp_path, "old")
     assert path.read_text() == "old"
 
