@@ -133,7 +133,7 @@ class CornerRun:
             raise ValueError(f"store must be one of {STORE_CHOICES}, got {store!r}")
         if sink is not None and store != "full":
             raise ValueError("a series sink takes every solver row: it needs store 'full'")
-        self.sink, self.streamed_rows = sink, 0
+        self.sink, self.streamed_rows, self._columns = sink, 0, None
         design = setup.design
         self.scenario, self.design, self.settings = scenario, design, setup.settings
         self.clock = WallClock(scenario.solver.wall_clock_limit_s) if clock is None else clock
@@ -269,9 +269,9 @@ class CornerRun:
         keep = stored_rows(sol.time_s, out, self.interval_s, continues=bool(self.times))
         self.times.append(sol.time_s[keep])
         self.temps.append(out[keep])
-        local = sol.time_s[keep] - segment.t_start_s
-        self.speeds.append(np.interp(local, duty.time_s, duty.speed_m_s))
-        self.powers.append(np.interp(local, duty.time_s, duty.disc_heat_w + duty.pad_heat_w))
+        speed, power = _speed_and_power(duty, sol.time_s[keep] - segment.t_start_s)
+        self.speeds.append(speed)
+        self.powers.append(power)
         if self.full:
             self.flows.append(sol.link_flows_w[keep])
         if self.sink is not None:
@@ -302,13 +302,12 @@ class CornerRun:
         """Every row of the segment to the sink (the first one only if none went before: it is the
         previous segment's last), as store "full" keeps them in memory."""
         rows = stored_rows(sol.time_s, out, 0.0, continues=self.streamed_rows > 0)
-        local = sol.time_s[rows] - segment.t_start_s
-        links = self.model.network.links
-        self.sink.append(self.design.name, self.model.output_nodes, [link.name for link in links],
-                         [link.group for link in links],
-                         SeriesRows(sol.time_s[rows], out[rows], np.interp(local, duty.time_s, duty.speed_m_s),
-                                    np.interp(local, duty.time_s, duty.disc_heat_w + duty.pad_heat_w),
-                                    sol.link_flows_w[rows]))
+        if self._columns is None:          # the columns' names, the same for every segment
+            links = self.model.network.links
+            self._columns = (self.model.output_nodes, [link.name for link in links], [link.group for link in links])
+        speed, power = _speed_and_power(duty, sol.time_s[rows] - segment.t_start_s)
+        self.sink.append(self.design.name, *self._columns,
+                         SeriesRows(sol.time_s[rows], out[rows], speed, power, sol.link_flows_w[rows]))
         self.streamed_rows += rows.size
 
     def _wear(self, segment, duty, schedule, sol, out, energy_lap: float) -> None:
@@ -389,6 +388,13 @@ def stored_rows(time_s: np.ndarray, outputs: np.ndarray, interval_s: float, cont
     keep[skip + np.argmax(outputs[skip:], axis=0)] = True
     keep[skip + np.argmin(outputs[skip:], axis=0)] = True
     return np.flatnonzero(keep[skip:]) + skip
+
+
+def _speed_and_power(duty: SegmentDuty, local_s: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """The car's speed [m/s] and the friction heat into the corner [W] at ``local_s``, the
+    segment's own time axis [s]."""
+    return (np.interp(local_s, duty.time_s, duty.speed_m_s),
+            np.interp(local_s, duty.time_s, duty.disc_heat_w + duty.pad_heat_w))
 
 
 def worn_pad_profile(old_dx_m: np.ndarray, old_t_k: np.ndarray, new_dx_m: np.ndarray) -> np.ndarray:
