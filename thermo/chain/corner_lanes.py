@@ -25,9 +25,10 @@ import numba
 import numpy as np
 
 from thermo.chain.corner_run import (
-    MIN_PAD_THICKNESS_M, SegmentDuty, _wear_factor, conductance_grid, segment_schedule, worn_pad_profile,
+    SegmentDuty, conductance_grid, lap_wear, segment_schedule, worn_pad_profile,
 )
 from thermo.chain.guards import STATE_MAX_K, STATE_MIN_K
+from thermo.chain.stint_kernel import heat_weighted_pad_k
 from thermo.chain.pad_rows import PadRows
 from thermo.chain.plan import PlanSegment
 from thermo.chain.setup import corner_setup
@@ -164,7 +165,7 @@ class CornerLanes:
                 self.peaks_k[b, higher] = kept[top[higher], np.flatnonzero(higher)]
                 self.peak_time_s[b, higher] = out_t[first:][top[higher]]
                 self.T[b] = res.final[j]
-                self._wear(b, segment, out, weight, energy)
+                self._wear(b, segment, temps, weight, energy)
         self.segments_done += 1
 
     def _solve(self, kn, inputs, T0: np.ndarray, record: np.ndarray):
@@ -184,15 +185,14 @@ class CornerLanes:
         finally:
             numba.set_num_threads(threads)
 
-    def _wear(self, b: int, segment: PlanSegment, out: np.ndarray, weight: np.ndarray, energy_lap: float) -> None:
+    def _wear(self, b: int, segment: PlanSegment, temps: np.ndarray, weight: np.ndarray, energy_lap: float) -> None:
         """``CornerRun._wear`` for configuration ``b``: the pad-heat weighted pad temperature sets the wear."""
         scenario = self.scenarios[b]
         if not (scenario.pad_wear.enabled and segment.moving and energy_lap > 0):
             return
-        pad_k = float(np.sum(weight * out[:, self.pad_rows.out_pad]) / max(np.sum(weight), 1e-12))
-        wear = (scenario.pad_wear.wear_coefficient_m3_per_j * energy_lap / (2 * self.designs[b].pad.area_m2)
-                * _wear_factor(scenario, pad_k))
-        new = max(self.thickness[b] - wear, MIN_PAD_THICKNESS_M)
+        pads = self.pad_rows.pads
+        pad_k = heat_weighted_pad_k(temps, self.weights[b][self.pad_rows.out_pad, pads], pads, weight)
+        new = lap_wear(scenario, self.designs[b], self.thickness[b], energy_lap, pad_k)
         if new < self.thickness[b]:
             old_dx, pads = self.layers[b], self.pad_rows.pads
             self._set_pad(b, new)

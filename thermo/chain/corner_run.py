@@ -11,20 +11,23 @@ from __future__ import annotations
 
 import warnings
 from dataclasses import dataclass, replace
-from typing import NamedTuple
 
 import numpy as np
 
 from thermo.chain.guards import WallClock, check_state_range
 from thermo.chain.pad_rows import PadKernel
 from thermo.chain.plan import PlanSegment
+from thermo.chain.stint_call import Solved, solve_stint
+from thermo.chain.stint_kernel import heat_weighted_pad_k
 from thermo.chain.validity import check_validity
 from thermo.corner.build import (
     SIGNAL_AMBIENT, SIGNAL_CLAMP, SIGNAL_DISC_HEAT, SIGNAL_DUCT_AIR, SIGNAL_PAD_HEAT, SIGNAL_SPEED, CornerModel, build_corner,
     clamp_signal, duct_air_signals, pad_layers, worn_corner,
 )
 from thermo.corner.geometry import CornerDesign
+from thermo.corner.layers import worn_pad_profile
 from thermo.corner.pad_terms import pad_sources
+from thermo.corner.pad_wear import worn_thickness_m
 from thermo.errors import SolveError
 from thermo.limits import check_specs, evaluate_check, property_range_warnings
 from thermo.materials import get_material
@@ -54,18 +57,6 @@ class SegmentDuty:
     disc_heat_w: np.ndarray
     pad_heat_w: np.ndarray
     speed_m_s: np.ndarray
-
-
-class _Solved(NamedTuple):
-    """What ``CornerRun`` keeps of one segment's solve (the fields of ``NetworkSolution`` it reads)."""
-
-    time_s: np.ndarray
-    temperatures_k: np.ndarray
-    link_flows_w: np.ndarray
-    link_energy_j: np.ndarray
-    heat_in_j: float
-    lost_j: float
-    final_k: np.ndarray
 
 
 def segment_schedule(scenario: Scenario, design: CornerDesign, segment: PlanSegment, duty: SegmentDuty) -> Schedule:
@@ -99,9 +90,12 @@ def output_interval_s(scenario: Scenario) -> float:
     return 1.0 / hz if hz > 0 else scenario.solver.output_s
 
 
-def _wear_factor(scenario: Scenario, pad_k: float) -> float:
+def lap_wear(scenario: Scenario, design: CornerDesign, thickness_m: float, energy_j: float, pad_k: float) -> float:
+    """The pad's thickness after a lap of friction energy ``energy_j`` [J] at the heat-weighted pad
+    temperature ``pad_k`` [K] (``thermo.corner.pad_wear``), held at ``MIN_PAD_THICKNESS_M`` [m]."""
     w = scenario.pad_wear
-    return float(np.exp(max(pad_k - w.reference_temperature_k, 0.0) / w.temperature_scale_k))
+    return float(worn_thickness_m(thickness_m, w.wear_coefficient_m3_per_j, energy_j, 2 * design.pad.area_m2, pad_k,
+                                  w.reference_temperature_k, w.temperature_scale_k, MIN_PAD_THICKNESS_M))
 
 
 class CornerRun:
@@ -202,23 +196,27 @@ class CornerRun:
     def _output_weights(self) -> np.ndarray:
         return self.model.output_weights if self.pad_kernel is None else self.pad_kernel.output_weights
 
-    def _enthalpy(self, index=None) -> float:
-        """Stored heat of the nodes ``index`` (None: all) relative to 20 degC [J]; the pad's layers
-        at their masses now."""
+    def _enthalpy(self, index=None, pad_masses_kg=None, T=None) -> float:
+        """Stored heat of the nodes ``index`` (None: all) relative to 20 degC [J], at ``T`` (None: the
+        state now), the pad's layers at ``pad_masses_kg`` (None: their masses now)."""
         nodes = self.model.network.nodes
         index = range(len(nodes)) if index is None else index
-        if self.pad_values is None:
-            return sum(nodes[k].heat_capacity.enthalpy(self.T[k]) for k in index)
+        T = self.T if T is None else T
+        masses = self.pad_values.masses_kg if pad_masses_kg is None and self.pad_values is not None else pad_masses_kg
+        if masses is None:
+            return sum(nodes[k].heat_capacity.enthalpy(T[k]) for k in index)
         # every pad layer at once: elementwise the same arithmetic as one layer at a time
-        pads = dict(zip(self.i_pads, table_enthalpy(self.pad_values.masses_kg, *self.pad_heat_table, self.T[self.i_pads])))
-        return sum(pads[k] if k in pads else nodes[k].heat_capacity.enthalpy(self.T[k]) for k in index)
+        pads = dict(zip(self.i_pads, table_enthalpy(masses, *self.pad_heat_table, T[self.i_pads])))
+        return sum(pads[k] if k in pads else nodes[k].heat_capacity.enthalpy(T[k]) for k in index)
 
-    def _direct_share(self) -> float:
-        """Share of the friction heat the sources put straight into the disc's face layer [-]."""
+    def _direct_share(self, direct: float | None = None) -> float:
+        """Share of the friction heat the sources put straight into the disc's face layer [-]: with
+        the pad now, or with an interface share ``direct`` (``PadTerms.direct_disc_share``)."""
         model, values = self.model, self.pad_values
-        if values is None:
+        if direct is None and values is None:
             return _direct_share(model)
-        sources = pad_sources(model.disc_face_node, model.pad_nodes[0], values, (SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT))
+        sources = pad_sources(model.disc_face_node, model.pad_nodes[0], values.direct_disc_share if direct is None else direct,
+                              (SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT))
         return _direct_share_of(sources, model.disc_face_node, model.heat_partition)
 
     def _change_pads(self, segment: PlanSegment) -> None:
@@ -242,7 +240,7 @@ class CornerRun:
                                settings, out_t, phase)
             if res is not None:
                 energy = res.link_energy[0]
-                return _Solved(out_t, res.temps[0], res.flows[0], energy, float(res.heat_in[0]),
+                return Solved(out_t, res.temps[0], res.flows[0], energy, float(res.heat_in[0]),
                                float(np.sum(energy[self.compiled.link_to_boundary], axis=-1)), res.final[0])
             self._current_model()       # off the tables: the model's own functions, in the numpy stepper
         with warnings.catch_warnings():
@@ -254,18 +252,74 @@ class CornerRun:
 
     def advance(self, segment: PlanSegment, duty: SegmentDuty) -> None:
         """Solve one segment from the carried state and keep what the result needs."""
-        scenario, design = self.scenario, self.design
         phase = segment.phase
         if phase.kind == "pit_stop" and (phase.pad_change or self.thickness < phase.pad_change_below_m):
             self._change_pads(segment)
-        schedule = segment_schedule(scenario, design, segment, duty)
-        phase_name = phase.name + (f" lap {segment.lap_index}" if segment.lap_index else "")
-        sol = self._solve(schedule, f"corner {design.name}, {phase_name}")
-        names = self.model.network.node_names
-        check_state_range(design.name, phase_name, names, sol.time_s, sol.temperatures_k)
+        schedule = segment_schedule(self.scenario, self.design, segment, duty)
+        sol = self._solve(schedule, f"corner {self.design.name}, {_phase_name(segment)}")
+        energy_lap = lap_energy_j(duty)
+        self._keep(segment, duty, schedule, sol, self._output_weights(), self._direct_share(), energy_lap)
+        if self.scenario.pad_wear.enabled and segment.moving and energy_lap > 0:
+            self._wear(segment, duty, schedule, sol, energy_lap)
+        if segment.lap_index:
+            self.lap_thickness.append({"lap": segment.lap_index, "thickness_m": self.thickness})
+
+    def advance_laps(self, segments, duties) -> None:
+        """``advance`` through consecutive driven segments (no stop between them, so no pad change),
+        with their ``SegmentDuty`` each: on the corner's kernel arrays by full Newton, every lap in one
+        compiled call with the pad worn between laps (``thermo.chain.stint_call``); a lap that leaves a
+        conductance table, and every lap of a corner that does not run compiled, one at a time."""
+        if any(not s.moving for s in segments):
+            raise ValueError("advance_laps takes driven segments only (a stop may change the pads)")
+        done = 0
+        while done < len(segments):
+            if self.pad_kernel is not None and not self.settings.linearised:
+                laps, stopped = self._advance_stint(segments[done:], duties[done:])
+                done += laps
+                if not stopped:
+                    continue
+            self.advance(segments[done], duties[done])
+            done += 1
+
+    def _advance_stint(self, segments, duties) -> tuple[int, bool]:
+        """Laps in one compiled call (``stint_call.solve_stint``), then what the result keeps of each,
+        as ``advance`` keeps it; returns the number of laps done and whether the lap after them left
+        a conductance table or failed (the caller then does that one by ``advance``)."""
+        scenario, design = self.scenario, self.design
+        energies = [lap_energy_j(duty) for duty in duties]
+        call = solve_stint(self, [segment_schedule(scenario, design, s, d) for s, d in zip(segments, duties)], duties,
+                           energies, MIN_PAD_THICKNESS_M)
+        direct = call.direct_start
+        masses = None if self.pad_values is None else self.pad_values.masses_kg
+        thickness = self.thickness
+        for k in range(call.laps_done):
+            segment, duty = segments[k], duties[k]
+            share = self._direct_share() if k == 0 else self._direct_share(call.pads.direct[k - 1] if direct is not None else None)
+            self._keep(segment, duty, call.schedules[k], call.solved(k), call.pads.weights[k], share, energies[k])
+            self.T = call.pads.state_k[k].copy()
+            if call.pads.thickness_m[k] < thickness:        # the kernel wore the pad: what the worn slice took away
+                new_masses = call.pads.masses_kg[k]
+                self.removed += (self._enthalpy(self.i_pads, masses, call.result.final[k])
+                                 - self._enthalpy(self.i_pads, new_masses, self.T))
+                masses, thickness = new_masses, float(call.pads.thickness_m[k])
+                self.warns += _pad_warnings(design, scenario.pad_wear.warn_margin_m, thickness, segment.lap_index,
+                                            self.warned)
+            if segment.lap_index:
+                self.lap_thickness.append({"lap": segment.lap_index, "thickness_m": thickness})
+        if thickness != self.thickness:
+            self._set_pad(thickness)        # the same values the kernel wrote, and the pad's PadTerms
+        return call.laps_done, call.stopped
+
+    def _keep(self, segment: PlanSegment, duty: SegmentDuty, schedule: Schedule, sol, weights: np.ndarray,
+              direct_share: float, energy_lap: float) -> np.ndarray:
+        """Keep what the result needs of a solved segment ``sol`` (its series through ``weights``, the
+        pad's output weights it was solved with; ``direct_share``, ``_direct_share`` of its pad; its
+        friction energy [J]), and carry its end state; returns its output series."""
+        design, model, phase = self.design, self.model, segment.phase
+        phase_name = _phase_name(segment)
+        check_state_range(design.name, phase_name, model.network.node_names, sol.time_s, sol.temperatures_k)
         self.clock.check(f"corner {design.name}, {phase_name}")
-        model = self.model
-        out = sol.temperatures_k @ self._output_weights().T
+        out = sol.temperatures_k @ weights.T
         keep = stored_rows(sol.time_s, out, self.interval_s, continues=bool(self.times))
         self.times.append(sol.time_s[keep])
         self.temps.append(out[keep])
@@ -280,23 +334,19 @@ class CornerRun:
         previous = self.energy_by_phase.get(segment.phase_index)
         self.energy_by_phase[segment.phase_index] = sol.link_energy_j.copy() if previous is None else previous + sol.link_energy_j
         self.heat_in += sol.heat_in_j
-        self.direct_to_disc += self._direct_share() * sol.heat_in_j
+        self.direct_to_disc += direct_share * sol.heat_in_j
         self.lost += sol.lost_j
         self.T = sol.final_k.copy()
         picks = slice(None, None, VALIDITY_SAMPLE_EVERY)
         boundary_k, drivers = self.compiled.inputs_series(sol.time_s[picks], schedule)
         self.states.append((drivers[:, 0].copy() if drivers.shape[1] else np.zeros(len(boundary_k)),
                             sol.temperatures_k[picks].copy(), boundary_k))
-        energy_lap = float(np.trapezoid(duty.disc_heat_w + duty.pad_heat_w, duty.time_s))
         if segment.lap_index:
             self.laps.append(LapSpan(segment.lap_index, phase.name, float(sol.time_s[0]), float(sol.time_s[-1]),
                                      dict(zip(model.output_nodes, map(float, out.min(axis=0)))),
                                      dict(zip(model.output_nodes, map(float, out.max(axis=0)))), energy_lap,
                                      tuple(map(float, sol.link_energy_j))))
-        if scenario.pad_wear.enabled and segment.moving and energy_lap > 0:
-            self._wear(segment, duty, schedule, sol, out, energy_lap)
-        if segment.lap_index:
-            self.lap_thickness.append({"lap": segment.lap_index, "thickness_m": self.thickness})
+        return out
 
     def _stream(self, segment: PlanSegment, duty: SegmentDuty, sol, out: np.ndarray) -> None:
         """Every row of the segment to the sink (the first one only if none went before: it is the
@@ -310,14 +360,12 @@ class CornerRun:
                          SeriesRows(sol.time_s[rows], out[rows], speed, power, sol.link_flows_w[rows]))
         self.streamed_rows += rows.size
 
-    def _wear(self, segment, duty, schedule, sol, out, energy_lap: float) -> None:
-        scenario, design, model = self.scenario, self.design, self.model
-        pad_series = out[:, model.output_nodes.index("pad")]
-        weight = np.interp(sol.time_s, schedule.time_s, duty.pad_heat_w)
-        pad_k = float(np.sum(weight * pad_series) / max(np.sum(weight), 1e-12))
-        wear = (scenario.pad_wear.wear_coefficient_m3_per_j * energy_lap / (2 * design.pad.area_m2)
-                * _wear_factor(scenario, pad_k))
-        new_thickness = max(self.thickness - wear, MIN_PAD_THICKNESS_M)
+    def _wear(self, segment, duty, schedule, sol, energy_lap: float) -> None:
+        scenario, design = self.scenario, self.design
+        pads = np.array(self.i_pads)
+        pad_k = heat_weighted_pad_k(sol.temperatures_k, self._output_weights()[self.model.output_nodes.index("pad"), pads],
+                                    pads, np.interp(sol.time_s, schedule.time_s, duty.pad_heat_w))
+        new_thickness = lap_wear(scenario, design, self.thickness, energy_lap, pad_k)
         if new_thickness < self.thickness:
             old_h = self._enthalpy(self.i_pads)
             old_dx = self.layers
@@ -367,6 +415,15 @@ class CornerRun:
             brake_power_w=np.concatenate(self.powers))
 
 
+def lap_energy_j(duty: SegmentDuty) -> float:
+    """The friction energy into the corner over a segment [J]."""
+    return float(np.trapezoid(duty.disc_heat_w + duty.pad_heat_w, duty.time_s))
+
+
+def _phase_name(segment: PlanSegment) -> str:
+    return segment.phase.name + (f" lap {segment.lap_index}" if segment.lap_index else "")
+
+
 def stored_rows(time_s: np.ndarray, outputs: np.ndarray, interval_s: float, continues: bool = False) -> np.ndarray:
     """Indices of the rows of one segment to store: all of them (``interval_s`` 0), else the first
     row at or after each ``interval_s`` step, the segment's ends, and every row where an output
@@ -395,16 +452,6 @@ def _speed_and_power(duty: SegmentDuty, local_s: np.ndarray) -> tuple[np.ndarray
     segment's own time axis [s]."""
     return (np.interp(local_s, duty.time_s, duty.speed_m_s),
             np.interp(local_s, duty.time_s, duty.disc_heat_w + duty.pad_heat_w))
-
-
-def worn_pad_profile(old_dx_m: np.ndarray, old_t_k: np.ndarray, new_dx_m: np.ndarray) -> np.ndarray:
-    """Pad layer temperatures after wear [K]: each new layer centre takes the old profile's
-    temperature at the same depth from the backing plate (linear between old centres), so the
-    material worn off the friction face takes the face's heat with it."""
-    def from_back(dx):
-        return dx.sum() - (np.cumsum(dx) - dx / 2)          # face first, so decreasing
-    old_x, new_x = from_back(np.asarray(old_dx_m)), from_back(np.asarray(new_dx_m))
-    return np.interp(new_x, old_x[::-1], np.asarray(old_t_k)[::-1])
 
 
 def _direct_share(model: CornerModel) -> float:

@@ -17,7 +17,8 @@ import numpy as np
 from thermo.corner.build import (
     SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT, corner_materials, disc_face_resistance, disc_layers,
 )
-from thermo.corner.pad_terms import PadTerms, pad_layer_link, pad_output_weights, pad_terms
+from thermo.corner.layers import face_extrapolation
+from thermo.corner.pad_terms import PadTerms, pad_layer_link, pad_terms
 from thermo.solver.kernel_arrays import kernel_network
 
 EDGE_LINKS = ("pad_edge_convection", "pad_edge_radiation")
@@ -46,26 +47,62 @@ class PadRows:
         self.out_pad = outputs.index("pad")
         self.out_pad_surface = outputs.index("pad_surface") if "pad_surface" in outputs else None
 
+    def index(self) -> tuple:
+        """The rows as ``write_pad_values`` takes them: (pad nodes, between-layer links, pad to backing,
+        edge convection, edge radiation, interface at rest, interface clamped (-1: none), disc face,
+        pad face, disc and pad heat signals, pad output, pad surface output (-1: none))."""
+        return (self.pads, self.between, self.to_backing, self.edges[0], self.edges[1], self.rest,
+                -1 if self.clamped is None else self.clamped, self.face, self.pad_face, self.disc_signal,
+                self.pad_signal, self.out_pad, -1 if self.out_pad_surface is None else self.out_pad_surface)
+
     def write(self, rows: dict, link_a: np.ndarray, weights: np.ndarray, b: int, terms: PadTerms) -> None:
         """Configuration ``b``'s rows, the edges' first end and its output weights for ``terms``."""
-        par = rows["par"]
-        par[b, self.between] = terms.between_layers_w_k
-        par[b, self.to_backing] = terms.to_backing_w_k
-        par[b, self.edges[0]] = terms.edge_convection_scale
-        par[b, self.edges[1]] = terms.edge_radiation_w_k4
-        par[b, self.rest] = terms.rest_w_k
-        if self.clamped is not None:
-            par[b, self.clamped] = terms.clamped_extra_w_k
-        rows["mass"][b, self.pads] = terms.masses_kg
-        if terms.direct_disc_share is not None:
-            src, d = rows["src"], terms.direct_disc_share
-            src[b, self.face, [self.disc_signal, self.pad_signal]] = d
-            src[b, self.pad_face, [self.disc_signal, self.pad_signal]] = 1.0 - d
-        link_a[b, self.edges] = self.pads[terms.mid_layer]
-        mean, face = pad_output_weights(terms)
-        weights[b, self.out_pad, self.pads] = mean
-        if self.out_pad_surface is not None:
-            weights[b, self.out_pad_surface, self.pads[:2]] = face
+        split = terms.direct_disc_share is not None
+        values = (terms.masses_kg, terms.between_layers_w_k, terms.to_backing_w_k, terms.edge_area_m2,
+                  terms.edge_convection_scale, terms.edge_radiation_w_k4, terms.mid_layer, terms.rest_w_k,
+                  terms.clamped_extra_w_k, terms.direct_disc_share if split else 0.0)
+        write_pad_values(rows["par"], rows["mass"], rows["src"], link_a, weights, b, self.index(), terms.layers_m,
+                         values, split)
+
+
+def write_pad_values(par, mass, src, link_a, weights, b, index, layers_m, values, split) -> None:
+    """Write a pad's values (those of ``thermo.corner.pad_terms.pad_values`` for ``layers_m``) into
+    configuration ``b``'s kernel rows (``par``, ``mass``, ``src``), the edges' first end (``link_a``)
+    and the output weights of the pad's mean and face (``pad_output_weights``); ``index``:
+    ``PadRows.index``; ``split``: the friction heat is split at the interface (else the user's fixed
+    partition, whose sources do not change).
+
+    Plain loops over the few pad layers: ``PadRows.write`` calls it, and the stint kernel
+    (``thermo.chain.stint_kernel``) compiles this very function."""
+    (pads, between, to_backing, edge_convection, edge_radiation, rest, clamped, face, pad_face, disc_signal,
+     pad_signal, out_pad, out_pad_surface) = index
+    masses, between_w_k, to_backing_w_k, _, edge_scale, edge_w_k4, mid, rest_w_k, clamped_extra, direct = values
+    for i in range(between.size):
+        par[b, between[i]] = between_w_k[i]
+    par[b, to_backing] = to_backing_w_k
+    par[b, edge_convection] = edge_scale
+    par[b, edge_radiation] = edge_w_k4
+    par[b, rest] = rest_w_k
+    if clamped >= 0:
+        par[b, clamped] = clamped_extra
+    for i in range(pads.size):
+        mass[b, pads[i]] = masses[i]
+    if split:
+        src[b, face, disc_signal] = direct
+        src[b, face, pad_signal] = direct
+        src[b, pad_face, disc_signal] = 1.0 - direct
+        src[b, pad_face, pad_signal] = 1.0 - direct
+    link_a[b, edge_convection] = pads[mid]
+    link_a[b, edge_radiation] = pads[mid]
+    total = 0.0
+    for i in range(pads.size):
+        total += masses[i]
+    for i in range(pads.size):
+        weights[b, out_pad, pads[i]] = masses[i] / total
+    if out_pad_surface >= 0:
+        w_first, w_second = face_extrapolation(layers_m)
+        weights[b, out_pad_surface, pads[0]] = w_first
+        weights[b, out_pad_surface, pads[1]] = w_second
 
 
 class PadKernel:

@@ -13,6 +13,7 @@ from thermo.chain.corner_run import CornerRun, SegmentDuty
 from thermo.chain.guards import WallClock
 from thermo.chain.hydraulics import hydraulics_dict
 from thermo.chain.plan import PlanSegment, expand_plan
+from thermo.chain.stint_call import STINT_CALL_POINTS
 from thermo.chain.setup import corner_setup, corner_setups
 from thermo.corner.build import materials_used
 from thermo.corner.geometry import CornerDesign
@@ -52,11 +53,38 @@ def solve_corner(scenario: Scenario, design: CornerDesign, segments, duties_by_s
     ``output_hz``: rate of the stored series (None: the scenario's output interval; 0: every row)."""
     interval = None if output_hz is None else (1.0 / output_hz if output_hz > 0 else 0.0)
     run = CornerRun(scenario, corner_setup(scenario, design, settings), interval_s=interval, store=store, clock=clock)
-    for segment, duties in zip(segments, duties_by_segment):
-        run.advance(segment, duties[design.name])
+    duties_of = dict(zip(map(id, segments), duties_by_segment))
+    for group in segment_groups(segments):
+        _advance(run, group, [duties_of[id(s)][design.name] for s in group])
         if progress is not None:
-            progress(design.name, segment)
+            for segment in group:
+                progress(design.name, segment)
     return run.result(segments)
+
+
+def segment_groups(segments, max_samples: int = STINT_CALL_POINTS):
+    """The segments in the groups a corner advances through at once: each stop on its own, and
+    consecutive driven segments together (a stint's laps: ``CornerRun.advance_laps``), as many as
+    hold ``max_samples`` trace samples in all (at least one), so that a run on a finely sampled
+    logged lap holds only a few laps' heat inputs at a time."""
+    group, samples = [], 0
+    for segment in segments:
+        n = segment.trace.time_s.size
+        if group and (not segment.moving or not group[-1].moving or samples + n > max_samples):
+            yield group
+            group, samples = [], 0
+        group.append(segment)
+        samples += n
+    if group:
+        yield group
+
+
+def _advance(run: CornerRun, group, duties) -> None:
+    """``run`` through one of ``segment_groups`` with each segment's ``SegmentDuty``."""
+    if group[0].moving:
+        run.advance_laps(group, duties)
+    else:
+        run.advance(group[0], duties[0])
 
 
 def references_for(scenario: Scenario, correlations_used) -> tuple[str, ...]:
@@ -84,12 +112,13 @@ def run_scenario(scenario: Scenario, *, progress=None, segments=None, store: str
     brakes = [setup.brake for setup in setups]
     clock = WallClock(scenario.solver.wall_clock_limit_s)
     runs = [CornerRun(scenario, setup, store=store, clock=clock, sink=sink) for setup in setups]
-    for segment in segments:        # each segment's heat input made once, for every corner, then let go
-        duties = corner_duties(scenario, segment, brakes)
+    for group in segment_groups(segments):     # each segment's heat input made once, for every corner, then let go
+        duties = [corner_duties(scenario, segment, brakes) for segment in group]
         for setup, run in zip(setups, runs):
-            run.advance(segment, duties[setup.name])
+            _advance(run, group, [d[setup.name] for d in duties])
             if progress is not None:
-                progress(setup.name, segment)
+                for segment in group:
+                    progress(setup.name, segment)
     corners = tuple(run.result(segments) for run in runs)
     run_warnings = tuple(w for c in corners for w in c.facts.warnings)
     used = {name for c in corners for name in c.facts.correlations_used}

@@ -88,6 +88,11 @@ def solid_layers(total_m: float, requested: int, material, max_layers: int = lay
     return layers_mod.auto_layers(total_m, _diffusivity(material), max_layers)
 
 
+def pad_first_layer_m(design: CornerDesign) -> float:
+    """The first (face) layer of the pad's friction material, new or worn [m]."""
+    return layers_mod.first_layer_m(_diffusivity(get_material(design.pad.material)))
+
+
 def disc_layers(design: CornerDesign) -> np.ndarray:
     """Layer thicknesses through one cheek (vented) or half the thickness (solid disc) [m]."""
     d = design.disc
@@ -386,7 +391,7 @@ def build_corner(design: CornerDesign, pressure_pa: float = 101325.0,
 
     # --- the pad-disc interface (thermo.corner.interface): the friction heat split by the two
     # bodies' resistances to the interface, plus their exchange while clamped and while resting
-    sources = pad_sources(surface, pad_face, pad, (SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT))
+    sources = pad_sources(surface, pad_face, pad.direct_disc_share, (SIGNAL_DISC_HEAT, SIGNAL_PAD_HEAT))
     links.append(Conduction("pad_disc_interface", pad_face, surface, pad.rest_w_k, "pad_interface"))
     if pad.direct_disc_share is not None:
         # resting contact always, and the rest of the clamped conductance in proportion to the clamp:

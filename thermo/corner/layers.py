@@ -51,22 +51,34 @@ def graded_layers(total_m: float, first_m: float, max_layers: int = MAX_LAYERS, 
 def layers_of_count(total_m: float, first_m: float, count: int) -> np.ndarray:
     """Exactly ``count`` layers from the face inwards, the first ``first_m`` and each the same
     factor thicker than the one before, summing to ``total_m`` [m]. Where even layers are already
-    thinner than ``first_m``, the layers are even."""
+    thinner than ``first_m``, the layers are even.
+
+    Written in scalar steps (``math.pow`` of a float exponent, sums in order) so that the compiled
+    stint kernel (``thermo.chain.stint_kernel``), which compiles this very function to wear a pad
+    between laps, gives the same layers to the bit (numpy's array power and an integer exponent in
+    numba each round differently in the last bit; tested)."""
     if count <= 1:
-        return np.array([total_m])
+        return np.full(1, total_m)
     if first_m * count >= total_m:
         return np.full(count, total_m / count)
     lo, hi = 1.0, 2.0
-    while first_m * (hi ** count - 1) / (hi - 1) < total_m:
+    while first_m * (math.pow(hi, float(count)) - 1) / (hi - 1) < total_m:
         hi *= 2.0
     for _ in range(200):
         g = 0.5 * (lo + hi)
-        bracket = (g, hi) if g == 1.0 or first_m * (g ** count - 1) / (g - 1) < total_m else (lo, g)
-        if bracket == (lo, hi):
+        if g == 1.0 or first_m * (math.pow(g, float(count)) - 1) / (g - 1) < total_m:
+            new_lo, new_hi = g, hi
+        else:
+            new_lo, new_hi = lo, g
+        if new_lo == lo and new_hi == hi:
             break                   # a fixed point in floating point: further halvings change nothing
-        lo, hi = bracket
-    out = first_m * hi ** np.arange(count)
-    return out * (total_m / out.sum())
+        lo, hi = new_lo, new_hi
+    out = np.empty(count)
+    total = 0.0
+    for i in range(count):
+        out[i] = first_m * math.pow(hi, float(i))
+        total += out[i]
+    return out * (total_m / total)
 
 
 def first_layer_m(diffusivity_m2_s: float) -> float:
@@ -85,3 +97,19 @@ def face_extrapolation(thicknesses_m: np.ndarray) -> tuple[float, float]:
         return 1.0, 0.0
     r = thicknesses_m[0] / (thicknesses_m[0] + thicknesses_m[1])
     return 1.0 + r, -r
+
+
+def worn_pad_profile(old_dx_m: np.ndarray, old_t_k: np.ndarray, new_dx_m: np.ndarray) -> np.ndarray:
+    """Pad layer temperatures after wear [K]: each new layer centre takes the old profile's
+    temperature at the same depth from the backing plate (linear between old centres), so the
+    material worn off the friction face takes the face's heat with it. (Compiled as it stands by
+    ``thermo.chain.stint_kernel``.)"""
+    old_x, new_x = depth_from_back(np.asarray(old_dx_m)), depth_from_back(np.asarray(new_dx_m))
+    return np.interp(new_x, old_x[::-1], np.asarray(old_t_k)[::-1])
+
+
+def depth_from_back(dx_m: np.ndarray) -> np.ndarray:
+    """Depth of each layer centre from the solid's back face, the layers given face first [m]
+    (so decreasing). The total is the running sum's last (a sum in order, as compiled too)."""
+    through = np.cumsum(dx_m)
+    return through[-1] - (through - dx_m / 2)

@@ -16,7 +16,7 @@ from dataclasses import dataclass, replace
 
 import numpy as np
 
-from thermo.corner import interface
+from thermo.corner.interface import applied_conductance, half_layer_resistance, interface_disc_share, rest_conductance
 from thermo.corner import layers as layers_mod
 from thermo.correlations.radiation import radiation_coefficient_to_surroundings
 from thermo.network import Convection, HeatSource
@@ -89,26 +89,54 @@ def pad_terms(design, layers_m: np.ndarray, mat: dict, disc_face_resistance_k_w:
     """
     p = design.pad
     thickness = p.thickness_m if thickness_m is None else float(thickness_m)
+    constants = pad_constants(design, mat, disc_face_resistance_k_w)
+    (masses, between, to_backing, edge_area, edge_convection, edge_radiation, mid, rest, clamped_extra,
+     direct) = pad_values(np.asarray(layers_m, dtype=float), thickness, *constants)
+    return PadTerms(
+        layers_m=np.asarray(layers_m, dtype=float), masses_kg=masses, between_layers_w_k=between,
+        to_backing_w_k=to_backing, edge_area_m2=edge_area, edge_convection_scale=edge_convection,
+        edge_radiation_w_k4=edge_radiation, mid_layer=mid, rest_w_k=rest, clamped_extra_w_k=clamped_extra,
+        direct_disc_share=None if p.partition_override is not None else direct)
+
+
+def pad_constants(design, mat: dict, disc_face_resistance_k_w: float) -> tuple:
+    """What ``pad_values`` takes of a corner besides its pad's layers and thickness (nothing of it
+    changes as the pad wears): (area of both pads [m^2], the pad's conductivity at 20 degC [W/(m K)],
+    its density [kg/m^3], half the backing plate's conduction resistance [K/W], half the pads'
+    perimeter [m], the contact conductance at rest [W/(m^2 K)], the disc face's resistance [K/W],
+    the caliper convection multiplier [-], emissivity times the Stefan-Boltzmann constant
+    [W/(m^2 K^4)]), in that order."""
+    p = design.pad
     area2 = 2 * p.area_m2
-    k_pad = mat["pad"].conductivity(ROOM_K)
-    dx = np.asarray(layers_m, dtype=float)
+    length = pad_length_m(p.area_m2)
+    return (area2, mat["pad"].conductivity(ROOM_K), mat["pad"].density_kg_m3,
+            (p.backing_thickness_m / 2) / (mat["backing"].conductivity(ROOM_K) * area2),
+            length + p.area_m2 / length,
+            design.airflow.contact_conductance_multiplier * p.rest_contact_conductance_w_m2k,
+            disc_face_resistance_k_w, design.airflow.caliper_convection_multiplier,
+            radiation_coefficient_to_surroundings(mat["pad"].emissivity, 1.0))
+
+
+def pad_values(dx, thickness, area2, k_pad, density, r_backing_half, half_perimeter, contact, r_disc_face,
+               caliper_multiplier, emissivity_sigma):
+    """The pad-dependent values of a corner from its pad's layers ``dx`` (face first) [m] and
+    thickness [m] and the corner's ``pad_constants``: (layer masses [kg], conduction between layers
+    [W/K], to the backing plate [W/K], edge area [m^2], edge convection scale [m^2], edge radiation
+    coefficient [W/K^4], index of the mid-thickness layer, interface conductance at rest [W/K], the
+    further conductance while clamped [W/K], share of the friction heat the disc's face takes
+    straight away [-]); see ``PadTerms``.
+
+    Plain arithmetic on the scalars and arrays given: ``pad_terms`` calls it, and the compiled stint
+    kernel (``thermo.chain.stint_kernel``) compiles this very function to wear a pad between laps."""
     between = k_pad * area2 / (dx[:-1] / 2 + dx[1:] / 2)
     r_back = (dx[-1] / 2) / (k_pad * area2)
-    r_backing_half = (p.backing_thickness_m / 2) / (mat["backing"].conductivity(ROOM_K) * area2)
-    length = pad_length_m(p.area_m2)
-    edge_area = 2 * 2 * (length + p.area_m2 / length) * thickness      # both pads' perimeter x thickness
-    r_pad_face = interface.half_layer_resistance(dx[0], k_pad, area2)
-    contact = design.airflow.contact_conductance_multiplier * p.rest_contact_conductance_w_m2k
-    rest = interface.rest_conductance(disc_face_resistance_k_w, r_pad_face, contact, area2)
-    applied = interface.applied_conductance(disc_face_resistance_k_w, r_pad_face)
-    direct = None if p.partition_override is not None else interface.interface_disc_share(disc_face_resistance_k_w, r_pad_face)
-    return PadTerms(
-        layers_m=dx, masses_kg=area2 * dx * mat["pad"].density_kg_m3, between_layers_w_k=between,
-        to_backing_w_k=1.0 / (r_back + r_backing_half), edge_area_m2=edge_area,
-        edge_convection_scale=edge_area * design.airflow.caliper_convection_multiplier,
-        edge_radiation_w_k4=radiation_coefficient_to_surroundings(mat["pad"].emissivity, edge_area),
-        mid_layer=int(np.searchsorted(np.cumsum(dx), thickness / 2)), rest_w_k=rest,
-        clamped_extra_w_k=max(applied - rest, 0.0), direct_disc_share=direct)
+    edge_area = 2 * 2 * half_perimeter * thickness          # both pads' perimeter x thickness
+    r_pad_face = half_layer_resistance(dx[0], k_pad, area2)
+    rest = rest_conductance(r_disc_face, r_pad_face, contact, area2)
+    applied = applied_conductance(r_disc_face, r_pad_face)
+    return (area2 * dx * density, between, 1.0 / (r_back + r_backing_half), edge_area, edge_area * caliper_multiplier,
+            emissivity_sigma * edge_area, int(np.searchsorted(np.cumsum(dx), thickness / 2)), rest,
+            max(applied - rest, 0.0), interface_disc_share(r_disc_face, r_pad_face))
 
 
 def pad_length_m(area_m2: float) -> float:
@@ -121,12 +149,12 @@ def pad_layer_link(nodes, i: int) -> str:
     return f"{nodes[i]}_to_{nodes[i + 1]}"
 
 
-def pad_sources(face_node: str, pad_face_node: str, terms: PadTerms, signals: tuple[str, str]) -> list:
-    """The friction heat's sources: the disc's face layer takes ``direct_disc_share`` of both the
-    disc's and the pad's share of it (the interface split, ``thermo.corner.interface``), the pad's
-    face layer the rest; with the user's fixed partition each body takes its own share."""
+def pad_sources(face_node: str, pad_face_node: str, direct: float | None, signals: tuple[str, str]) -> list:
+    """The friction heat's sources: the disc's face layer takes ``direct`` (``PadTerms.direct_disc_share``)
+    of both the disc's and the pad's share of it (the interface split, ``thermo.corner.interface``),
+    the pad's face layer the rest; with the user's fixed partition (``direct`` None) each body takes
+    its own share."""
     disc_signal, pad_signal = signals
-    direct = terms.direct_disc_share
     if direct is None:
         return [HeatSource(face_node, disc_signal, 1.0), HeatSource(pad_face_node, pad_signal, 1.0)]
     return [HeatSource(face_node, disc_signal, direct), HeatSource(face_node, pad_signal, direct),
@@ -171,7 +199,7 @@ def with_pad_thickness(model, design, layers_m: np.ndarray, disc_face_resistance
     nodes = tuple(replace(node, heat_capacity=mat["pad"].heat_capacity(masses[node.name])) if node.name in masses
                   else node for node in network.nodes)
     sources = tuple(s for s in network.sources if s.node not in (model.disc_face_node, pads[0]))
-    sources = tuple(pad_sources(model.disc_face_node, pads[0], terms, signals)) + sources
+    sources = tuple(pad_sources(model.disc_face_node, pads[0], terms.direct_disc_share, signals)) + sources
     weights = model.output_weights.copy()
     columns = [network.node_names.index(n) for n in pads]
     outputs = model.output_nodes
