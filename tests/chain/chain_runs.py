@@ -56,3 +56,32 @@ def solve_one(scenario, corner="front", method=None, segments=None):
                               atol_k=scenario.solver.atol_k)
     design = next(d for d in scenario.corners if d.name == corner)
     return solve_corner(scenario, design, segments, duties, settings)
+
+
+def send_laps_off_the_tables(monkeypatch, laps, sent: list) -> None:
+    """Make the kernel answer, for ``laps`` (lap numbers) of every corner, as it does when a state
+    leaves a conductance table (``run_compiled`` returns None), in ``CornerRun`` and in the fast
+    solver alike; each such answer's phase is appended to ``sent``."""
+    from thermo.chain import corner_run
+    from thermo.solver import fast
+
+    ends = tuple(f" lap {lap}" for lap in laps)
+
+    def off_on_laps(real):
+        def run(knet, inputs, T0, settings, out_t, phase):
+            if phase.endswith(ends):
+                sent.append(phase)
+                return None
+            return real(knet, inputs, T0, settings, out_t, phase)
+        return run
+    monkeypatch.setattr(corner_run, "run_compiled", off_on_laps(corner_run.run_compiled))
+    monkeypatch.setattr(fast, "run_compiled", off_on_laps(fast.run_compiled))
+
+
+def laps_one_at_a_time(monkeypatch) -> None:
+    """``CornerRun.advance_laps`` one lap at a time (``advance``), as the run went before a stint's
+    laps went to the kernel in one call."""
+    from thermo.chain import corner_run
+
+    monkeypatch.setattr(corner_run.CornerRun, "advance_laps",
+                        lambda self, segments, duties: [self.advance(s, d) for s, d in zip(segments, duties)])

@@ -16,7 +16,7 @@ import numpy as np
 import pytest
 from numba import njit
 
-from chain_runs import small_scenario
+from chain_runs import laps_one_at_a_time, send_laps_off_the_tables, small_scenario
 from thermo.chain import corner_run, run_scenario, stint_call
 from thermo.chain.pad_rows import PadKernel
 from thermo.chain.plan import expand_plan
@@ -32,11 +32,6 @@ WEAR_PLAN = [{"type": "laps", "count": 5},
              {"type": "in_lap", "pace": 0.8, "pit_lane_speed_kmh": 60, "pit_lane_length_m": 200},
              {"type": "pit_stop", "duration_s": 30, "pad_change": True, "refuel_kg": 10},
              {"type": "laps", "count": 3}, {"type": "soak", "duration_s": 60}]
-
-
-def _per_lap(self, segments, duties):
-    for segment, duty in zip(segments, duties):
-        self.advance(segment, duty)
 
 
 def _assert_same_run(a, b):
@@ -60,7 +55,7 @@ def test_a_stint_in_one_call_is_the_laps_one_at_a_time_to_the_bit(monkeypatch, w
                                           ("corners.front.pad.thickness_mm", 3.0),
                                           ("corners.front.pad.minimum_thickness_mm", 1.0)])
     stint = run_scenario(scenario)
-    monkeypatch.setattr(corner_run.CornerRun, "advance_laps", _per_lap)
+    laps_one_at_a_time(monkeypatch)
     _assert_same_run(stint, run_scenario(scenario))
     front = stint.corners[0]
     thickness = [row.thickness_m for row in front.facts.pad_thickness_by_lap_m]
@@ -103,8 +98,6 @@ def test_a_lap_off_the_tables_mid_stint_runs_on_the_model_and_the_stint_goes_on(
     """Laps 3 and 6 sent off the conductance tables (the kernel answers as it does there): the call
     stops before each, the lap is solved on the corner's model by the numpy stepper, and the stint
     goes on in a new call; the same run to the bit as the laps one at a time."""
-    from thermo.solver import fast
-
     scenario = small_scenario([{"type": "laps", "count": 7}], [("pad_wear.wear_coefficient_mm3_per_kj", 20.0)])
     segments = expand_plan(scenario)
     off = (3, 6)
@@ -123,20 +116,11 @@ def test_a_lap_off_the_tables_mid_stint_runs_on_the_model_and_the_stint_goes_on(
         return call
 
     sent = []
-
-    def off_on_laps(real):
-        def run(knet, inputs, T0, settings, out_t, phase):
-            if phase.endswith((" lap 3", " lap 6")):
-                sent.append(phase)
-                return None
-            return real(knet, inputs, T0, settings, out_t, phase)
-        return run
     monkeypatch.setattr(corner_run, "solve_stint", solve_stopping_before_laps_off)
-    monkeypatch.setattr(corner_run, "run_compiled", off_on_laps(corner_run.run_compiled))
-    monkeypatch.setattr(fast, "run_compiled", off_on_laps(fast.run_compiled))
+    send_laps_off_the_tables(monkeypatch, off, sent)
     stint = run_scenario(scenario)
     assert len(sent) == 8       # each corner's laps 3 and 6: off the kernel's tables, then on the model
-    monkeypatch.setattr(corner_run.CornerRun, "advance_laps", _per_lap)
+    laps_one_at_a_time(monkeypatch)
     _assert_same_run(stint, run_scenario(scenario))
 
 
@@ -213,6 +197,6 @@ def test_the_demo_car_worn_in_stints_is_the_laps_one_at_a_time(monkeypatch):
     front = stint.corners[0]
     design = scenario.corners[0]
     assert front.facts.pad_thickness_m[0].thickness_m < 0.6 * design.pad.thickness_m     # worn hard in the first stint
-    monkeypatch.setattr(corner_run.CornerRun, "advance_laps", _per_lap)
+    laps_one_at_a_time(monkeypatch)
     _assert_same_run(stint, run_scenario(scenario))
 

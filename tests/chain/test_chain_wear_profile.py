@@ -4,6 +4,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
+from chain_runs import laps_one_at_a_time, send_laps_off_the_tables
 from thermo.chain.corner_run import worn_pad_profile
 
 
@@ -88,7 +89,6 @@ def test_a_segment_off_the_tables_after_wear_by_values_runs_on_the_model_of_the_
 
     from thermo.chain import corner_run, run_scenario
     from thermo.scenario.reader import scenario_from_dict
-    from thermo.solver import fast
 
     demo = Path(__file__).resolve().parents[2] / "scenarios" / "demo.toml"
     text = demo.read_text(encoding="utf-8")
@@ -98,18 +98,8 @@ def test_a_segment_off_the_tables_after_wear_by_values_runs_on_the_model_of_the_
     scenario = scenario_from_dict(raw, path=demo, text=text, overrides=[
         ("pad_wear.wear_coefficient_mm3_per_kj", 6.0), ("solver.method", "fast")])
     sent = []
-
-    def off_on_laps_3_and_6(real):
-        def run(knet, inputs, T0, settings, out_t, phase):
-            if phase.endswith((" lap 3", " lap 6")):
-                sent.append(phase)
-                return None
-            return real(knet, inputs, T0, settings, out_t, phase)
-        return run
-    monkeypatch.setattr(corner_run, "run_compiled", off_on_laps_3_and_6(corner_run.run_compiled))
-    monkeypatch.setattr(fast, "run_compiled", off_on_laps_3_and_6(fast.run_compiled))
-    monkeypatch.setattr(corner_run.CornerRun, "advance_laps",
-                        lambda self, segments, duties: [self.advance(s, d) for s, d in zip(segments, duties)])
+    send_laps_off_the_tables(monkeypatch, (3, 6), sent)
+    laps_one_at_a_time(monkeypatch)
     by_values = run_scenario(scenario)
     assert len(sent) == 8             # each corner's laps 3 and 6, by values and then on the model
     monkeypatch.setattr(corner_run, "_pad_kernel", lambda setup: None)
