@@ -20,8 +20,9 @@ Measured side by side in one run (medians over repeats):
 - the settled lap (``thermo.chain.settle``, model already built; the build is ``model_build_s``)
   against simulating lap by lap until within 1 K;
 - the main command on a 24-hour race (``run24h``): ``brakeheat run scenarios/demo_24h.toml`` with
-  ``--json`` and with ``--out`` in a fresh interpreter each (CPU time, peak resident memory, the
-  size of results.h5), and 2 hours on the demo's logged lap resampled to 1 kHz (--quick: 2 hours
+  ``--json`` and with ``--out`` in a fresh interpreter each (CPU time, wall time, peak resident
+  memory, the size of results.h5), ``--json`` again with ``--threads 1`` (the corners one after
+  another instead of side by side), and 2 hours on the demo's logged lap resampled to 1 kHz (--quick: 2 hours
   of the 24-hour plan and a quarter of an hour of the 1 kHz lap);
 - a study (``sweep``, as the issue that asked for it names it): ``brakeheat uncertainty scenarios/demo.toml --json`` with 1000 samples of
   the first stint (--quick: 48, scaled), the samples side by side (the default, full Newton), wall
@@ -132,23 +133,26 @@ RUN24H_TARGETS = {"json_cpu_s": 3.0, "json_peak_mb": 500.0, "out_cpu_s": 6.0, "r
 # solver row kept, on the same machine), printed beside this run's for comparison
 RUN24H_AT_ISSUE = {"json_cpu_s": 35.0, "json_peak_mb": 2100.0, "out_cpu_s": 64.0, "out_peak_mb": 3500.0,
                    "results_h5_mb": 902.0, "trace_1khz_2h_peak_mb": 8000.0}
-_CHILD = ("import resource, sys\n"
+_CHILD = ("import resource, sys, time\n"
+          "t = time.perf_counter()\n"
           "from thermo.cli.main import main\n"
           "code = main(sys.argv[1:])\n"
+          "wall = time.perf_counter() - t\n"
           "u = resource.getrusage(resource.RUSAGE_SELF)\n"
-          "sys.stderr.write(f'\\nBENCH {u.ru_utime + u.ru_stime} {u.ru_maxrss}\\n')\n"
+          "sys.stderr.write(f'\\nBENCH {u.ru_utime + u.ru_stime} {u.ru_maxrss} {wall}\\n')\n"
           "sys.exit(code)\n")
 
 
-def _brakeheat(argv) -> tuple[float, float]:
-    """(CPU time [s], peak resident memory [MB]) of one `brakeheat ARGV` in a fresh interpreter."""
+def _brakeheat(argv) -> tuple[float, float, float]:
+    """(CPU time [s], peak resident memory [MB], wall time [s], from the interpreter's first import)
+    of one `brakeheat ARGV` in a fresh interpreter."""
     import subprocess
     done = subprocess.run([sys.executable, "-c", _CHILD, *argv], capture_output=True, text=True)
     line = [x for x in done.stderr.splitlines() if x.startswith("BENCH ")]
     if done.returncode not in (0, 3) or not line:
         raise RuntimeError(f"bench: brakeheat {' '.join(argv)} failed: {done.stderr.strip()[-500:]}")
-    cpu, rss_kb = line[-1].split()[1:]
-    return float(cpu), float(rss_kb) / 1024.0
+    cpu, rss_kb, wall = line[-1].split()[1:]
+    return float(cpu), float(rss_kb) / 1024.0, float(wall)
 
 
 def _logged_trace_scenario(folder: Path, hours: float, rate_hz: float) -> Path:
@@ -183,13 +187,17 @@ def run24h(quick: bool = False) -> dict:
     path = _demo_path().parent / "demo_24h.toml"
     hours = ["--set", "plan.stints.1.until_h=2"] if quick else []
     out = {"hours": 2.0 if quick else 24.0, "targets": RUN24H_TARGETS, "at_issue": RUN24H_AT_ISSUE}
-    out["json_cpu_s"], out["json_peak_mb"] = _brakeheat(["run", str(path), "--json", *hours])
+    out["json_cpu_s"], out["json_peak_mb"], out["json_wall_s"] = _brakeheat(["run", str(path), "--json", *hours])
+    # the same with the corners one after another (--threads 1), measured beside it
+    out["json_one_thread_cpu_s"], _, out["json_one_thread_wall_s"] = _brakeheat(
+        ["run", str(path), "--json", "--threads", "1", *hours])
     with tempfile.TemporaryDirectory() as folder:
-        out["out_cpu_s"], out["out_peak_mb"] = _brakeheat(["run", str(path), "--quiet", "--out", folder, *hours])
+        out["out_cpu_s"], out["out_peak_mb"], out["out_wall_s"] = _brakeheat(
+            ["run", str(path), "--quiet", "--out", folder, *hours])
         out["results_h5_mb"] = (Path(folder) / "results.h5").stat().st_size / 1e6
         trace = _logged_trace_scenario(Path(folder), 0.25 if quick else 2.0, 1000.0)
         out["trace_1khz_hours"] = 0.25 if quick else 2.0
-        out["trace_1khz_cpu_s"], out["trace_1khz_2h_peak_mb"] = _brakeheat(["run", str(trace), "--json"])
+        out["trace_1khz_cpu_s"], out["trace_1khz_2h_peak_mb"], _ = _brakeheat(["run", str(trace), "--json"])
     return out
 
 
@@ -387,9 +395,11 @@ def _text(r: dict) -> str:
     t = h["targets"]
     was = h["at_issue"] if h["hours"] == 24.0 else {k: float("nan") for k in h["at_issue"]}   # --quick: 2 h
     lines.append(f"  run24h ({h['hours']:g} h, brakeheat run demo_24h.toml): --json {h['json_cpu_s']:.1f} s CPU "
-                 f"(target < {t['json_cpu_s']:g}, {was['json_cpu_s']:g} at the issue), {h['json_peak_mb']:.0f} MB "
-                 f"(target < {t['json_peak_mb']:g}, {was['json_peak_mb']:g}); "
+                 f"(target < {t['json_cpu_s']:g}, {was['json_cpu_s']:g} at the issue), {h['json_wall_s']:.1f} s wall "
+                 f"(--threads 1: {h['json_one_thread_cpu_s']:.1f} s CPU, {h['json_one_thread_wall_s']:.1f} s wall), "
+                 f"{h['json_peak_mb']:.0f} MB (target < {t['json_peak_mb']:g}, {was['json_peak_mb']:g}); "
                  f"--out {h['out_cpu_s']:.1f} s CPU (target < {t['out_cpu_s']:g}, {was['out_cpu_s']:g}), "
+                 f"{h['out_wall_s']:.1f} s wall, "
                  f"{h['out_peak_mb']:.0f} MB ({was['out_peak_mb']:g}), "
                  f"results.h5 {h['results_h5_mb']:.1f} MB (target < {t['results_h5_mb']:g}, {was['results_h5_mb']:g}); "
                  f"{h['trace_1khz_hours']:g} h on a 1 kHz logged lap {h['trace_1khz_cpu_s']:.1f} s CPU, "

@@ -11,6 +11,8 @@ import copy
 import tomllib
 from pathlib import Path
 
+import numpy as np
+
 from thermo.chain.plan import expand_plan
 from thermo.chain.run import corner_duties, solve_corner
 from thermo.chain.setup import corner_brakes
@@ -85,3 +87,20 @@ def laps_one_at_a_time(monkeypatch) -> None:
 
     monkeypatch.setattr(corner_run.CornerRun, "advance_laps",
                         lambda self, segments, duties: [self.advance(s, d) for s, d in zip(segments, duties)])
+
+
+def assert_same_run(a, b) -> None:
+    """Two ``Results`` the same to the bit, corner by corner: series, link energies, laps, phases,
+    checks, energy balance and facts (pad thickness by lap and stint, removed heat, partition,
+    warnings)."""
+    assert [x.name for x in a.corners] == [y.name for y in b.corners]
+    for x, y in zip(a.corners, b.corners):
+        np.testing.assert_array_equal(x.time_s, y.time_s)
+        np.testing.assert_array_equal(x.temperatures_k, y.temperatures_k)
+        np.testing.assert_array_equal(x.link_energy_j, y.link_energy_j)
+        assert x.laps == y.laps
+        assert x.phases == y.phases
+        assert x.checks == y.checks
+        assert x.energy == y.energy
+        assert x.facts == y.facts
+    assert a.warnings == b.warnings

@@ -16,7 +16,7 @@ import numpy as np
 import pytest
 from numba import njit
 
-from chain_runs import laps_one_at_a_time, send_laps_off_the_tables, small_scenario
+from chain_runs import assert_same_run, laps_one_at_a_time, send_laps_off_the_tables, small_scenario
 from thermo.chain import corner_run, run_scenario, stint_call
 from thermo.chain.pad_rows import PadKernel
 from thermo.chain.plan import expand_plan
@@ -34,18 +34,6 @@ WEAR_PLAN = [{"type": "laps", "count": 5},
              {"type": "laps", "count": 3}, {"type": "soak", "duration_s": 60}]
 
 
-def _assert_same_run(a, b):
-    for x, y in zip(a.corners, b.corners):
-        np.testing.assert_array_equal(x.time_s, y.time_s)
-        np.testing.assert_array_equal(x.temperatures_k, y.temperatures_k)
-        np.testing.assert_array_equal(x.link_energy_j, y.link_energy_j)
-        assert x.laps == y.laps
-        assert x.phases == y.phases
-        assert x.checks == y.checks
-        assert x.energy == y.energy
-        assert x.facts == y.facts        # pad thickness by lap and stint, removed heat, partition, warnings
-
-
 @pytest.mark.parametrize("wear_mm3_per_kj", [1.0, 10.0])
 def test_a_stint_in_one_call_is_the_laps_one_at_a_time_to_the_bit(monkeypatch, wear_mm3_per_kj):
     """Small scenario, both corners, a 3 mm front pad worn on every lap (to within its warning margin),
@@ -56,7 +44,7 @@ def test_a_stint_in_one_call_is_the_laps_one_at_a_time_to_the_bit(monkeypatch, w
                                           ("corners.front.pad.minimum_thickness_mm", 1.0)])
     stint = run_scenario(scenario)
     laps_one_at_a_time(monkeypatch)
-    _assert_same_run(stint, run_scenario(scenario))
+    assert_same_run(stint, run_scenario(scenario))
     front = stint.corners[0]
     thickness = [row.thickness_m for row in front.facts.pad_thickness_by_lap_m]
     if wear_mm3_per_kj < 5:
@@ -76,7 +64,7 @@ def test_a_call_that_takes_a_few_laps_at_a_time_is_the_same_run(monkeypatch):
     real = stint_call.advance_stint
     monkeypatch.setattr(stint_call, "advance_stint", lambda *a: calls.append(a[2].size - 1) or real(*a))
     monkeypatch.setattr(stint_call, "STINT_CALL_POINTS", 10)
-    _assert_same_run(whole, run_scenario(scenario))
+    assert_same_run(whole, run_scenario(scenario))
     assert calls == [1] * (2 * 9)       # 8 laps and the in-lap, each corner
 
 
@@ -121,7 +109,7 @@ def test_a_lap_off_the_tables_mid_stint_runs_on_the_model_and_the_stint_goes_on(
     stint = run_scenario(scenario)
     assert len(sent) == 8       # each corner's laps 3 and 6: off the kernel's tables, then on the model
     laps_one_at_a_time(monkeypatch)
-    _assert_same_run(stint, run_scenario(scenario))
+    assert_same_run(stint, run_scenario(scenario))
 
 
 def test_after_a_stint_the_kernel_arrays_hold_the_worn_pad_as_written_anew():
@@ -198,5 +186,5 @@ def test_the_demo_car_worn_in_stints_is_the_laps_one_at_a_time(monkeypatch):
     design = scenario.corners[0]
     assert front.facts.pad_thickness_m[0].thickness_m < 0.6 * design.pad.thickness_m     # worn hard in the first stint
     laps_one_at_a_time(monkeypatch)
-    _assert_same_run(stint, run_scenario(scenario))
+    assert_same_run(stint, run_scenario(scenario))
 

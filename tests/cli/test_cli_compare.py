@@ -135,3 +135,13 @@ def test_demo_compare_runs_the_demos_variants(tmp_path):
     assert code == 0, err
     declared = tomllib.loads(demo_scenario_path().read_text(encoding="utf-8"))["variants"]
     assert [v["name"] for v in json.loads(out)["variants"]] == ["baseline", *declared]
+
+
+def test_compare_threads_one_gives_the_same_comparison(comparison):
+    # the session's comparison solved each run's corners side by side (the default); one after
+    # another must give the same numbers
+    code, out, err = cli(["compare", SMALL, "--json", "--quiet", *SHRINK, "--threads", "1",
+                          "--variant", "same", "corners.front.pad_mu=0.5",
+                          "--variant", "bigger_duct", "corners.front.ducts.main.inlet_area_mm2=18000"])
+    assert code == 0, err
+    assert json.loads(out) == comparison

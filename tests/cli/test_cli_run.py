@@ -15,7 +15,7 @@ from thermo.limits import boiling_drop_share
 import thermo
 from thermo.output.hdf5 import read_results_hdf5
 from thermo.output.summary import summary_dict
-from conftest import SHRINK, SMALL, cli
+from conftest import EXCEED, SHRINK, SMALL, cli
 
 NODES = ("disc", "pad", "piston", "fluid", "caliper", "upright", "bearing", "hub")
 CHECKS = ("fluid_boiling_dry", "fluid_boiling_wet", "fluid_boiling_at_water_content", "bearing_grease",
@@ -236,3 +236,17 @@ def test_laps_and_checks_csv_hold_the_summary_numbers(small_runs, tmp_path):
     code, _, err = cli(["run", str(SMALL), *SHRINK, "--quiet", "--csv", str(tmp_path / "laps_only.csv")])
     assert code == 0, err
     assert (tmp_path / "laps_only.csv").read_text(encoding="utf-8") == (folder / "laps.csv").read_text(encoding="utf-8")
+
+
+def test_threads_one_gives_the_same_json_as_the_corners_side_by_side(small_runs):
+    # the session's run solved its two corners side by side (the default, on a machine of more
+    # than one core); one after another must give the same summary to the digit
+    code, out, err = cli(["run", SMALL, "--json", "--quiet", "--threads", "1", *SHRINK, *EXCEED])
+    assert code == 0, err
+    assert json.loads(out) == small_runs["json"]
+
+
+@pytest.mark.parametrize("value", ["0", "-1", "two"])
+def test_threads_must_be_a_whole_number_of_at_least_one(value):
+    code, out, err = cli(["run", SMALL, "--json", "--threads", value])
+    assert code == 2 and out == "" and "argument --threads: expected a whole number of at least 1" in err

@@ -9,6 +9,7 @@ with the output interval, not with the solver's steps.
 """
 from __future__ import annotations
 
+import contextlib
 import warnings
 from dataclasses import dataclass, replace
 
@@ -28,6 +29,7 @@ from thermo.corner.geometry import CornerDesign
 from thermo.corner.layers import worn_pad_profile
 from thermo.corner.pad_terms import pad_sources
 from thermo.corner.pad_wear import worn_thickness_m
+from thermo.correlations.validity import unchecked
 from thermo.errors import SolveError
 from thermo.limits import check_specs, evaluate_check, property_range_warnings
 from thermo.materials import get_material
@@ -243,8 +245,7 @@ class CornerRun:
                 return Solved(out_t, res.temps[0], res.flows[0], energy, float(res.heat_in[0]),
                                float(np.sum(energy[self.compiled.link_to_boundary], axis=-1)), res.final[0])
             self._current_model()       # off the tables: the model's own functions, in the numpy stepper
-        with warnings.catch_warnings():
-            warnings.simplefilter("ignore")
+        with _quietly(settings.method):
             sol = solve_network(self.compiled, schedule, self.T, settings, phase=phase)
         if sol.status != "success":
             raise SolveError(f"{phase}: {sol.status}")
@@ -422,6 +423,21 @@ def lap_energy_j(duty: SegmentDuty) -> float:
 
 def _phase_name(segment: PlanSegment) -> str:
     return segment.phase.name + (f" lap {segment.lap_index}" if segment.lap_index else "")
+
+
+@contextlib.contextmanager
+def _quietly(method: str):
+    """A segment solved on the model's own functions, its correlations unchecked (validity is
+    checked afterwards on the run's states, ``check_validity``): ``unchecked``, this thread only, as
+    corners on method 'fast' may be solved side by side; a scipy method (never beside another
+    corner, ``run.corner_threads``) with every warning of its integrators silenced as well."""
+    with unchecked():
+        if method == "fast":
+            yield
+            return
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")
+            yield
 
 
 def stored_rows(time_s: np.ndarray, outputs: np.ndarray, interval_s: float, continues: bool = False) -> np.ndarray:

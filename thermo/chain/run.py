@@ -6,6 +6,10 @@ the pad-wear policy (wear, pad changes) and assembles the ``CornerResult``.
 """
 from __future__ import annotations
 
+import contextvars
+import os
+from concurrent.futures import ThreadPoolExecutor, wait
+
 import numpy as np
 
 import thermo
@@ -101,24 +105,27 @@ def references_for(scenario: Scenario, correlations_used) -> tuple[str, ...]:
 
 
 def run_scenario(scenario: Scenario, *, progress=None, segments=None, store: str = "standard",
-                 sink=None) -> Results:
+                 sink=None, threads: int | None = None) -> Results:
     """The whole chain for every corner of a scenario. ``store``: "standard" (series at the
     output interval, link energies per lap and phase) or "full" (every solver row, and the link
     flows at each). ``sink`` (store "full" only): takes every solver row as each segment is solved
     (``CornerRun``; ``thermo.output.hdf5_stream``), and the results then hold the series at the
-    output interval, as with "standard"."""
+    output interval, as with "standard". ``threads``: how many corners are solved side by side
+    (``corner_threads``; None: one per corner, up to the CPU count); the results are the same to
+    the bit whatever the count."""
     segments = expand_plan(scenario) if segments is None else segments
     setups = corner_setups(scenario)
     brakes = [setup.brake for setup in setups]
     clock = WallClock(scenario.solver.wall_clock_limit_s)
     runs = [CornerRun(scenario, setup, store=store, clock=clock, sink=sink) for setup in setups]
-    for group in segment_groups(segments):     # each segment's heat input made once, for every corner, then let go
-        duties = [corner_duties(scenario, segment, brakes) for segment in group]
-        for setup, run in zip(setups, runs):
-            _advance(run, group, [d[setup.name] for d in duties])
+    with CornerThreads(corner_threads(scenario, len(runs), threads, sink)) as pool:
+        for group in segment_groups(segments):     # each segment's heat input made once, for every corner, then let go
+            duties = [corner_duties(scenario, segment, brakes) for segment in group]
+            pool.each([(run, group, [d[setup.name] for d in duties]) for setup, run in zip(setups, runs)])
             if progress is not None:
-                for segment in group:
-                    progress(setup.name, segment)
+                for setup in setups:
+                    for segment in group:
+                        progress(setup.name, segment)
     corners = tuple(run.result(segments) for run in runs)
     run_warnings = tuple(w for c in corners for w in c.facts.warnings)
     used = {name for c in corners for name in c.facts.correlations_used}
@@ -127,6 +134,48 @@ def run_scenario(scenario: Scenario, *, progress=None, segments=None, store: str
         solver=scenario.solver.method, solver_status="success", references=references_for(scenario, used),
         corners=corners, caution=thermo.CAUTION, warnings=run_warnings, overrides=applied_overrides(scenario),
         hydraulics=hydraulics_dict(scenario, corners))
+
+
+def corner_threads(scenario: Scenario, corners: int, threads: int | None = None, sink=None) -> int:
+    """How many corners a run solves side by side: ``threads`` (None: one per CPU core), at most one
+    per corner. One when a ``sink`` takes the rows as they are solved (they go to it in corner
+    order) and for the scipy methods (their integrators keep state of their own); the compiled
+    kernel releases the GIL, so on the 'fast' method the corners' kernels run at once."""
+    if sink is not None or scenario.solver.method != "fast":
+        return 1
+    wanted = (os.cpu_count() or 1) if threads is None else int(threads)
+    if wanted < 1:
+        raise ValueError(f"run: threads must be a whole number of at least 1, got {threads}")
+    return max(1, min(corners, wanted))
+
+
+class CornerThreads:
+    """The corners of a run advanced through one group of segments (``each``), side by side in
+    ``workers`` threads, or one after another when ``workers`` is 1. Each task runs in a copy of
+    the caller's context (the correlations' validity policy, numpy's error state). When tasks
+    fail, the first corner's error is raised, after every task of the group has ended."""
+
+    def __init__(self, workers: int):
+        self.pool = ThreadPoolExecutor(max_workers=workers) if workers > 1 else None
+
+    def __enter__(self):
+        return self
+
+    def __exit__(self, *exc):
+        if self.pool is not None:
+            self.pool.shutdown(wait=True, cancel_futures=True)
+        return False
+
+    def each(self, tasks) -> None:
+        """``_advance(run, group, duties)`` for each (run, group, duties) of ``tasks``."""
+        if self.pool is None:
+            for task in tasks:
+                _advance(*task)
+            return
+        futures = [self.pool.submit(contextvars.copy_context().run, _advance, *task) for task in tasks]
+        wait(futures)
+        for future in futures:
+            future.result()
 
 
 def applied_overrides(scenario: Scenario) -> tuple[tuple[str, str], ...]:

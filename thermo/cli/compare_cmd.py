@@ -5,7 +5,7 @@ import json
 import sys
 from pathlib import Path
 
-from thermo.cli.options import add_common_options
+from thermo.cli.options import add_common_options, add_threads_option
 from thermo.studies.compare import (
     BIAS_WARNING_POINTS, KEEP_BIAS_CHOICES, bias_warnings, keep_bias_plans, plan_comparison, run_comparison,
 )
@@ -26,6 +26,7 @@ def add_parser(sub) -> None:
     p.add_argument("--bias-warning-points", type=float, default=BIAS_WARNING_POINTS, metavar="POINTS",
                    help=f"name a variant that moves the front share by more than this many points "
                         f"(default {BIAS_WARNING_POINTS:g}) when --keep-bias is not given")
+    add_threads_option(p)
     p.set_defaults(handler=compare_command)
 
 
@@ -97,7 +98,7 @@ def compare_command(args) -> int:
     total = sum(len(expand_plan(sc)) * len(sc.corners) for _, sc in plans)
     progress = Progress(total, enabled=not (args.json or args.quiet))
     try:
-        comparison = run_comparison(plans, progress=progress, rebalanced=rebalanced)
+        comparison = run_comparison(plans, progress=progress, rebalanced=rebalanced, threads=args.threads)
     finally:
         progress.close()
     runs = list(comparison.runs)

@@ -50,3 +50,18 @@ def add_common_options(p, *, solver: bool = True, json_what: str = "the report",
         p.add_argument("--out", metavar="DIR", help=out_help)
     if quiet:
         p.add_argument("--quiet", action="store_true", help="no progress indication (never shown with --json or off a terminal)")
+
+
+def threads_count(text: str) -> int:
+    """--threads: a whole number of at least 1."""
+    import argparse
+    if not text.isdigit() or int(text) < 1:
+        raise argparse.ArgumentTypeError(f"expected a whole number of at least 1, got {text!r}")
+    return int(text)
+
+
+def add_threads_option(p) -> None:
+    """``--threads N``: how many corners a run solves side by side (``thermo.chain.run.corner_threads``)."""
+    p.add_argument("--threads", type=threads_count, default=None, metavar="N",
+                   help="corners solved side by side (default: one per corner, up to the CPU cores; 1: one after "
+                        "another); the results are the same to the bit whatever N")

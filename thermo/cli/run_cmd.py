@@ -7,7 +7,7 @@ import sys
 from pathlib import Path
 
 from thermo.cli.exit_codes import EXIT_EXCEEDED, EXIT_OK
-from thermo.cli.options import add_common_options, demo_scenario_path, overrides_with_solver
+from thermo.cli.options import add_common_options, add_threads_option, demo_scenario_path, overrides_with_solver
 from thermo.studies.compare import BIAS_WARNING_POINTS
 
 
@@ -33,6 +33,7 @@ def add_run_options(p) -> None:
                         "else about 20 with the last and the worst)")
     p.add_argument("--csv", metavar="FILE", help="also write the per-lap table (as laps.csv under --out) to FILE")
     p.add_argument("--fail-on-exceeded", action="store_true", help="exit 3 when any check is exceeded")
+    add_threads_option(p)
 
 
 def add_run_parsers(sub) -> None:
@@ -61,7 +62,8 @@ def run_and_report(path: Path, args) -> int:
         if args.out and args.store == "full":
             results = _run_streamed(scenario, segments, progress, Path(args.out))
         else:
-            results = run_scenario(scenario, progress=progress, segments=segments, store=args.store)
+            results = run_scenario(scenario, progress=progress, segments=segments, store=args.store,
+                                   threads=args.threads)
     finally:
         progress.close()
     # what the solve leaves alive (the results, the models) stays alive while the results are

@@ -18,7 +18,6 @@ from __future__ import annotations
 import functools
 import math
 import threading
-import warnings
 import weakref
 from dataclasses import dataclass, replace
 
@@ -32,6 +31,7 @@ from thermo.correlations.partition import effusivity, heat_partition_area_weight
 from thermo.correlations.radiation import (
     radiation_coefficient_grey_two_surface, radiation_coefficient_to_surroundings,
 )
+from thermo.correlations.validity import unchecked
 from thermo.materials import get_material
 from thermo.network import Boundary, Conduction, Convection, Network, Node, Radiation
 from thermo.network.tabulate import ConductanceGrid, TabulatedConductance
@@ -208,10 +208,10 @@ def _tabulated(path, grid: ConductanceGrid) -> TabulatedConductance:
 
     ``forget_tables`` empties both.
     """
-    with warnings.catch_warnings():
+    with unchecked():
         # the grid spans corners of (speed, temperature) that a run may never reach; validity is
-        # checked on the run's own states afterwards (thermo.chain.validity)
-        warnings.simplefilter("ignore")
+        # checked on the run's own states afterwards (thermo.chain.validity); unchecked in this
+        # thread only, as corners may be solved side by side
         key = (path.table_key(grid) if hasattr(path, "table_key") else (path,), grid)
         with _tables_lock:
             table = _tables_by_value.get(key)

@@ -20,6 +20,7 @@ where ``fn`` receives the call's arguments as a dict.
 """
 from __future__ import annotations
 
+import contextlib
 import contextvars
 import functools
 import inspect
@@ -85,6 +86,17 @@ def set_validity_policy(policy: str) -> _PolicyToken:
     previous = _policy.get()
     _policy.set(policy)
     return _PolicyToken(previous)
+
+
+@contextlib.contextmanager
+def unchecked():
+    """Correlations evaluated with no validity check, and numpy's floating-point warnings off, in
+    this thread only (both are context variables; ``warnings.catch_warnings`` changes the whole
+    process, so another thread's warnings would be lost or its filters left behind). For tables that
+    span states a run may never reach, and solves whose states are checked afterwards
+    (``thermo.chain.validity``)."""
+    with set_validity_policy("ignore"), np.errstate(all="ignore"):
+        yield
 
 
 def get_validity_policy() -> str:

@@ -33,13 +33,17 @@ def graded_grid(schedule: Schedule, net: CompiledNetwork, t_start: float, t_end:
         return np.unique(np.array([t_start, t_end], dtype=float))
     end = min(int(idx[-1]) + 2, t.size)
     key = (on[idx[0]:end].tobytes(), end == t.size, idx.size, heated_stride, max_stride)
-    if key not in _GRADED:
+    positions = _GRADED.get(key)
+    if positions is None:
+        positions = _graded_positions(on[idx[0]:end], idx.size, end == t.size, heated_stride, max_stride)
         if len(_GRADED) >= 64:
             _GRADED.clear()
-        _GRADED[key] = _graded_positions(on[idx[0]:end], idx.size, end == t.size, heated_stride, max_stride)
-    return np.unique(np.concatenate([[t_start], t[idx[_GRADED[key]]], [t_end]]))
+        _GRADED[key] = positions
+    return np.unique(np.concatenate([[t_start], t[idx[positions]], [t_end]]))
 
 
+# the positions by pattern; read and written one operation at a time, so corners solved in threads
+# side by side may share it (one may clear it between another's write and read: that one keeps its own)
 _GRADED: dict = {}
 
 

@@ -22,6 +22,7 @@ from __future__ import annotations
 
 import functools
 import os
+import threading
 from dataclasses import dataclass, replace
 
 import numba
@@ -230,13 +231,15 @@ class KernelNetwork:
             hi = max(inputs.bk_grid[:, q].max(), inputs.bk_mid[:, q].max())
             constant.append(float(lo) if lo == hi else None)
         key = (id(self.tables), self.tix.tobytes(), self.tix.shape, tuple(boundary_q), tuple(constant))
-        kept = _SLICES.get(key)
+        with _SLICES_LOCK:
+            kept = _SLICES.get(key)
         if kept is not None and kept[0] is self.tables:
             return kept[1]
         found = self._slices(inputs)
-        if len(_SLICES) >= _SLICES_KEPT:
-            _SLICES.pop(next(iter(_SLICES)))
-        _SLICES[key] = (self.tables, found)
+        with _SLICES_LOCK:          # the corners of a run may be solved in threads side by side
+            while len(_SLICES) >= _SLICES_KEPT:
+                _SLICES.pop(next(iter(_SLICES)))
+            _SLICES[key] = (self.tables, found)
         return found
 
     def _slices(self, inputs: KernelInputs) -> tuple:
@@ -313,6 +316,7 @@ def node_link_tables(kn: KernelNetwork, tix: np.ndarray) -> np.ndarray:
 
 _SLICES: dict = {}      # boundary_slices' results, by tables, table choice and boundary temperatures
 _SLICES_KEPT = 8        # a run's corners each reuse theirs lap after lap
+_SLICES_LOCK = threading.Lock()
 
 
 def forget_slices() -> None:

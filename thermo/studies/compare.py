@@ -161,15 +161,17 @@ def bias_warnings(plans, threshold_points: float = BIAS_WARNING_POINTS) -> list[
     return lines
 
 
-def run_comparison(plans, *, progress=None, rebalanced=None) -> Comparison:
+def run_comparison(plans, *, progress=None, rebalanced=None, threads: int | None = None) -> Comparison:
     """Run each planned scenario in full (``progress(corner, segment)`` is called as segments finish);
-    ``rebalanced``: what ``keep_bias_plans`` changed, carried into the comparison."""
+    ``rebalanced``: what ``keep_bias_plans`` changed, carried into the comparison; ``threads``: corners
+    solved side by side in each run (``thermo.chain.run.corner_threads``)."""
     from thermo.chain import run_scenario
-    return Comparison(tuple((name, run_scenario(sc, progress=progress)) for name, sc in plans),
+    return Comparison(tuple((name, run_scenario(sc, progress=progress, threads=threads)) for name, sc in plans),
                       tuple((rebalanced or {}).items()))
 
 
-def compare(path, *, variants=(), overrides=(), only=None, keep_bias=None) -> Comparison:
+def compare(path, *, variants=(), overrides=(), only=None, keep_bias=None,
+            threads: int | None = None) -> Comparison:
     """The baseline and each variant of a scenario file, run in full.
 
     Parameters
@@ -185,6 +187,8 @@ def compare(path, *, variants=(), overrides=(), only=None, keep_bias=None) -> Co
     keep_bias : str or None
         "balance_bar" or "rear_master_cylinder": re-balance variants that move
         the front share back to the baseline's (``keep_bias_plans``); None: leave them [-]
+    threads : int or None
+        Corners solved side by side in each run (None: one per corner, up to the CPU cores) [-]
 
     Returns
     -------
@@ -195,7 +199,7 @@ def compare(path, *, variants=(), overrides=(), only=None, keep_bias=None) -> Co
     rebalanced = {}
     if keep_bias is not None:
         plans, rebalanced = keep_bias_plans(plans, keep_bias, Path(path))
-    return run_comparison(plans, rebalanced=rebalanced)
+    return run_comparison(plans, rebalanced=rebalanced, threads=threads)
 
 
 def _hydraulics_change(base: dict | None, variant: dict | None) -> dict | None:
