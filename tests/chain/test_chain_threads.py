@@ -16,7 +16,7 @@ from chain_runs import STINT_PLAN, assert_same_run, laps_one_at_a_time, send_lap
 from thermo.chain import corner_run, run, run_scenario
 from thermo.chain.run import corner_threads
 from thermo.correlations.validity import CorrelationWarning, check_range, get_validity_policy, set_validity_policy, unchecked
-from thermo.errors import SolveError
+from thermo.errors import ModelError, SolveError
 
 WORN = [("pad_wear.wear_coefficient_mm3_per_kj", 10.0), ("corners.front.pad.thickness_mm", 3.0),
         ("corners.front.pad.minimum_thickness_mm", 1.0)]
@@ -64,7 +64,7 @@ def test_how_many_corners_go_side_by_side():
     assert corner_threads(scenario, 2, 2, sink=object()) == 1       # rows go to a sink in corner order
     lsoda = small_scenario(STINT_PLAN, [("solver.method", "LSODA")])
     assert corner_threads(lsoda, 2, 2) == 1                         # scipy's integrators keep state of their own
-    with pytest.raises(ValueError, match="at least 1"):
+    with pytest.raises(ModelError, match="at least 1"):
         corner_threads(scenario, 2, 0)
 
 

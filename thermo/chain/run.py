@@ -23,6 +23,7 @@ from thermo.corner.build import materials_used
 from thermo.corner.geometry import CornerDesign
 from thermo.correlations import correlation_reference
 from thermo.duty.corner_duty import CornerBrake, corner_heat_inputs
+from thermo.errors import ModelError
 from thermo.materials import get_material
 from thermo.results import CornerResult, Results
 from thermo.scenario.model import Scenario
@@ -145,7 +146,7 @@ def corner_threads(scenario: Scenario, corners: int, threads: int | None = None,
         return 1
     wanted = (os.cpu_count() or 1) if threads is None else int(threads)
     if wanted < 1:
-        raise ValueError(f"run: threads must be a whole number of at least 1, got {threads}")
+        raise ModelError(f"run: threads must be a whole number of at least 1, got {threads}")
     return max(1, min(corners, wanted))
 
 
