@@ -168,8 +168,15 @@ def test_the_compiled_pad_functions_are_their_python_source_to_the_bit():
         np.testing.assert_array_equal(layers.worn_pad_profile(dx, temps, worn), compiled.worn_pad_profile(dx, temps, worn))
         for a, b in zip(pad_terms.pad_values(dx, total, *constants), compiled.pad_values(dx, total, *constants)):
             np.testing.assert_array_equal(a, b)
-        wear = (total, 2.5e-13, rng.uniform(1e4, 1e6), 0.012, rng.uniform(300.0, 1000.0), 723.15, 150.0, 0.5e-3)
-        assert pad_wear.worn_thickness_m(*wear) == compiled.worn_thickness_m(*wear)
+    # the wear law over pads hot and cold against references and scales from soft to steep; numpy's
+    # own exp (vectorised on AVX-512 CPUs) differed from the C library's in the last bit for about 3 %
+    # of these arguments, so the law in Python wore a lap otherwise than the kernel (a fuzz campaign
+    # found it; the last case is one of its laps)
+    laws = [(rng.uniform(0.5e-3, 0.02), 2.5e-13, rng.uniform(1e4, 1e6), 0.012, rng.uniform(300.0, 1400.0),
+             rng.uniform(400.0, 800.0), rng.uniform(50.0, 300.0), 0.5e-3) for _ in range(2000)]
+    laws.append((0.0009048856418947911, 9.186e-14, 1064482.5840042671, 0.019, 814.0223156673925, 543.75, 100.0, 0.0005))
+    for wear in laws:
+        assert pad_wear.worn_thickness_m(*wear) == compiled.worn_thickness_m(*wear), wear
 
 
 def test_the_demo_car_worn_in_stints_is_the_laps_one_at_a_time(monkeypatch):

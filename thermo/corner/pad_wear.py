@@ -1,7 +1,7 @@
 """The pad wear law: how much friction material a lap takes off (``[pad_wear]`` of a scenario)."""
 from __future__ import annotations
 
-import numpy as np
+import math
 
 
 def worn_thickness_m(thickness_m, wear_coefficient_m3_per_j, energy_j, pads_area_m2, pad_k, reference_k, scale_k,
@@ -13,9 +13,11 @@ def worn_thickness_m(thickness_m, wear_coefficient_m3_per_j, energy_j, pads_area
     [J]; ``pads_area_m2`` A_pads, both pads' faces [m^2]; ``pad_k`` T the pad's temperature weighted by
     its heat over the lap [K]; ``reference_k``, ``scale_k`` [K]. Wear in proportion to friction work,
     rising with temperature: an illustrative law whose coefficients must be calibrated against
-    measured wear (``thermo.scenario.model.PadWear``). Plain arithmetic: the stint kernel compiles it
-    (``thermo.chain.stint_kernel``)."""
-    wear = wear_coefficient_m3_per_j * energy_j / pads_area_m2 * np.exp(max(pad_k - reference_k, 0.0) / scale_k)
+    measured wear (``thermo.scenario.model.PadWear``). Plain arithmetic on scalars: the stint kernel
+    compiles it (``thermo.chain.stint_kernel``). ``math.exp``, the C library's, as the compiled code
+    calls it: numpy's own exp (vectorised on CPUs that have AVX-512) differs from it in the last bit
+    for about one argument in twenty, and a lap worn in Python would not be the lap worn in the kernel."""
+    wear = wear_coefficient_m3_per_j * energy_j / pads_area_m2 * math.exp(max(pad_k - reference_k, 0.0) / scale_k)
     return max(thickness_m - wear, min_thickness_m)
 
 
