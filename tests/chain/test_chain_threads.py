@@ -59,13 +59,15 @@ def test_laps_off_the_tables_in_threads_leave_the_warning_filters_alone(monkeypa
 
 def test_how_many_corners_go_side_by_side():
     scenario = small_scenario(STINT_PLAN)
+    assert corner_threads(scenario, 2) == 1                         # the default: one after another
     assert corner_threads(scenario, 2, 8) == 2                      # at most one per corner
     assert corner_threads(scenario, 4, 1) == 1
     assert corner_threads(scenario, 2, 2, sink=object()) == 1       # rows go to a sink in corner order
     lsoda = small_scenario(STINT_PLAN, [("solver.method", "LSODA")])
     assert corner_threads(lsoda, 2, 2) == 1                         # scipy's integrators keep state of their own
-    with pytest.raises(ModelError, match="at least 1"):
-        corner_threads(scenario, 2, 0)
+    for bad in (0, -1, 1.5):
+        with pytest.raises(ModelError, match="at least 1"):
+            corner_threads(scenario, 2, bad)
 
 
 def test_the_first_corners_error_is_raised_after_both_have_ended(monkeypatch):

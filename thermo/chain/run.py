@@ -7,7 +7,6 @@ the pad-wear policy (wear, pad changes) and assembles the ``CornerResult``.
 from __future__ import annotations
 
 import contextvars
-import os
 from concurrent.futures import ThreadPoolExecutor, wait
 
 import numpy as np
@@ -106,14 +105,14 @@ def references_for(scenario: Scenario, correlations_used) -> tuple[str, ...]:
 
 
 def run_scenario(scenario: Scenario, *, progress=None, segments=None, store: str = "standard",
-                 sink=None, threads: int | None = None) -> Results:
+                 sink=None, threads: int = 1) -> Results:
     """The whole chain for every corner of a scenario. ``store``: "standard" (series at the
     output interval, link energies per lap and phase) or "full" (every solver row, and the link
     flows at each). ``sink`` (store "full" only): takes every solver row as each segment is solved
     (``CornerRun``; ``thermo.output.hdf5_stream``), and the results then hold the series at the
     output interval, as with "standard". ``threads``: how many corners are solved side by side
-    (``corner_threads``; None: one per corner, up to the CPU count); the results are the same to
-    the bit whatever the count."""
+    (``corner_threads``; 1, the default: one after another); the results are the same to the bit
+    whatever the count."""
     segments = expand_plan(scenario) if segments is None else segments
     setups = corner_setups(scenario)
     brakes = [setup.brake for setup in setups]
@@ -137,17 +136,18 @@ def run_scenario(scenario: Scenario, *, progress=None, segments=None, store: str
         hydraulics=hydraulics_dict(scenario, corners))
 
 
-def corner_threads(scenario: Scenario, corners: int, threads: int | None = None, sink=None) -> int:
-    """How many corners a run solves side by side: ``threads`` (None: one per CPU core), at most one
-    per corner. One when a ``sink`` takes the rows as they are solved (they go to it in corner
-    order) and for the scipy methods (their integrators keep state of their own); the compiled
-    kernel releases the GIL, so on the 'fast' method the corners' kernels run at once."""
+def corner_threads(scenario: Scenario, corners: int, threads: int = 1, sink=None) -> int:
+    """How many corners a run solves side by side: ``threads``, at most one per corner. One when a
+    ``sink`` takes the rows as they are solved (they go to it in corner order) and for the scipy
+    methods (their integrators keep state of their own); the compiled kernel releases the GIL, so
+    on the 'fast' method the corners' kernels run at once. The default is one: measured on the
+    24-hour demo on 2 cores, two threads took about a fifth less wall time and a fifth more CPU
+    time (DEVELOPERS.md, "The main command's speed")."""
+    if not (isinstance(threads, (int, np.integer)) and threads >= 1):
+        raise ModelError(f"run: threads must be a whole number of at least 1, got {threads!r}")
     if sink is not None or scenario.solver.method != "fast":
         return 1
-    wanted = (os.cpu_count() or 1) if threads is None else int(threads)
-    if wanted < 1:
-        raise ModelError(f"run: threads must be a whole number of at least 1, got {threads}")
-    return max(1, min(corners, wanted))
+    return min(corners, int(threads))
 
 
 class CornerThreads:

@@ -62,6 +62,6 @@ def threads_count(text: str) -> int:
 
 def add_threads_option(p) -> None:
     """``--threads N``: how many corners a run solves side by side (``thermo.chain.run.corner_threads``)."""
-    p.add_argument("--threads", type=threads_count, default=None, metavar="N",
-                   help="corners solved side by side (default: one per corner, up to the CPU cores; 1: one after "
-                        "another); the results are the same to the bit whatever N")
+    p.add_argument("--threads", type=threads_count, default=1, metavar="N",
+                   help="corners solved side by side, up to N (default 1: one after another); less wall time, "
+                        "more CPU time; the results are the same to the bit whatever N")

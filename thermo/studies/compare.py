@@ -161,7 +161,7 @@ def bias_warnings(plans, threshold_points: float = BIAS_WARNING_POINTS) -> list[
     return lines
 
 
-def run_comparison(plans, *, progress=None, rebalanced=None, threads: int | None = None) -> Comparison:
+def run_comparison(plans, *, progress=None, rebalanced=None, threads: int = 1) -> Comparison:
     """Run each planned scenario in full (``progress(corner, segment)`` is called as segments finish);
     ``rebalanced``: what ``keep_bias_plans`` changed, carried into the comparison; ``threads``: corners
     solved side by side in each run (``thermo.chain.run.corner_threads``)."""
@@ -171,7 +171,7 @@ def run_comparison(plans, *, progress=None, rebalanced=None, threads: int | None
 
 
 def compare(path, *, variants=(), overrides=(), only=None, keep_bias=None,
-            threads: int | None = None) -> Comparison:
+            threads: int = 1) -> Comparison:
     """The baseline and each variant of a scenario file, run in full.
 
     Parameters
@@ -187,8 +187,8 @@ def compare(path, *, variants=(), overrides=(), only=None, keep_bias=None,
     keep_bias : str or None
         "balance_bar" or "rear_master_cylinder": re-balance variants that move
         the front share back to the baseline's (``keep_bias_plans``); None: leave them [-]
-    threads : int or None
-        Corners solved side by side in each run (None: one per corner, up to the CPU cores) [-]
+    threads : int
+        Corners solved side by side in each run (1: one after another) [-]
 
     Returns
     -------

@@ -104,8 +104,7 @@ def run_point(job: StudyJob, values) -> dict:
     out = {"values": {k: _plain(v) for k, v in zip(job.keys, values)}}
     try:
         scenario = point_scenario(job, values)
-        results = run_scenario(scenario, segments=first_stints(expand_plan(scenario), job.stints),
-                               threads=1)     # a study's parallelism is its workers
+        results = run_scenario(scenario, segments=first_stints(expand_plan(scenario), job.stints))
         settled = _laps_to_settle(scenario) if job.settle else {}
     except BrakeheatError as error:
         return {**out, "corners": [], "error": str(error)}
