@@ -250,3 +250,19 @@ def test_corners_side_by_side_give_the_same_json(small_runs):
 def test_threads_must_be_a_whole_number_of_at_least_one(value):
     code, out, err = cli(["run", SMALL, "--json", "--threads", value])
     assert code == 2 and out == "" and "argument --threads: expected a whole number of at least 1" in err
+
+
+def test_the_json_summary_reaches_stdout_in_one_write(monkeypatch):
+    """``--json`` prints with one write (token by token, an unbuffered stdout made a system call of
+    each: 260 000 for the 24-hour demo), the bytes ``json.dumps(indent=2)`` gives and a newline; a
+    value JSON cannot hold raises before anything is written."""
+    import sys
+    from thermo.cli.stdout_json import print_json
+    writes = []
+    monkeypatch.setattr(sys, "stdout", type("Counting", (), {"write": lambda self, text: writes.append(text)})())
+    data = {"corners": [{"name": "front", "peaks_k": [373.15, 412.5], "ok": True, "stop_time_s": None}]}
+    print_json(data)
+    assert writes == [json.dumps(data, indent=2) + "\n"]
+    with pytest.raises(ValueError):
+        print_json({"peak_k": float("nan")})
+    assert len(writes) == 1

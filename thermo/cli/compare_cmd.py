@@ -6,6 +6,7 @@ import sys
 from pathlib import Path
 
 from thermo.cli.options import add_common_options, add_threads_option
+from thermo.cli.stdout_json import print_json
 from thermo.studies.compare import (
     BIAS_WARNING_POINTS, KEEP_BIAS_CHOICES, bias_warnings, keep_bias_plans, plan_comparison, run_comparison,
 )
@@ -107,8 +108,7 @@ def compare_command(args) -> int:
         command = "demo --compare" if getattr(args, "command", None) == "demo" else "compare"
         write_output_set(Path(args.out), command, lambda out: write_comparison_files(data, runs, out, warnings))
     if args.json:
-        json.dump(data, sys.stdout, indent=2, allow_nan=False)
-        sys.stdout.write("\n")
+        print_json(data)
     else:
         print(format_comparison(data))
         if args.out:

@@ -3,8 +3,8 @@ from __future__ import annotations
 
 import datetime
 import json
-import sys
 from pathlib import Path
+from thermo.cli.stdout_json import print_json
 
 
 def add_parser(sub) -> None:
@@ -85,8 +85,7 @@ def fit_command(args) -> int:
         write_output_set(Path(args.out), "fit",
                          lambda out: write_fit_files(result, summary, out, (target, text) if in_set else None))
     if args.json:
-        json.dump(summary, sys.stdout, indent=2, allow_nan=False)
-        sys.stdout.write("\n")
+        print_json(summary)
     else:
         print(format_fit(result))
         wrote = [f"the calibrated scenario {target}"] if target is not None else []

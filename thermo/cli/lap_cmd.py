@@ -2,11 +2,10 @@
 logged lap, or of the lap built from a track description with a scenario's car envelope."""
 from __future__ import annotations
 
-import json
-import sys
 from pathlib import Path
 
 from thermo.studies.lap import built_lap_dict, lap_from_track, lap_summary
+from thermo.cli.stdout_json import print_json
 
 LAP_TRACE_CSV = "lap_trace.csv"
 
@@ -107,8 +106,7 @@ def lap_command(args) -> int:
     if args.out:
         write_output_set(Path(args.out), "lap", lambda out: write_lap_files(trace, comment, out))
     if args.json:
-        json.dump(summary, sys.stdout, indent=2, allow_nan=False)
-        sys.stdout.write("\n")
+        print_json(summary)
     else:
         print(format_lap(summary))
         if args.out:

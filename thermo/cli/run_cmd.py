@@ -2,13 +2,12 @@
 from __future__ import annotations
 
 import gc
-import json
-import sys
 from pathlib import Path
 
 from thermo.cli.exit_codes import EXIT_EXCEEDED, EXIT_OK
 from thermo.cli.options import add_common_options, add_threads_option, demo_scenario_path, overrides_with_solver
 from thermo.studies.compare import BIAS_WARNING_POINTS
+from thermo.cli.stdout_json import print_json
 
 
 def _lap_rows(text: str) -> int:
@@ -106,8 +105,7 @@ def _write_and_print(results, args) -> None:
         from thermo.output.tables_csv import write_laps_csv
         write_laps_csv(results, Path(args.csv))
     if args.json:
-        json.dump(summary_dict(results), sys.stdout, indent=2, allow_nan=False)
-        sys.stdout.write("\n")
+        print_json(summary_dict(results))
     else:
         from thermo.output.report import format_run_report
         print(format_run_report(results, args.laps))

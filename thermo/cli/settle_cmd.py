@@ -1,12 +1,11 @@
 """`brakeheat settle SCENARIO.toml`: the settled (cyclic steady-state) lap of each corner."""
 from __future__ import annotations
 
-import json
-import sys
 from pathlib import Path
 
 from thermo.cli.options import add_common_options
 from thermo.studies.settle import settle, settled_dict
+from thermo.cli.stdout_json import print_json
 
 
 def add_parser(sub) -> None:
@@ -46,8 +45,7 @@ def settle_command(args) -> int:
     results = settle(scenario, corners=args.corner, phase=args.phase)
     data = settled_dict(scenario, results)
     if args.json:
-        json.dump(data, sys.stdout, indent=2, allow_nan=False)
-        sys.stdout.write("\n")
+        print_json(data)
     else:
         print(format_settled(data))
     return 0

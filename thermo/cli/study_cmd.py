@@ -7,12 +7,12 @@ interrupted study keeps its finished points and ``--resume`` continues it.
 """
 from __future__ import annotations
 
-import json
 import sys
 from pathlib import Path
 
 from lapdata.echo import printable
 from thermo.output.text_table import format_table, number
+from thermo.cli.stdout_json import print_json
 
 STUDY_FILES = {"sweep": "sweep.h5", "uncertainty": "uncertainty.h5"}
 DEFAULT_ROWS = 40
@@ -163,8 +163,7 @@ def sweep_command(args) -> int:
         return [write_study_csv(record, out / "sweep.csv"), out / "report.html", *plot_sweep(record, out)]
     written = _finish_out(checkpoint, "sweep", rest)          # the files first: a closed pipe cannot lose them
     if args.json:
-        json.dump(data, sys.stdout, indent=2, allow_nan=False)
-        sys.stdout.write("\n")
+        print_json(data)
     else:
         print(format_sweep(data, args.rows) + written)
     return 0
@@ -236,8 +235,7 @@ def uncertainty_command(args) -> int:
         return [write_study_csv(record, out / "uncertainty.csv"), out / "report.html", *plot_uncertainty(data, out)]
     written = _finish_out(checkpoint, "uncertainty", rest)
     if args.json:
-        json.dump(data, sys.stdout, indent=2, allow_nan=False)
-        sys.stdout.write("\n")
+        print_json(data)
     else:
         print(format_uncertainty(data) + written)
     return 0
