@@ -195,3 +195,29 @@ def test_the_demo_car_worn_in_stints_is_the_laps_one_at_a_time(monkeypatch):
     laps_one_at_a_time(monkeypatch)
     assert_same_run(stint, run_scenario(scenario))
 
+
+
+def test_a_call_keeps_the_link_flows_only_for_a_run_that_stores_them():
+    """Without ``--store full`` the stint kernel records no link flows (they were 60 % of what a call
+    wrote, unread); the temperatures are those of a call that keeps them, to the bit, and the kept
+    flows are the network's flow law at the recorded states (``CompiledNetwork.flows``)."""
+    scenario = small_scenario(WEAR_PLAN[:1], [("pad_wear.wear_coefficient_mm3_per_kj", 20.0)])
+    calls = {}
+    for store in ("standard", "full"):
+        setup = corner_setups(scenario)[0]
+        run = corner_run.CornerRun(scenario, setup, store=store)
+        segments = expand_plan(scenario)
+        duties = [corner_duties(scenario, s, [setup.brake])[setup.name] for s in segments]
+        schedules = [corner_run.segment_schedule(scenario, setup.design, s, d) for s, d in zip(segments, duties)]
+        calls[store] = stint_call.solve_stint(run, schedules, duties, [corner_run.lap_energy_j(d) for d in duties],
+                                              corner_run.MIN_PAD_THICKNESS_M)
+    without, kept = calls["standard"], calls["full"]
+    assert without.result.flows.shape[1] == 0 and without.solved(0).link_flows_w is None
+    for k in range(kept.laps_done):
+        np.testing.assert_array_equal(without.solved(k).temperatures_k, kept.solved(k).temperatures_k)
+        np.testing.assert_array_equal(without.solved(k).link_energy_j, kept.solved(k).link_energy_j)
+    first = kept.solved(0)
+    schedule = kept.schedules[0]
+    boundary_k, drivers = setup.network.inputs_series(first.time_s, schedule)
+    by_law = np.array([setup.network.flows(t, b, d) for t, b, d in zip(first.temperatures_k, boundary_k, drivers)])
+    np.testing.assert_allclose(first.link_flows_w, by_law, rtol=1e-9, atol=1e-6)

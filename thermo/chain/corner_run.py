@@ -135,6 +135,7 @@ class CornerRun:
         self.clock = WallClock(scenario.solver.wall_clock_limit_s) if clock is None else clock
         self.grid = setup.grid
         self.full = store == "full" and sink is None        # every row and the link flows kept in memory
+        self.keeps_flows = store == "full"                  # in memory or streamed: the solves keep link flows
         self.interval_s = 0.0 if self.full else (output_interval_s(scenario) if interval_s is None else interval_s)
         self.pad_layer_count = len(pad_layers(design))   # kept as the pad wears, so the state maps node for node
         self.model, self.compiled = setup.model, setup.network

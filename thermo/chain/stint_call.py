@@ -29,7 +29,7 @@ class Solved(NamedTuple):
 
     time_s: np.ndarray
     temperatures_k: np.ndarray
-    link_flows_w: np.ndarray
+    link_flows_w: np.ndarray | None     # None unless the run keeps the link flows (``CornerRun.keeps_flows``)
     link_energy_j: np.ndarray
     heat_in_j: float
     lost_j: float
@@ -58,7 +58,8 @@ class StintCall:
     def solved(self, k: int) -> Solved:
         r0, r1 = self.lap_rec[k], self.lap_rec[k + 1]
         res, energy = self.result, self.result.link_energy[k]
-        return Solved(self.out_times[k], res.temps[0, r0:r1], res.flows[0, r0:r1], energy, float(res.heat_in[k]),
+        flows = res.flows[0, r0:r1] if res.flows.shape[1] else None
+        return Solved(self.out_times[k], res.temps[0, r0:r1], flows, energy, float(res.heat_in[k]),
                       float(np.sum(energy[self.link_to_boundary], axis=-1)), res.final[k])
 
 
@@ -97,8 +98,9 @@ def solve_stint(run, lap_schedules, duties, energies_j, min_thickness_m: float) 
     pk = run.pad_kernel
     knet = pk.network
     n, n_links, n_layers = knet.n_nodes, knet.link_a.size, len(run.layers)
+    flow_rows = lap_rec[-1] if run.keeps_flows else 0       # the link flows at every row only if the run keeps them
     result = kernel.KernelResult(
-        np.empty((1, lap_rec[-1], n)), np.empty((1, lap_rec[-1], n_links)), np.empty((laps, n)), np.empty((laps, n)),
+        np.empty((1, lap_rec[-1], n)), np.empty((1, flow_rows, n_links)), np.empty((laps, n)), np.empty((laps, n)),
         np.zeros((laps, n), dtype=np.int64), np.zeros((laps, n_links)), np.zeros(laps),
         np.zeros(laps, dtype=np.int64), np.zeros(laps, dtype=np.int64), np.zeros((laps, 2), dtype=np.int64))
     pads = StintPads(np.empty((laps, *pk.output_weights.shape)), np.empty(laps), np.empty((laps, n_layers)),

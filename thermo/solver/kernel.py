@@ -97,7 +97,7 @@ class KernelResult(NamedTuple):
     """What the one-configuration kernels write for B configurations (allocated by the caller)."""
 
     temps: np.ndarray       # (B, n_rec, n) [K] at the recorded grid points
-    flows: np.ndarray       # (B, n_rec, L) [W]
+    flows: np.ndarray       # (B, n_rec, L) [W]; (B, 0, L): not kept (``_advance_one``)
     final: np.ndarray       # (B, n) [K]
     peak: np.ndarray        # (B, n) [K]
     peak_step: np.ndarray   # (B, n) grid index of each peak
@@ -280,7 +280,8 @@ ARGS_DOC = """Shapes: T0 (B, n); ``KernelInputs``: h (N,); bk_grid (N+1, nb);
     n_node, n_boundary); sliced, slot_sliced (n_conv,), six (B, n_conv) the tables pre-interpolated along
     constant boundary temperatures (``_flows``); mass, base (B, n); seg_lo, seg_hi, seg_slope (B, S);
     order, ptr, nbr the elimination plan (``thermo.solver.elimination``). max_newton: iterations per stage;
-    record (N+1,) bool: grid points written to ``KernelResult``: temps (B, n_rec, n) and flows (B, n_rec, L);
+    record (N+1,) bool: grid points written to ``KernelResult``: temps (B, n_rec, n) and flows (B, n_rec, L)
+    (the full-Newton kernel keeps none if flows has no rows);
     final, peak (B, n); peak_step (B, n) grid index of each peak; link_energy (B, L); heat_in, status,
     fail_step (B,); counts (B, 2) flow and matrix evaluations. The linearised entry points add n_laps (the
     grid is driven that many times, carrying the state; record applies to the last lap, peak_step counts
@@ -377,9 +378,11 @@ def _advance_one(b, T0, inputs, net, rtol, atol, max_newton, record, out):
     if not _flows(T, bk_grid[0], drv_grid[0], links, f1, dfa, dfb, ax_i, ax_f, ax_ok):
         st = STATUS_OUTSIDE_GRID
     rec = 0
+    keep_flows = flows_out.shape[1] > 0     # no rows: the caller keeps no link flows
     if record[0]:
         temps_out[b, rec, :] = T
-        flows_out[b, rec, :] = f1
+        if keep_flows:
+            flows_out[b, rec, :] = f1
         rec += 1
     for i in range(n):
         peak[b, i] = T[i]
@@ -473,7 +476,8 @@ def _advance_one(b, T0, inputs, net, rtol, atol, max_newton, record, out):
         step += 1
         if record[step]:
             temps_out[b, rec, :] = T
-            flows_out[b, rec, :] = f1
+            if keep_flows:
+                flows_out[b, rec, :] = f1
             rec += 1
     if st == STATUS_OK and not _flows(T, bk_grid[N], drv_grid[N], links, f3, dfa, dfb, ax_i, ax_f, ax_ok):
         st = STATUS_OUTSIDE_GRID        # the accepted end state itself lies off a table
