@@ -67,4 +67,6 @@ def test_import_thermo_is_ours():
     assert thermo.__version__ == PYPROJECT["project"]["version"]
     assert thermo.CAUTION.startswith("CAUTION:")
     assert Path(thermo.__file__).resolve().is_relative_to(ROOT)
-    assert PYPROJECT["project"]["scripts"]["brakeheat"] == "thermo.cli.main:main"
+    assert PYPROJECT["project"]["scripts"]["brakeheat"] == "thermo.cli.main:command"      # main, in a process of its own
+    from thermo.cli.main import command, main
+    assert callable(command) and callable(main)

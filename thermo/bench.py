@@ -135,8 +135,8 @@ RUN24H_AT_ISSUE = {"json_cpu_s": 35.0, "json_peak_mb": 2100.0, "out_cpu_s": 64.0
                    "results_h5_mb": 902.0, "trace_1khz_2h_peak_mb": 8000.0}
 _CHILD = ("import resource, sys, time\n"
           "t = time.perf_counter()\n"
-          "from thermo.cli.main import main\n"
-          "code = main(sys.argv[1:])\n"
+          "from thermo.cli.main import command\n"
+          "code = command(sys.argv[1:])\n"
           "wall = time.perf_counter() - t\n"
           "u = resource.getrusage(resource.RUSAGE_SELF)\n"
           "sys.stderr.write(f'\\nBENCH {u.ru_utime + u.ru_stime} {u.ru_maxrss} {wall}\\n')\n"
@@ -204,9 +204,9 @@ def run24h(quick: bool = False) -> dict:
 # issue 15: 1000 uncertainty samples of the demo's first stint
 STUDY_TARGETS = {"samples": 1000, "wall_s": 60.0, "peak_mb": 2000.0}
 _STUDY_CHILD = ("import resource, sys, time\n"
-                "from thermo.cli.main import main\n"
+                "from thermo.cli.main import command\n"
                 "t = time.perf_counter()\n"
-                "code = main(sys.argv[1:])\n"
+                "code = command(sys.argv[1:])\n"
                 "wall = time.perf_counter() - t\n"
                 "me, kids = resource.getrusage(resource.RUSAGE_SELF), resource.getrusage(resource.RUSAGE_CHILDREN)\n"
                 "sys.stderr.write(f'\\nBENCH {wall} {me.ru_maxrss} {kids.ru_maxrss}\\n')\n"

@@ -55,6 +55,15 @@ def _say(kind: str, message) -> None:
     print(f"brakeheat: {kind}: {printable(message)}", file=sys.stderr)
 
 
+def command(argv=None) -> int:
+    """The `brakeheat` console script: ``main`` in a process of its own, which keeps the memory it
+    frees for its next arrays (``thermo.cli.freed_memory``; ``main`` alone leaves an embedding
+    program's allocator as it is)."""
+    from thermo.cli.freed_memory import keep_freed_memory
+    keep_freed_memory()
+    return main(argv)
+
+
 def main(argv=None) -> int:
     interrupts.reset()
     previous = {}
@@ -133,5 +142,5 @@ def _one_line(error: BaseException) -> str:
 if __name__ == "__main__":
     # run the package's copy of this module, not this __main__ one, so that the interrupt state
     # (set by the signal handler, read by the progress line's safe points) lives in one place
-    from thermo.cli.main import main as package_main
-    sys.exit(package_main())
+    from thermo.cli.main import command as package_command
+    sys.exit(package_command())
