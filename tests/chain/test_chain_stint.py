@@ -221,3 +221,24 @@ def test_a_call_keeps_the_link_flows_only_for_a_run_that_stores_them():
     boundary_k, drivers = setup.network.inputs_series(first.time_s, schedule)
     by_law = np.array([setup.network.flows(t, b, d) for t, b, d in zip(first.temperatures_k, boundary_k, drivers)])
     np.testing.assert_allclose(first.link_flows_w, by_law, rtol=1e-9, atol=1e-6)
+
+
+def test_a_call_hands_back_the_inputs_the_kernel_read_at_its_rows():
+    """The validity check samples the boundary temperatures and drivers at the stored rows; a stint
+    call hands back those the kernel read there (its inputs on the grid): they must be the
+    schedule's own values at those times to the bit (``CompiledNetwork.inputs_series``), so the
+    correlations are checked on the same numbers as before."""
+    scenario = small_scenario(WEAR_PLAN[:1], [])
+    setup = corner_setups(scenario)[0]
+    run = corner_run.CornerRun(scenario, setup)
+    segments = expand_plan(scenario)
+    duties = [corner_duties(scenario, s, [setup.brake])[setup.name] for s in segments]
+    schedules = [corner_run.segment_schedule(scenario, setup.design, s, d) for s, d in zip(segments, duties)]
+    call = stint_call.solve_stint(run, schedules, duties, [corner_run.lap_energy_j(d) for d in duties],
+                                  corner_run.MIN_PAD_THICKNESS_M)
+    for k in range(call.laps_done):
+        solved = call.solved(k)
+        boundary_k, drivers = setup.network.inputs_series(solved.time_s, call.schedules[k])
+        np.testing.assert_array_equal(solved.boundary_k, boundary_k)
+        np.testing.assert_array_equal(solved.drivers, drivers)
+        assert solved.boundary_k.shape == (solved.time_s.size, setup.network.n_boundaries)

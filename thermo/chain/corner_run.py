@@ -239,12 +239,14 @@ class CornerRun:
             a, b = schedule.t_start_s, schedule.t_end_s
             out_t = None if settings.max_stride > 1 else output_grid(schedule, a, b)
             grid, out_t = step_grid(self.compiled, schedule, settings, a, b, out_t)
-            res = run_compiled(self.pad_kernel.network, kernel_inputs(self.compiled, schedule, grid), self.T,
-                               settings, out_t, phase)
+            inputs = kernel_inputs(self.compiled, schedule, grid)
+            res = run_compiled(self.pad_kernel.network, inputs, self.T, settings, out_t, phase)
             if res is not None:
                 energy = res.link_energy[0]
+                rows = np.searchsorted(grid, out_t)         # the output times are grid points
                 return Solved(out_t, res.temps[0], res.flows[0], energy, float(res.heat_in[0]),
-                               float(np.sum(energy[self.compiled.link_to_boundary], axis=-1)), res.final[0])
+                               float(np.sum(energy[self.compiled.link_to_boundary], axis=-1)), res.final[0],
+                               inputs.bk_grid[rows], inputs.drv_grid[rows])
             self._current_model()       # off the tables: the model's own functions, in the numpy stepper
         with _quietly(settings.method):
             sol = solve_network(self.compiled, schedule, self.T, settings, phase=phase)
@@ -340,7 +342,10 @@ class CornerRun:
         self.lost += sol.lost_j
         self.T = sol.final_k.copy()
         picks = slice(None, None, VALIDITY_SAMPLE_EVERY)
-        boundary_k, drivers = self.compiled.inputs_series(sol.time_s[picks], schedule)
+        if isinstance(sol, Solved):             # a stint call's rows: the values the kernel read there
+            boundary_k, drivers = sol.boundary_k[picks], sol.drivers[picks]
+        else:
+            boundary_k, drivers = self.compiled.inputs_series(sol.time_s[picks], schedule)
         self.states.append((drivers[:, 0].copy() if drivers.shape[1] else np.zeros(len(boundary_k)),
                             sol.temperatures_k[picks].copy(), boundary_k))
         if segment.lap_index:

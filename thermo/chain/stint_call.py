@@ -34,13 +34,16 @@ class Solved(NamedTuple):
     heat_in_j: float
     lost_j: float
     final_k: np.ndarray
+    boundary_k: np.ndarray      # (rows, n_boundaries) the boundary temperatures at the rows [K], read by the kernel
+    drivers: np.ndarray         # (rows, n_drivers) the drivers at the rows, read by the kernel
 
 
 @dataclass
 class StintCall:
     """The laps a ``solve_stint`` call solved: ``laps_done`` of them; ``stopped`` when the lap after
     them left a conductance table or failed (it is to be done on its own); each lap's
-    ``schedules``, friction energy ``energy_j`` [J], and through ``solved(k)`` its solution; ``pads``
+    ``schedules``, friction energy ``energy_j`` [J], and through ``solved(k)`` its solution (with the
+    boundary temperatures and drivers at its rows, ``inputs`` at ``rows``); ``pads``
     (``StintPads``) the pad after each lap's wear; ``direct_start`` the interface share the first
     lap was solved with (None: the user's fixed partition)."""
 
@@ -51,6 +54,8 @@ class StintCall:
     energy_j: np.ndarray
     result: kernel.KernelResult
     lap_rec: np.ndarray
+    inputs: kernel.KernelInputs
+    rows: np.ndarray
     pads: StintPads
     link_to_boundary: np.ndarray
     direct_start: float | None
@@ -59,8 +64,10 @@ class StintCall:
         r0, r1 = self.lap_rec[k], self.lap_rec[k + 1]
         res, energy = self.result, self.result.link_energy[k]
         flows = res.flows[0, r0:r1] if res.flows.shape[1] else None
+        rows = self.rows[r0:r1]
         return Solved(self.out_times[k], res.temps[0, r0:r1], flows, energy, float(res.heat_in[k]),
-                      float(np.sum(energy[self.link_to_boundary], axis=-1)), res.final[k])
+                      float(np.sum(energy[self.link_to_boundary], axis=-1)), res.final[k],
+                      self.inputs.bk_grid[rows], self.inputs.drv_grid[rows])
 
 
 def solve_stint(run, lap_schedules, duties, energies_j, min_thickness_m: float) -> StintCall:
@@ -91,9 +98,9 @@ def solve_stint(run, lap_schedules, duties, energies_j, min_thickness_m: float) 
     lap_grid = np.concatenate([[0], np.cumsum([g.size for g in grids])]).astype(np.int64)
     lap_step = lap_grid - np.arange(laps + 1)
     lap_rec = np.concatenate([[0], np.cumsum([t.size for t in out_times])]).astype(np.int64)
+    rows = np.concatenate([g0 + np.searchsorted(g, t) for g0, g, t in zip(lap_grid, grids, out_times)])
     record = np.zeros(lap_grid[-1], dtype=np.bool_)
-    for g0, g, t in zip(lap_grid, grids, out_times):
-        record[g0 + np.searchsorted(g, t)] = True
+    record[rows] = True         # the output times are grid points (``step_grid``)
 
     pk = run.pad_kernel
     knet = pk.network
@@ -116,6 +123,6 @@ def solve_stint(run, lap_schedules, duties, energies_j, min_thickness_m: float) 
                          float(settings.rtol), float(settings.atol_k), kernel.MAX_NEWTON, record, result,
                          pk.output_weights, wear, float(run.thickness), np.asarray(run.layers, dtype=float),
                          0.0 if now.direct_disc_share is None else float(now.direct_disc_share), pads)
-    return StintCall(done, done < laps, schedules, out_times, wear.energy_j, result, lap_rec, pads,
+    return StintCall(done, done < laps, schedules, out_times, wear.energy_j, result, lap_rec, joined, rows, pads,
                      compiled.link_to_boundary, now.direct_disc_share)
 
