@@ -4,6 +4,7 @@ from __future__ import annotations
 import datetime
 import json
 from pathlib import Path
+
 from thermo.cli.stdout_json import print_json
 
 

@@ -4,8 +4,8 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from thermo.studies.lap import built_lap_dict, lap_from_track, lap_summary
 from thermo.cli.stdout_json import print_json
+from thermo.studies.lap import built_lap_dict, lap_from_track, lap_summary
 
 LAP_TRACE_CSV = "lap_trace.csv"
 

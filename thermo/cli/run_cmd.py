@@ -6,8 +6,8 @@ from pathlib import Path
 
 from thermo.cli.exit_codes import EXIT_EXCEEDED, EXIT_OK
 from thermo.cli.options import add_common_options, add_threads_option, demo_scenario_path, overrides_with_solver
-from thermo.studies.compare import BIAS_WARNING_POINTS
 from thermo.cli.stdout_json import print_json
+from thermo.studies.compare import BIAS_WARNING_POINTS
 
 
 def _lap_rows(text: str) -> int:

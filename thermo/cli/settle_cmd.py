@@ -4,8 +4,8 @@ from __future__ import annotations
 from pathlib import Path
 
 from thermo.cli.options import add_common_options
-from thermo.studies.settle import settle, settled_dict
 from thermo.cli.stdout_json import print_json
+from thermo.studies.settle import settle, settled_dict
 
 
 def add_parser(sub) -> None:

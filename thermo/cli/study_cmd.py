@@ -11,8 +11,8 @@ import sys
 from pathlib import Path
 
 from lapdata.echo import printable
-from thermo.output.text_table import format_table, number
 from thermo.cli.stdout_json import print_json
+from thermo.output.text_table import format_table, number
 
 STUDY_FILES = {"sweep": "sweep.h5", "uncertainty": "uncertainty.h5"}
 DEFAULT_ROWS = 40
