@@ -112,18 +112,24 @@ def test_a_lap_off_the_tables_mid_stint_runs_on_the_model_and_the_stint_goes_on(
     assert_same_run(stint, run_scenario(scenario))
 
 
-def test_after_a_stint_the_kernel_arrays_hold_the_worn_pad_as_written_anew():
-    """The stint kernel writes the worn pad's values into the corner's arrays lap by lap; at the end
-    the run takes the pad's values in Python for the same thickness: they must be the arrays'
-    values to the bit (one source, ``pad_terms.pad_values`` and ``pad_rows.write_pad_values``)."""
-    scenario = small_scenario(WEAR_PLAN[:1], [("pad_wear.wear_coefficient_mm3_per_kj", 20.0)])
+def _one_call(scenario, store: str = "standard"):
+    """(setup, CornerRun, StintCall) of the first corner's laps of ``scenario`` in one ``solve_stint``."""
     setup = corner_setups(scenario)[0]
-    run = corner_run.CornerRun(scenario, setup)
+    run = corner_run.CornerRun(scenario, setup, store=store)
     segments = expand_plan(scenario)
     duties = [corner_duties(scenario, s, [setup.brake])[setup.name] for s in segments]
     schedules = [corner_run.segment_schedule(scenario, setup.design, s, d) for s, d in zip(segments, duties)]
     call = stint_call.solve_stint(run, schedules, duties, [corner_run.lap_energy_j(d) for d in duties],
                                   corner_run.MIN_PAD_THICKNESS_M)
+    return setup, run, call
+
+
+def test_after_a_stint_the_kernel_arrays_hold_the_worn_pad_as_written_anew():
+    """The stint kernel writes the worn pad's values into the corner's arrays lap by lap; at the end
+    the run takes the pad's values in Python for the same thickness: they must be the arrays'
+    values to the bit (one source, ``pad_terms.pad_values`` and ``pad_rows.write_pad_values``)."""
+    scenario = small_scenario(WEAR_PLAN[:1], [("pad_wear.wear_coefficient_mm3_per_kj", 20.0)])
+    setup, run, call = _one_call(scenario)
     assert call.laps_done == 5 and not call.stopped
     worn = float(call.pads.thickness_m[-1])
     assert worn < setup.design.pad.thickness_m
@@ -202,16 +208,7 @@ def test_a_call_keeps_the_link_flows_only_for_a_run_that_stores_them():
     wrote, unread); the temperatures are those of a call that keeps them, to the bit, and the kept
     flows are the network's flow law at the recorded states (``CompiledNetwork.flows``)."""
     scenario = small_scenario(WEAR_PLAN[:1], [("pad_wear.wear_coefficient_mm3_per_kj", 20.0)])
-    calls = {}
-    for store in ("standard", "full"):
-        setup = corner_setups(scenario)[0]
-        run = corner_run.CornerRun(scenario, setup, store=store)
-        segments = expand_plan(scenario)
-        duties = [corner_duties(scenario, s, [setup.brake])[setup.name] for s in segments]
-        schedules = [corner_run.segment_schedule(scenario, setup.design, s, d) for s, d in zip(segments, duties)]
-        calls[store] = stint_call.solve_stint(run, schedules, duties, [corner_run.lap_energy_j(d) for d in duties],
-                                              corner_run.MIN_PAD_THICKNESS_M)
-    without, kept = calls["standard"], calls["full"]
+    (setup, _, without), (_, _, kept) = _one_call(scenario, "standard"), _one_call(scenario, "full")
     assert without.result.flows.shape[1] == 0 and without.solved(0).link_flows_w is None
     for k in range(kept.laps_done):
         np.testing.assert_array_equal(without.solved(k).temperatures_k, kept.solved(k).temperatures_k)
@@ -228,14 +225,7 @@ def test_a_call_hands_back_the_inputs_the_kernel_read_at_its_rows():
     call hands back those the kernel read there (its inputs on the grid): they must be the
     schedule's own values at those times to the bit (``CompiledNetwork.inputs_series``), so the
     correlations are checked on the same numbers as before."""
-    scenario = small_scenario(WEAR_PLAN[:1], [])
-    setup = corner_setups(scenario)[0]
-    run = corner_run.CornerRun(scenario, setup)
-    segments = expand_plan(scenario)
-    duties = [corner_duties(scenario, s, [setup.brake])[setup.name] for s in segments]
-    schedules = [corner_run.segment_schedule(scenario, setup.design, s, d) for s, d in zip(segments, duties)]
-    call = stint_call.solve_stint(run, schedules, duties, [corner_run.lap_energy_j(d) for d in duties],
-                                  corner_run.MIN_PAD_THICKNESS_M)
+    setup, _, call = _one_call(small_scenario(WEAR_PLAN[:1], []))
     for k in range(call.laps_done):
         solved = call.solved(k)
         boundary_k, drivers = setup.network.inputs_series(solved.time_s, call.schedules[k])
