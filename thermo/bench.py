@@ -119,8 +119,8 @@ def startup_s(repeats: int = 5) -> dict:
 
     def fresh(code):
         return lambda: subprocess.run([sys.executable, "-c", code], capture_output=True, check=True)
-    help_s, _ = _timed(fresh("from thermo.cli.main import main; import sys; sys.argv = ['brakeheat', '--help']\n"
-                             "try:\n    main()\nexcept SystemExit:\n    pass"), repeats)
+    help_s, _ = _timed(fresh("from thermo.cli.main import command; import sys; sys.argv = ['brakeheat', '--help']\n"
+                             "try:\n    command()\nexcept SystemExit:\n    pass"), repeats)
     import_s, _ = _timed(fresh("import thermo"), repeats)
     bare_s, _ = _timed(fresh("pass"), repeats)
     return {"help_s": help_s, "import_thermo_s": import_s, "bare_python_s": bare_s, "target_help_s": STARTUP_TARGET_S}
