@@ -5,7 +5,6 @@ from __future__ import annotations
 from pathlib import Path
 
 from thermo.cli.stdout_json import print_json
-from thermo.studies.lap import built_lap_dict, lap_from_track, lap_summary
 
 LAP_TRACE_CSV = "lap_trace.csv"
 
@@ -84,6 +83,7 @@ def lap_command(args) -> int:
     from thermo.output.folder import check_output_folder
     from thermo.output.manifest import write_output_set
     from thermo.scenario import load_scenario
+    from thermo.studies.lap import built_lap_dict, lap_from_track, lap_summary
 
     source = Path(args.trace)
     track_input = is_track_file(source)

@@ -7,10 +7,13 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from lapdata.echo import has_control_characters, shown
 from thermo.errors import ScenarioError
-from thermo.results import Results
+
+if TYPE_CHECKING:       # numpy and the network load with the first run, not with `brakeheat --help`
+    from thermo.results import Results
 
 BASELINE = "baseline"
 
