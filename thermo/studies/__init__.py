@@ -1,16 +1,12 @@
 """Studies built on whole runs: comparisons of variants, the settled lap, the braking of a lap.
 
 Library code (the command line is a thin layer over it); each returns plain results or
-JSON-ready dicts and never prints. Names are imported on first use, so that the command line's
-parser, which reads the comparison's option choices, does not load numpy (`brakeheat --help`).
+JSON-ready dicts and never prints. Importing the package stays light (its modules import numpy
+and the model inside their functions): the command line's parser reads the comparison's option
+choices, and `brakeheat --help` loads no numpy.
 """
-from lapdata.lazy import lazy_exports
+from thermo.studies.compare import Comparison, compare
+from thermo.studies.lap import lap_summary
+from thermo.studies.settle import settle, settled_dict
 
-_PUBLIC = {
-    "Comparison": "thermo.studies.compare", "compare": "thermo.studies.compare",
-    "lap_summary": "thermo.studies.lap", "settle": "thermo.studies.settle", "settled_dict": "thermo.studies.settle",
-}
-
-__all__ = list(_PUBLIC)
-
-__getattr__, __dir__ = lazy_exports("thermo.studies", _PUBLIC)
+__all__ = ["Comparison", "compare", "lap_summary", "settle", "settled_dict"]

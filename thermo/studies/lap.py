@@ -1,13 +1,13 @@
 """The braking of one lap: its braking zones and each corner's braking energy and power."""
 from __future__ import annotations
 
-import numpy as np
-
 from lapdata.units import KMH, STANDARD_GRAVITY
 
 
 def lap_summary(trace, scenario) -> dict:
     """Zones, energy per lap and per-corner energy of one trace with a scenario's car (JSON-ready)."""
+    import numpy as np
+
     from lapdata.zones import find_braking_zones
     from thermo.chain.setup import corner_brakes
     from thermo.duty.corner_duty import corner_heat_inputs_from_trace
@@ -64,6 +64,8 @@ def lap_from_track(path, scenario):
 def built_lap_dict(path, track, trace, sample_hz: float) -> dict:
     """What the lap command adds for a lap built from a track (JSON-ready): the track, the lap time,
     the top and minimum speed, and per segment its distance and its speeds."""
+    import numpy as np
+
     speed_kmh = np.asarray(trace.speed_mps) / KMH
     d = np.asarray(trace.distance_m)
     segments, start = [], 0.0
